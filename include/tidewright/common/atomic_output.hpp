@@ -1,0 +1,65 @@
+// Outputs that are either complete or absent. A file is written under a temporary name in
+// its destination folder and renamed over the target only when complete, so a failed write,
+// an exception or an interrupt (SIGINT, SIGTERM) never leaves a half-written file behind.
+// Existing outputs are refused unless the caller passes force (the CLI's --force).
+#pragma once
+
+#include <filesystem>
+#include <fstream>
+#include <string>
+#include <string_view>
+
+#include <nlohmann/json_fwd.hpp>
+
+namespace tidewright {
+
+// Throws InputError if `target` exists and !force, or if its folder does not exist or is
+// not writable. `option` names the option that gave the path, for the message.
+void check_output_path(const std::filesystem::path& target, bool force,
+                       std::string_view option = "");
+
+// A temporary path next to `target`, registered for removal on interrupt until committed or
+// discarded. Writers that need a file name (GDAL drivers) write here, then commit().
+class AtomicPath {
+ public:
+  AtomicPath(std::filesystem::path target, bool force, std::string_view option = "");
+  AtomicPath(const AtomicPath&) = delete;
+  AtomicPath& operator=(const AtomicPath&) = delete;
+  ~AtomicPath();
+
+  [[nodiscard]] const std::filesystem::path& temp_path() const noexcept { return temp_; }
+  [[nodiscard]] const std::filesystem::path& target() const noexcept { return target_; }
+  // Renames the temporary over the target (replacing a folder target as a whole).
+  void commit();
+  void discard() noexcept;
+
+ private:
+  std::filesystem::path target_;
+  std::filesystem::path temp_;
+  bool done_ = false;
+  int slot_ = -1;  // slot in the interrupt-cleanup registry
+};
+
+// A text file written through a stream; commit() checks the stream, flushes, syncs, renames.
+class AtomicFile {
+ public:
+  AtomicFile(std::filesystem::path target, bool force, std::string_view option = "");
+  [[nodiscard]] std::ostream& stream() noexcept { return out_; }
+  void commit();
+
+ private:
+  AtomicPath path_;
+  std::ofstream out_;
+};
+
+void write_text_file(const std::filesystem::path& target, std::string_view content, bool force,
+                     std::string_view option = "");
+// Pretty-printed (2 spaces), keys in insertion order of the caller's json, newline at end.
+void write_json_file(const std::filesystem::path& target, const nlohmann::ordered_json& value,
+                     bool force, std::string_view option = "");
+
+// Installs SIGINT/SIGTERM handlers that remove every registered temporary and exit with
+// 128 + signal. Called once by the command line.
+void install_interrupt_cleanup();
+
+}  // namespace tidewright

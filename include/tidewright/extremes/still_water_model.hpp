@@ -1,0 +1,50 @@
+// The present-day extreme still-water model as the later stages see it: a value type that
+// gives N_0(z), the expected number of exceedances of level z per year (see docs/methods.md).
+// Fitting lives elsewhere in this module; planning and mapping only need this.
+//
+// Glossary: z level (m above the water-level datum); mu location, sigma scale (m);
+// xi shape (Coles 2001 sign convention, xi > 0 heavy tail); u threshold (m);
+// lambda_u rate of independent exceedances of u per year.
+#pragma once
+
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace tidewright::extremes {
+
+enum class Family {
+  gumbel,  // annual maxima, xi = 0
+  gev,     // annual maxima (also the result of an r-largest fit)
+  gpd,     // peaks over threshold u with Poisson rate lambda_u
+};
+
+[[nodiscard]] std::string_view family_name(Family family);
+
+// Empirical annual exceedance rates of declustered peaks at levels below the GPD threshold,
+// used where sea-level rise brings a level of interest below u. Levels ascending, rates
+// descending; log-linear interpolation between points.
+struct EmpiricalRateCurve {
+  std::vector<double> level_m;
+  std::vector<double> rate_per_yr;
+};
+
+struct StillWaterModel {
+  Family family = Family::gev;
+  double location_m = 0.0;  // mu (GEV/Gumbel); unused for GPD
+  double scale_m = 1.0;     // sigma (> 0)
+  double shape = 0.0;       // xi; 0 for Gumbel
+  double threshold_m = 0.0;       // u (GPD only)
+  double rate_per_yr = 1.0;       // lambda_u (GPD only)
+  EmpiricalRateCurve below_threshold;  // GPD only; may be empty
+
+  // N_0(z). GEV/Gumbel annual maxima: -ln F(z) = [1 + xi (z - mu)/sigma]^(-1/xi)
+  // (Coles 2001, eq. 3.2); GPD: lambda_u [1 + xi (z - u)/sigma]^(-1/xi) for z >= u
+  // (Coles 2001, eq. 4.13). Returns 0 above a finite upper end point (xi < 0), and +inf
+  // below the GEV's lower end point (xi > 0).
+  [[nodiscard]] double annual_exceedance_rate(double level_m) const;
+  // The level z with N_0(z) = rate (the inverse of the above, where it exists).
+  [[nodiscard]] double level_for_rate(double rate_per_yr) const;
+};
+
+}  // namespace tidewright::extremes

@@ -1,0 +1,23 @@
+// Plain-text tables for terminal output: a header row, aligned columns, numbers right-aligned.
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace tidewright::report {
+
+class TextTable {
+ public:
+  explicit TextTable(std::vector<std::string> header);
+  void add_row(std::vector<std::string> cells);
+  [[nodiscard]] std::string render(const std::string& indent = "  ") const;
+
+ private:
+  std::vector<std::string> header_;
+  std::vector<std::vector<std::string>> rows_;
+};
+
+// Fixed-point text of a number with `decimals` digits ("—" for NaN).
+[[nodiscard]] std::string fixed(double value, int decimals);
+
+}  // namespace tidewright::report

@@ -1,0 +1,42 @@
+// The subcommand registry and the conventions every subcommand shares. A subcommand lives in
+// one file src/cli/<name>_command.cpp that calls register_command() from a static initialiser;
+// main.cpp adds every registered command to the application, in `order`.
+#pragma once
+
+#include <CLI/CLI.hpp>
+#include <functional>
+#include <string>
+#include <vector>
+
+namespace tidewright::cli {
+
+// Options that mean the same in every subcommand.
+struct CommonOptions {
+  bool quiet = false;  // --quiet: only errors and the requested outputs
+  bool force = false;  // --force: replace existing output files or folders
+};
+
+struct Command {
+  std::string name;
+  std::string summary;  // one line for `tidewright --help`
+  int order = 100;      // position in the help listing
+  // Adds the command's options to `app` and sets its callback. The callback throws
+  // InputError / ComputationError for the caller to turn into an exit code.
+  std::function<void(CLI::App& app, CommonOptions& common)> configure;
+};
+
+bool register_command(Command command);
+[[nodiscard]] std::vector<Command> registered_commands();  // sorted by order, then name
+
+// Shared options, so their names and help texts are decided once.
+void add_force_flag(CLI::App& app, CommonOptions& common);
+void add_quiet_flag(CLI::App& app, CommonOptions& common);
+CLI::Option* add_seed_option(CLI::App& app, unsigned long long& seed);  // default 20261201
+CLI::Option* add_json_option(CLI::App& app, std::string& path);
+CLI::Option* add_csv_option(CLI::App& app, std::string& path);
+CLI::Option* add_out_dir_option(CLI::App& app, std::string& path);
+
+// The seed used when --seed is not given, so that two runs agree by default.
+inline constexpr unsigned long long default_seed = 20261201ULL;
+
+}  // namespace tidewright::cli

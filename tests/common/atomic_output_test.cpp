@@ -1,0 +1,100 @@
+// Outputs are complete or absent, and existing outputs are refused without force.
+#include "tidewright/common/atomic_output.hpp"
+
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include <nlohmann/json.hpp>
+
+#include "support/run_cli.hpp"
+#include "tidewright/common/error.hpp"
+
+namespace fs = std::filesystem;
+using tidewright::AtomicFile;
+using tidewright::InputError;
+using tidewright::testing::read_all;
+using tidewright::testing::TempDir;
+using ::testing::HasSubstr;
+
+namespace {
+std::size_t entries(const fs::path& dir) {
+  return static_cast<std::size_t>(std::distance(fs::directory_iterator(dir), fs::directory_iterator()));
+}
+}  // namespace
+
+TEST(AtomicOutput, WritesCompleteFileAndLeavesNoTemporary) {
+  TempDir dir;
+  tidewright::write_text_file(dir / "a.txt", "hello\n", false);
+  EXPECT_EQ(read_all(dir / "a.txt"), "hello\n");
+  EXPECT_EQ(entries(dir.path()), 1U);
+}
+
+TEST(AtomicOutput, ExceptionMidWriteLeavesNoFile) {
+  TempDir dir;
+  try {
+    AtomicFile f(dir / "half.csv", false);
+    f.stream() << "year,level\n1923,";
+    throw std::runtime_error("simulated failure in the middle of writing");
+  } catch (const std::runtime_error&) {
+  }
+  EXPECT_FALSE(fs::exists(dir / "half.csv"));
+  EXPECT_EQ(entries(dir.path()), 0U);
+}
+
+TEST(AtomicOutput, FailedWriteKeepsThePreviousFile) {
+  TempDir dir;
+  tidewright::write_text_file(dir / "keep.txt", "old\n", false);
+  try {
+    AtomicFile f(dir / "keep.txt", true);
+    f.stream() << "new";
+    f.stream().setstate(std::ios::badbit);  // as a full disk would
+    f.commit();
+    FAIL() << "commit should have thrown";
+  } catch (const InputError& e) {
+    EXPECT_THAT(std::string(e.what()), HasSubstr("nothing was written"));
+  }
+  EXPECT_EQ(read_all(dir / "keep.txt"), "old\n");
+  EXPECT_EQ(entries(dir.path()), 1U);
+}
+
+TEST(AtomicOutput, RefusesToOverwriteWithoutForce) {
+  TempDir dir;
+  tidewright::write_text_file(dir / "r.json", "{}\n", false);
+  try {
+    tidewright::write_text_file(dir / "r.json", "[]\n", false, "--json");
+    FAIL() << "expected refusal";
+  } catch (const InputError& e) {
+    EXPECT_THAT(std::string(e.what()), HasSubstr("--json"));
+    EXPECT_THAT(std::string(e.what()), HasSubstr("already exists; choose another name or pass --force"));
+  }
+  EXPECT_EQ(read_all(dir / "r.json"), "{}\n");
+  tidewright::write_text_file(dir / "r.json", "[]\n", true);
+  EXPECT_EQ(read_all(dir / "r.json"), "[]\n");
+}
+
+TEST(AtomicOutput, MissingFolderIsNamed) {
+  TempDir dir;
+  EXPECT_THROW(tidewright::write_text_file(dir / "no" / "x.txt", "x", false), InputError);
+}
+
+TEST(AtomicOutput, FolderTargetIsReplacedWhole) {
+  TempDir dir;
+  fs::create_directory(dir / "out");
+  tidewright::write_text_file(dir / "out" / "old.txt", "old", false);
+  tidewright::AtomicPath p(dir / "out", true);
+  fs::create_directory(p.temp_path());
+  tidewright::write_text_file(p.temp_path() / "new.txt", "new", false);
+  p.commit();
+  EXPECT_TRUE(fs::exists(dir / "out" / "new.txt"));
+  EXPECT_FALSE(fs::exists(dir / "out" / "old.txt"));
+  EXPECT_EQ(entries(dir.path()), 1U);
+}
+
+TEST(AtomicOutput, JsonIsIndentedWithNewline) {
+  TempDir dir;
+  nlohmann::ordered_json j;
+  j["b"] = 1;
+  j["a"] = 2.5;
+  tidewright::write_json_file(dir / "j.json", j, false);
+  EXPECT_EQ(read_all(dir / "j.json"), "{\n  \"b\": 1,\n  \"a\": 2.5\n}\n");
+}
