@@ -1,0 +1,109 @@
+// The site file: one TOML file that describes a study from record to maps. Its keys are
+// documented in docs/site-file.md; unknown and missing keys are errors naming the key's path
+// and the file's line; relative paths are relative to the site file's folder.
+#pragma once
+
+#include <filesystem>
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace tidewright::study {
+
+struct SiteInfo {
+  std::string name;
+  std::string crs;             // CRS of the coordinates, e.g. "EPSG:32633"
+  double x = 0.0, y = 0.0;     // site (gauge) coordinates in `crs`
+  std::string datum;           // water-level datum label, carried into every output
+  bool invented = false;       // true for the demo: every output says so
+};
+
+struct RecordSettings {
+  std::filesystem::path path;
+  std::string kind = "series";  // "series" (timestamped levels) or "annual_maxima"
+  std::string time_column = "time";
+  std::string year_column = "year";
+  std::string level_column = "level";
+  std::string units = "m";
+  std::vector<std::string> missing_markers;  // in addition to the reader's defaults
+  std::vector<double> sentinels;             // e.g. -99
+  double min_completeness = 0.75;  // Slangen et al. (2017): years > 75 % complete
+  int year_start_month = 1;
+  std::string detrend = "linear";  // "none", "annual_mean", "linear"
+  std::optional<double> reference_epoch;  // decimal year; default: the record's middle
+};
+
+struct ExtremesSettings {
+  std::string model = "gev";  // "gumbel", "gev", "gpd", "rlargest", "auto"
+  std::vector<double> return_periods_yr{2, 5, 10, 20, 50, 100, 200, 500, 1000};
+  double threshold_quantile = 0.997;  // GPD: IPCC AR6 WG1 Fig. 9.32 uses the 99.7th percentile
+  std::optional<double> threshold_m;  // GPD: overrides the quantile
+  double declustering_hours = 72.0;   // common practice
+  int r_largest = 3;                  // r-largest GEV: values per year used
+  int bootstrap_samples = 0;          // 0: no bootstrap
+};
+
+struct ScenarioSettings {
+  std::string name;
+  std::string source = "pathway";  // "pathway", "forcing_csv", "co2_csv", "temperature_csv", "table"
+  std::string pathway;             // built-in illustrative pathway name
+  std::optional<std::filesystem::path> path;  // CSV for the other sources
+};
+
+struct ProjectionSettings {
+  int members = 2000;
+  int start_year = 2020;
+  int end_year = 2150;
+  std::string reference = "1995-2014";  // "YYYY" or "YYYY-YYYY"
+};
+
+struct LocalSettings {
+  std::map<std::string, double> fingerprints;  // component -> factor; absent = 1
+  double land_motion_mm_per_yr = 0.0;          // positive = uplift
+  double land_motion_sd_mm_per_yr = 0.0;
+  double ocean_dynamic_offset_m = 0.0;
+  double ocean_dynamic_sd_m = 0.0;
+};
+
+struct PlanningSettings {
+  std::vector<int> design_years{2050, 2100};
+  std::vector<double> return_periods_yr{10, 100};
+  int design_life_start = 2030;
+  int design_life_end = 2100;
+  double target_risk = 0.1;                  // probability over the design life
+  std::vector<double> levels_of_interest_m;  // e.g. a quay deck
+  double storminess_scale_per_yr = 0.0;      // relative change of the extreme scale per year
+};
+
+struct MapSettings {
+  bool enabled = false;
+  std::filesystem::path dem;
+  std::optional<double> dem_offset_m;  // water level = DEM elevation + offset
+  bool same_datum = false;
+  std::optional<std::filesystem::path> sea;       // vector polygon or raster mask
+  std::optional<std::filesystem::path> defences;  // lines or polygons with crest level
+  std::string crest_attribute = "crest_m";
+  int connectivity = 8;
+  std::vector<double> return_periods_yr{100};
+  std::vector<int> years{2100};
+  double aep_passing = 0.01;  // the AEP whose first year is mapped
+};
+
+struct SiteConfig {
+  std::filesystem::path file;  // the site file itself
+  SiteInfo site;
+  RecordSettings record;
+  ExtremesSettings extremes;
+  std::vector<ScenarioSettings> scenarios;
+  ProjectionSettings projection;
+  LocalSettings local;
+  PlanningSettings planning;
+  MapSettings map;
+  unsigned long long seed = 20261201ULL;
+};
+
+// Reads and checks the site file; throws InputError naming key path and line.
+[[nodiscard]] SiteConfig load_site_file(const std::filesystem::path& file);
+
+}  // namespace tidewright::study

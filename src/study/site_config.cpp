@@ -1,0 +1,200 @@
+#include "tidewright/study/site_config.hpp"
+
+#include <algorithm>
+
+#include "tidewright/common/error.hpp"
+#include "tidewright/study/toml_reader.hpp"
+
+namespace tidewright::study {
+namespace {
+
+void require(bool ok, const TomlReader& t, std::string_view key, const std::string& what,
+             const std::string& hint) {
+  if (!ok) throw InputError(t.where(key), what, hint);
+}
+
+std::vector<double> positive_periods(TomlReader& t, std::string_view key, std::vector<double> fallback) {
+  if (!t.has(key)) return fallback;
+  auto v = t.numbers(key);
+  require(!v.empty(), t, key, "is empty", "list at least one return period in years");
+  for (double p : v) require(p > 1.0, t, key, "holds a return period <= 1 year", "give return periods above 1 year");
+  return v;
+}
+
+int year_in_range(TomlReader& t, std::string_view key, long long value) {
+  require(value >= 1700 && value <= 2500, t, key, "is " + std::to_string(value) + ", not a plausible year",
+          "give a year between 1700 and 2500");
+  return static_cast<int>(value);
+}
+
+}  // namespace
+
+SiteConfig load_site_file(const std::filesystem::path& file) {
+  const toml::table root_table = parse_toml_file(file);
+  TomlReader root(root_table, file, "");
+  SiteConfig c;
+  c.file = file;
+  if (auto s = root.optional_integer("seed")) {
+    require(*s >= 0, root, "seed", "is negative", "give a whole number >= 0");
+    c.seed = static_cast<unsigned long long>(*s);
+  }
+
+  auto site = root.table("site");
+  if (!site) throw InputError(location(file.string()) + ": site", "required table is missing", "add a [site] table");
+  c.site.name = site->string("name");
+  c.site.datum = site->string("water_level_datum");
+  c.site.crs = site->optional_string("crs").value_or("");
+  c.site.x = site->optional_number("x").value_or(0.0);
+  c.site.y = site->optional_number("y").value_or(0.0);
+  c.site.invented = site->optional_boolean("invented").value_or(false);
+  site->finish();
+
+  auto rec = root.table("record");
+  if (!rec) throw InputError(location(file.string()) + ": record", "required table is missing", "add a [record] table");
+  c.record.path = rec->path("path");
+  c.record.kind = rec->choice("kind", {"series", "annual_maxima"}, "series");
+  c.record.time_column = rec->optional_string("time_column").value_or(c.record.time_column);
+  c.record.year_column = rec->optional_string("year_column").value_or(c.record.year_column);
+  c.record.level_column = rec->optional_string("level_column").value_or(c.record.level_column);
+  c.record.units = rec->choice("units", {"m", "cm", "mm", "ft"}, "m");
+  c.record.missing_markers = rec->strings("missing_markers");
+  c.record.sentinels = rec->numbers("sentinels");
+  if (auto v = rec->optional_number("min_completeness")) {
+    require(*v > 0.0 && *v <= 1.0, *rec, "min_completeness", "must lie in (0, 1]", "give a fraction such as 0.75");
+    c.record.min_completeness = *v;
+  }
+  if (auto v = rec->optional_integer("year_start_month")) {
+    require(*v >= 1 && *v <= 12, *rec, "year_start_month", "must be 1 to 12", "give a month number");
+    c.record.year_start_month = static_cast<int>(*v);
+  }
+  c.record.detrend = rec->choice("detrend", {"none", "annual_mean", "linear"}, "linear");
+  c.record.reference_epoch = rec->optional_number("reference_epoch");
+  rec->finish();
+
+  if (auto ext = root.table("extremes")) {
+    c.extremes.model = ext->choice("model", {"gumbel", "gev", "gpd", "rlargest", "auto"}, "gev");
+    c.extremes.return_periods_yr = positive_periods(*ext, "return_periods", c.extremes.return_periods_yr);
+    if (auto q = ext->optional_number("threshold_quantile")) {
+      require(*q > 0.5 && *q < 1.0, *ext, "threshold_quantile", "must lie in (0.5, 1)", "give e.g. 0.997");
+      c.extremes.threshold_quantile = *q;
+    }
+    c.extremes.threshold_m = ext->optional_number("threshold_m");
+    if (auto h = ext->optional_number("declustering_hours")) {
+      require(*h > 0.0, *ext, "declustering_hours", "must be positive", "give hours, e.g. 72");
+      c.extremes.declustering_hours = *h;
+    }
+    if (auto r = ext->optional_integer("r_largest")) {
+      require(*r >= 1 && *r <= 20, *ext, "r_largest", "must be 1 to 20", "give e.g. 3");
+      c.extremes.r_largest = static_cast<int>(*r);
+    }
+    if (auto b = ext->optional_integer("bootstrap_samples")) {
+      require(*b >= 0 && *b <= 100000, *ext, "bootstrap_samples", "must be 0 to 100000", "give e.g. 1000");
+      c.extremes.bootstrap_samples = static_cast<int>(*b);
+    }
+    ext->finish();
+  }
+
+  for (auto& sc : root.array_of_tables("scenario")) {
+    ScenarioSettings s;
+    s.name = sc.string("name");
+    s.source = sc.choice("source", {"pathway", "forcing_csv", "co2_csv", "temperature_csv", "table"}, "pathway");
+    if (s.source == "pathway") s.pathway = sc.string("pathway");
+    else s.path = sc.path("path");
+    sc.finish();
+    c.scenarios.push_back(std::move(s));
+  }
+  if (c.scenarios.empty()) {
+    throw InputError(location(file.string()) + ": scenario", "no [[scenario]] is given",
+                     "add at least one [[scenario]] table");
+  }
+
+  if (auto pr = root.table("projection")) {
+    if (auto m = pr->optional_integer("members")) {
+      require(*m >= 10 && *m <= 200000, *pr, "members", "must be 10 to 200000", "give e.g. 2000");
+      c.projection.members = static_cast<int>(*m);
+    }
+    if (auto y = pr->optional_integer("start_year")) c.projection.start_year = year_in_range(*pr, "start_year", *y);
+    if (auto y = pr->optional_integer("end_year")) c.projection.end_year = year_in_range(*pr, "end_year", *y);
+    require(c.projection.end_year > c.projection.start_year, *pr, "end_year", "is not after start_year",
+            "give an end year after the start year");
+    c.projection.reference = pr->optional_string("reference").value_or(c.projection.reference);
+    pr->finish();
+  }
+
+  if (auto lo = root.table("local")) {
+    if (auto fp = lo->table("fingerprints")) {
+      for (const auto& k : fp->keys()) {
+        static const std::vector<std::string> known{"thermal_expansion", "glaciers", "greenland", "antarctica",
+                                                    "land_water"};
+        if (std::find(known.begin(), known.end(), k) == known.end()) {
+          throw InputError(fp->where(k), "unknown component",
+                           "use thermal_expansion, glaciers, greenland, antarctica or land_water");
+        }
+        c.local.fingerprints[k] = fp->number(k);
+      }
+      fp->finish();
+    }
+    c.local.land_motion_mm_per_yr = lo->optional_number("land_motion_mm_per_yr").value_or(0.0);
+    c.local.land_motion_sd_mm_per_yr = lo->optional_number("land_motion_sd_mm_per_yr").value_or(0.0);
+    require(c.local.land_motion_sd_mm_per_yr >= 0.0, *lo, "land_motion_sd_mm_per_yr", "is negative", "give a standard deviation >= 0");
+    c.local.ocean_dynamic_offset_m = lo->optional_number("ocean_dynamic_offset_m").value_or(0.0);
+    c.local.ocean_dynamic_sd_m = lo->optional_number("ocean_dynamic_sd_m").value_or(0.0);
+    require(c.local.ocean_dynamic_sd_m >= 0.0, *lo, "ocean_dynamic_sd_m", "is negative", "give a standard deviation >= 0");
+    lo->finish();
+  }
+
+  if (auto pl = root.table("planning")) {
+    if (pl->has("design_years")) {
+      c.planning.design_years.clear();
+      for (long long y : pl->integers("design_years")) c.planning.design_years.push_back(year_in_range(*pl, "design_years", y));
+      require(!c.planning.design_years.empty(), *pl, "design_years", "is empty", "list at least one year");
+    }
+    c.planning.return_periods_yr = positive_periods(*pl, "return_periods", c.planning.return_periods_yr);
+    if (pl->has("design_life")) {
+      const auto span = pl->integers("design_life");
+      require(span.size() == 2, *pl, "design_life", "must be [first_year, last_year]", "give two years");
+      c.planning.design_life_start = year_in_range(*pl, "design_life", span[0]);
+      c.planning.design_life_end = year_in_range(*pl, "design_life", span[1]);
+      require(span[1] > span[0], *pl, "design_life", "ends before it starts", "give [first_year, last_year]");
+    }
+    if (auto r = pl->optional_number("target_risk")) {
+      require(*r > 0.0 && *r < 1.0, *pl, "target_risk", "must lie in (0, 1)", "give a probability such as 0.1");
+      c.planning.target_risk = *r;
+    }
+    c.planning.levels_of_interest_m = pl->numbers("levels_of_interest_m");
+    c.planning.storminess_scale_per_yr = pl->optional_number("storminess_scale_per_yr").value_or(0.0);
+    pl->finish();
+  }
+
+  if (auto mp = root.table("map")) {
+    c.map.enabled = true;
+    c.map.dem = mp->path("dem");
+    c.map.dem_offset_m = mp->optional_number("dem_offset_m");
+    c.map.same_datum = mp->optional_boolean("same_datum").value_or(false);
+    if (!c.map.dem_offset_m && !c.map.same_datum) {
+      throw InputError(mp->where("dem"), "the relation between the DEM's datum and the water-level datum is not given",
+                       "set map.dem_offset_m, or map.same_datum = true if they are the same");
+    }
+    c.map.sea = mp->optional_path("sea");
+    c.map.defences = mp->optional_path("defences");
+    c.map.crest_attribute = mp->optional_string("crest_attribute").value_or(c.map.crest_attribute);
+    if (auto k = mp->optional_integer("connectivity")) {
+      require(*k == 4 || *k == 8, *mp, "connectivity", "must be 4 or 8", "give 4 or 8");
+      c.map.connectivity = static_cast<int>(*k);
+    }
+    c.map.return_periods_yr = positive_periods(*mp, "return_periods", c.map.return_periods_yr);
+    if (mp->has("years")) {
+      c.map.years.clear();
+      for (long long y : mp->integers("years")) c.map.years.push_back(year_in_range(*mp, "years", y));
+    }
+    if (auto a = mp->optional_number("aep_passing")) {
+      require(*a > 0.0 && *a < 1.0, *mp, "aep_passing", "must lie in (0, 1)", "give e.g. 0.01");
+      c.map.aep_passing = *a;
+    }
+    mp->finish();
+  }
+  root.finish();
+  return c;
+}
+
+}  // namespace tidewright::study
