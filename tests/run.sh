@@ -2,7 +2,9 @@
 # Builds tidewright and runs the whole test suite, reference cross-checks included, first in
 # a Release build with warnings as errors, then under AddressSanitizer and
 # UndefinedBehaviorSanitizer. Installs missing Debian packages first (as root). Safe to run
-# twice. Set TIDEWRIGHT_SKIP_SANITIZER=1 to run only the Release pass.
+# twice. Then a bounded fuzz run of every reader of outside input (tests/fuzz/run.sh).
+# Set TIDEWRIGHT_SKIP_SANITIZER=1 to run only the Release pass, TIDEWRIGHT_FUZZ_SECONDS to
+# change the fuzz time per target (default 30; 0 skips fuzzing).
 set -eu
 root=$(cd "$(dirname "$0")/.." && pwd)
 sh "$root/tests/setup/install-packages.sh"
@@ -19,4 +21,10 @@ if [ "${TIDEWRIGHT_SKIP_SANITIZER:-0}" != 1 ]; then
   cmake --preset asan
   cmake --build --preset asan -j "$jobs"
   ctest --preset asan -j "$jobs"
+fi
+
+fuzz_seconds=${TIDEWRIGHT_FUZZ_SECONDS:-30}
+if [ "$fuzz_seconds" != 0 ]; then
+  echo "== tidewright: fuzzing readers of outside input, ${fuzz_seconds}s per target =="
+  sh "$root/tests/fuzz/run.sh" "$fuzz_seconds"
 fi
