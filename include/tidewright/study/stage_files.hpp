@@ -1,0 +1,38 @@
+// Files that pass results from one command to the next: the projection's members (CSV) and
+// the fit's present-day model (the JSON of `tidewright fit`). Formats in docs/file-formats.md.
+#pragma once
+
+#include <filesystem>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <Eigen/Dense>
+#include <nlohmann/json.hpp>
+
+#include "tidewright/extremes/still_water_model.hpp"
+#include "tidewright/local/rise_ensemble.hpp"
+
+namespace tidewright::study {
+
+// Members CSV: '#' metadata lines (key: value), then "member,<year>,<year>,..." and one row
+// per member of rise in metres.
+void write_members_csv(const std::filesystem::path& file, const local::RiseEnsemble& ensemble,
+                       bool force);
+[[nodiscard]] local::RiseEnsemble read_members_csv(const std::filesystem::path& file);
+
+// The parts of a fit JSON that later stages use.
+struct FitSummary {
+  extremes::StillWaterModel model;
+  std::string datum;
+  std::optional<double> reference_epoch;  // decimal year the levels are referred to
+  std::vector<std::string> parameter_names;
+  std::vector<double> estimates;
+  std::optional<Eigen::MatrixXd> covariance;  // absent when the fit gave none
+  std::string source;                         // the file it came from
+};
+
+[[nodiscard]] nlohmann::ordered_json still_water_model_json(const extremes::StillWaterModel& m);
+[[nodiscard]] FitSummary read_fit_json(const std::filesystem::path& file);
+
+}  // namespace tidewright::study

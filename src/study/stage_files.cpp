@@ -1,0 +1,187 @@
+#include "tidewright/study/stage_files.hpp"
+
+#include <cmath>
+#include <cstdio>
+#include <fstream>
+#include <sstream>
+
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/csv.hpp"
+#include "tidewright/common/error.hpp"
+
+namespace tidewright::study {
+namespace {
+
+// Shortest text that reads back to the same double (round trip), for byte-stable files.
+std::string exact(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.17g", v);
+  // Prefer a shorter form when it reads back the same.
+  for (int p = 6; p < 17; ++p) {
+    char s[32];
+    std::snprintf(s, sizeof s, "%.*g", p, v);
+    if (std::strtod(s, nullptr) == v) return s;
+  }
+  return buf;
+}
+
+std::string metadata_value(const std::string& text, const std::string& key) {
+  std::istringstream in(text);
+  std::string line;
+  const std::string prefix = "# " + key + ": ";
+  while (std::getline(in, line)) {
+    if (!line.empty() && line.back() == '\r') line.pop_back();
+    if (line.rfind(prefix, 0) == 0) return line.substr(prefix.size());
+    if (!line.empty() && line[0] != '#') break;
+  }
+  return "";
+}
+
+}  // namespace
+
+void write_members_csv(const std::filesystem::path& file, const local::RiseEnsemble& e, bool force) {
+  AtomicFile out(file, force, "--members");
+  auto& s = out.stream();
+  s << "# tidewright members: local relative sea-level rise in metres, one row per member\n";
+  s << "# scenario: " << e.scenario << "\n";
+  s << "# reference: " << e.reference << "\n";
+  s << "# illustrative: " << (e.illustrative ? "true" : "false") << "\n";
+  s << "member";
+  for (int y : e.years) s << ',' << y;
+  s << '\n';
+  for (Eigen::Index m = 0; m < e.rise_m.rows(); ++m) {
+    s << (m + 1);
+    for (Eigen::Index c = 0; c < e.rise_m.cols(); ++c) s << ',' << exact(e.rise_m(m, c));
+    s << '\n';
+  }
+  out.commit();
+}
+
+local::RiseEnsemble read_members_csv(const std::filesystem::path& file) {
+  std::ifstream in(file, std::ios::binary);
+  if (!in) throw InputError(file.string(), "cannot be opened for reading", "check the path");
+  std::stringstream buffer;
+  buffer << in.rdbuf();
+  const std::string text = buffer.str();
+  const CsvTable table = CsvTable::parse(text, file.string());
+  local::RiseEnsemble e;
+  e.scenario = metadata_value(text, "scenario");
+  e.reference = metadata_value(text, "reference");
+  e.illustrative = metadata_value(text, "illustrative") == "true";
+  const auto& header = table.header();
+  if (header.size() < 2 || header[0] != "member") {
+    throw InputError(location(file.string(), table.header_line()),
+                     "is not a members file (the header must be member,<year>,<year>,...)",
+                     "give the --members output of 'tidewright project'");
+  }
+  for (std::size_t c = 1; c < header.size(); ++c) {
+    const auto y = parse_finite_double(header[c]);
+    if (!y || *y != std::floor(*y)) {
+      throw InputError(location(file.string(), table.header_line()), "column '" + header[c] + "' is not a year",
+                       "give whole years as column names");
+    }
+    if (!e.years.empty() && static_cast<int>(*y) <= e.years.back()) {
+      throw InputError(location(file.string(), table.header_line()), "years are not strictly ascending",
+                       "sort the year columns");
+    }
+    e.years.push_back(static_cast<int>(*y));
+  }
+  if (table.rows().empty()) {
+    throw InputError(file.string(), "holds no members", "give a file with at least one member row");
+  }
+  e.rise_m.resize(static_cast<Eigen::Index>(table.rows().size()), static_cast<Eigen::Index>(e.years.size()));
+  MissingValues none;
+  none.markers.clear();
+  for (std::size_t r = 0; r < table.rows().size(); ++r) {
+    const auto& row = table.rows()[r];
+    for (std::size_t c = 1; c < header.size(); ++c) {
+      const auto v = table.number(row, c, none);
+      if (!v) throw InputError(table.where(row), "an empty value", "every member needs a value in every year");
+      e.rise_m(static_cast<Eigen::Index>(r), static_cast<Eigen::Index>(c - 1)) = *v;
+    }
+  }
+  return e;
+}
+
+nlohmann::ordered_json still_water_model_json(const extremes::StillWaterModel& m) {
+  nlohmann::ordered_json j;
+  j["family"] = std::string(extremes::family_name(m.family));
+  if (m.family != extremes::Family::gpd) j["location_m"] = m.location_m;
+  j["scale_m"] = m.scale_m;
+  j["shape"] = m.family == extremes::Family::gumbel ? 0.0 : m.shape;
+  if (m.family == extremes::Family::gpd) {
+    j["threshold_m"] = m.threshold_m;
+    j["rate_per_yr"] = m.rate_per_yr;
+    j["below_threshold"] = {{"level_m", m.below_threshold.level_m}, {"rate_per_yr", m.below_threshold.rate_per_yr}};
+  }
+  return j;
+}
+
+FitSummary read_fit_json(const std::filesystem::path& file) {
+  std::ifstream in(file, std::ios::binary);
+  if (!in) throw InputError(file.string(), "cannot be opened for reading", "check the path");
+  nlohmann::json j;
+  try {
+    j = nlohmann::json::parse(in);
+  } catch (const nlohmann::json::parse_error& e) {
+    throw InputError(file.string(), std::string("is not valid JSON (") + e.what() + ")",
+                     "give the --json output of 'tidewright fit'");
+  }
+  const auto field = [&](const char* name) -> std::string { return field_location(file.string(), name); };
+  try {
+    FitSummary f;
+    f.source = file.string();
+    if (!j.is_object() || !j.contains("present_day_model")) {
+      throw InputError(field("present_day_model"), "is missing", "give the --json output of 'tidewright fit'");
+    }
+    const auto& m = j.at("present_day_model");
+    const std::string fam = m.at("family").get<std::string>();
+    if (fam == "gumbel") f.model.family = extremes::Family::gumbel;
+    else if (fam == "gev") f.model.family = extremes::Family::gev;
+    else if (fam == "gpd") f.model.family = extremes::Family::gpd;
+    else throw InputError(field("present_day_model.family"), "is '" + fam + "'", "use gumbel, gev or gpd");
+    f.model.location_m = m.value("location_m", 0.0);
+    f.model.scale_m = m.at("scale_m").get<double>();
+    f.model.shape = m.value("shape", 0.0);
+    if (!(f.model.scale_m > 0.0) || !std::isfinite(f.model.shape) || !std::isfinite(f.model.location_m)) {
+      throw InputError(field("present_day_model"), "has a scale <= 0 or a non-finite parameter",
+                       "give the output of a successful fit");
+    }
+    if (f.model.family == extremes::Family::gpd) {
+      f.model.threshold_m = m.at("threshold_m").get<double>();
+      f.model.rate_per_yr = m.at("rate_per_yr").get<double>();
+      if (m.contains("below_threshold")) {
+        f.model.below_threshold.level_m = m.at("below_threshold").at("level_m").get<std::vector<double>>();
+        f.model.below_threshold.rate_per_yr = m.at("below_threshold").at("rate_per_yr").get<std::vector<double>>();
+      }
+    }
+    f.datum = j.value("datum", "");
+    if (j.contains("reference_epoch") && j["reference_epoch"].is_number()) {
+      f.reference_epoch = j["reference_epoch"].get<double>();
+    }
+    if (j.contains("parameters") && j["parameters"].is_object()) {
+      for (const auto& [k, v] : j["parameters"].items()) {
+        f.parameter_names.push_back(k);
+        f.estimates.push_back(v.get<double>());
+      }
+    }
+    if (j.contains("covariance") && j["covariance"].is_array()) {
+      const auto rows = j["covariance"].get<std::vector<std::vector<double>>>();
+      const auto n = static_cast<Eigen::Index>(rows.size());
+      Eigen::MatrixXd cov(n, n);
+      for (Eigen::Index r = 0; r < n; ++r) {
+        if (static_cast<Eigen::Index>(rows[static_cast<std::size_t>(r)].size()) != n) {
+          throw InputError(field("covariance"), "is not a square matrix", "give the output of 'tidewright fit'");
+        }
+        for (Eigen::Index c = 0; c < n; ++c) cov(r, c) = rows[static_cast<std::size_t>(r)][static_cast<std::size_t>(c)];
+      }
+      f.covariance = cov;
+    }
+    return f;
+  } catch (const nlohmann::json::exception& e) {
+    throw InputError(file.string(), std::string("does not have the fields of a fit result (") + e.what() + ")",
+                     "give the --json output of 'tidewright fit'");
+  }
+}
+
+}  // namespace tidewright::study

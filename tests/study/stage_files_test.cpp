@@ -1,0 +1,77 @@
+// Results passed between commands read back exactly as written.
+#include "tidewright/study/stage_files.hpp"
+
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include "support/run_cli.hpp"
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/error.hpp"
+
+using tidewright::InputError;
+using tidewright::testing::TempDir;
+using ::testing::HasSubstr;
+namespace study = tidewright::study;
+
+TEST(StageFiles, MembersRoundTripBitForBit) {
+  TempDir dir;
+  tidewright::local::RiseEnsemble e;
+  e.years = {2020, 2050, 2100};
+  e.rise_m = Eigen::MatrixXd::Random(50, 3);
+  e.rise_m(0, 0) = 0.1 + 0.2;  // a value with no short decimal form
+  e.scenario = "middle";
+  e.reference = "2020";
+  e.illustrative = true;
+  study::write_members_csv(dir / "m.csv", e, false);
+  const auto back = study::read_members_csv(dir / "m.csv");
+  EXPECT_EQ(back.years, e.years);
+  EXPECT_EQ(back.scenario, "middle");
+  EXPECT_EQ(back.reference, "2020");
+  EXPECT_TRUE(back.illustrative);
+  ASSERT_EQ(back.rise_m.rows(), 50);
+  EXPECT_TRUE((back.rise_m.array() == e.rise_m.array()).all());
+}
+
+TEST(StageFiles, MembersFileErrorsNameTheLine) {
+  TempDir dir;
+  tidewright::write_text_file(dir / "m.csv", "member,2020,2019\n1,0.1,0.2\n", false);
+  EXPECT_THROW((void)study::read_members_csv(dir / "m.csv"), InputError);
+  tidewright::write_text_file(dir / "n.csv", "member,2020,2030\n1,0.1,x\n", false);
+  try {
+    (void)study::read_members_csv(dir / "n.csv");
+    FAIL();
+  } catch (const InputError& err) {
+    EXPECT_THAT(std::string(err.what()), HasSubstr("n.csv:2: column '2030' holds 'x'"));
+  }
+}
+
+TEST(StageFiles, FitJsonGivesTheModel) {
+  TempDir dir;
+  tidewright::extremes::StillWaterModel m{tidewright::extremes::Family::gev, 3.87, 0.198, -0.05, 0, 1, {}};
+  nlohmann::ordered_json j;
+  j["model"] = "gev";
+  j["datum"] = "test datum";
+  j["reference_epoch"] = 1955.0;
+  j["parameters"] = {{"location", 3.87}, {"scale", 0.198}, {"shape", -0.05}};
+  j["covariance"] = {{1e-3, 0, 0}, {0, 4e-4, 0}, {0, 0, 1e-2}};
+  j["present_day_model"] = study::still_water_model_json(m);
+  tidewright::write_json_file(dir / "fit.json", j, false);
+  const auto f = study::read_fit_json(dir / "fit.json");
+  EXPECT_EQ(f.model.family, tidewright::extremes::Family::gev);
+  EXPECT_DOUBLE_EQ(f.model.location_m, 3.87);
+  EXPECT_DOUBLE_EQ(f.model.shape, -0.05);
+  EXPECT_EQ(f.datum, "test datum");
+  ASSERT_TRUE(f.covariance.has_value());
+  EXPECT_DOUBLE_EQ((*f.covariance)(2, 2), 1e-2);
+  EXPECT_EQ(f.parameter_names.size(), 3U);
+}
+
+TEST(StageFiles, FitJsonErrors) {
+  TempDir dir;
+  tidewright::write_text_file(dir / "a.json", "{not json", false);
+  EXPECT_THROW((void)study::read_fit_json(dir / "a.json"), InputError);
+  tidewright::write_text_file(dir / "b.json", R"({"present_day_model": {"family": "gev", "scale_m": -1}})", false);
+  EXPECT_THROW((void)study::read_fit_json(dir / "b.json"), InputError);
+  tidewright::write_text_file(dir / "c.json", R"({"present_day_model": {"family": "gpd", "scale_m": 0.1}})", false);
+  EXPECT_THROW((void)study::read_fit_json(dir / "c.json"), InputError);
+}
