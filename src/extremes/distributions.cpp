@@ -12,7 +12,7 @@ namespace tidewright::extremes {
 namespace {
 
 constexpr double inf = std::numeric_limits<double>::infinity();
-constexpr int series_terms = 24;  // with |xi y| < 0.05: truncation below 0.05^22 ~ 2e-29
+constexpr int series_terms = 24;  // with |xi y| < 0.1: truncation below 0.1^24
 
 std::string number(double v) {
   std::string s = std::to_string(v);
