@@ -1,0 +1,171 @@
+#include "tidewright/record/annual_maxima.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+
+#include "prepared_record.hpp"
+#include "tidewright/common/error.hpp"
+
+namespace tidewright::record {
+namespace {
+
+using detail::format_number;
+
+
+AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
+  const double to_m = metres_per_unit(options.unit);
+  const std::size_t year_col = table.column(options.year_column);
+  std::vector<std::size_t> value_cols{table.column(options.level_column)};
+  for (const auto& name : options.r_largest_columns) value_cols.push_back(table.column(name));
+  const bool r_largest = value_cols.size() > 1;
+
+  AnnualMaxima am;
+  am.datum = options.datum;
+  am.source = table.source();
+  std::map<int, std::size_t> line_of_year;
+  int previous_year = 0;
+  std::size_t previous_line = 0;
+  for (const auto& row : table.rows()) {
+    ++am.cleaning.rows_read;
+    const std::string& year_cell = row.cells[year_col];
+    const auto year_value = options.missing.is_marker(year_cell) ? std::nullopt
+                                                                 : parse_finite_double(year_cell);
+    if (!year_value || *year_value != std::round(*year_value) || std::abs(*year_value) > 1e6) {
+      throw InputError(table.where(row),
+                       "column '" + table.header()[year_col] + "' holds '" + year_cell +
+                           "', which is not a whole year",
+                       "write the year as an integer such as 1987");
+    }
+    const int year = static_cast<int>(*year_value);
+    if (const auto seen = line_of_year.find(year); seen != line_of_year.end()) {
+      throw InputError(table.where(row),
+                       "year " + std::to_string(year) + " is given twice (lines " +
+                           std::to_string(seen->second) + " and " + std::to_string(row.line) + ")",
+                       "give one row per year");
+    }
+    if (previous_line != 0 && year < previous_year) {
+      throw InputError(table.where(row),
+                       "year " + std::to_string(year) + " comes after year " +
+                           std::to_string(previous_year) + " on line " +
+                           std::to_string(previous_line),
+                       "sort the rows by year");
+    }
+    line_of_year.emplace(year, row.line);
+    previous_year = year;
+    previous_line = row.line;
+
+    std::vector<double> values;
+    bool gap = false;
+    for (std::size_t k = 0; k < value_cols.size(); ++k) {
+      const std::size_t col = value_cols[k];
+      const std::string& cell = row.cells[col];
+      std::optional<double> v;
+      if (options.missing.is_marker(cell)) {
+        if (k == 0) ++am.cleaning.missing;
+      } else {
+        v = table.number(row, col, options.missing);
+        if (!v && k == 0) ++am.cleaning.sentinels;
+      }
+      if (!v) {
+        gap = true;
+        continue;
+      }
+      if (gap) {
+        throw InputError(table.where(row),
+                         "column '" + table.header()[col] + "' holds a value after a missing one",
+                         "give the r largest values of a year from the largest down, missing "
+                         "values only at the end of the row");
+      }
+      const double metres = *v * to_m;
+      if (!values.empty() && metres > values.back()) {
+        throw InputError(table.where(row),
+                         "column '" + table.header()[col] + "' holds " + cell +
+                             ", larger than the value before it",
+                         "give the r largest values of a year in decreasing order");
+      }
+      values.push_back(metres);
+    }
+    if (values.empty()) {
+      am.dropped.push_back({year, 0.0, "no value in the file"});
+      continue;
+    }
+    am.years.push_back(year);
+    am.level_m.push_back(values.front());
+    if (r_largest) am.r_largest_m.push_back(std::move(values));
+  }
+  am.cleaning.values_kept = am.level_m.size();
+  if (am.level_m.size() < 2) {
+    throw InputError(table.source(),
+                     "has " + std::to_string(am.level_m.size()) + " annual maxima in column '" +
+                         options.level_column + "' (" + std::to_string(am.dropped.size()) +
+                         " years without a value): too few values",
+                     "give at least 2 years (an extreme-value fit needs " +
+                         std::to_string(minimum_maxima_gumbel) + " or more)");
+  }
+  const auto [lo, hi] = std::minmax_element(am.level_m.begin(), am.level_m.end());
+  if (*lo == *hi) {
+    throw InputError(table.source(),
+                     "all " + std::to_string(am.level_m.size()) + " annual maxima equal " +
+                         format_number(*lo, "%.6g") + " m: the data are constant",
+                     "check the level column, its missing-value markers and sentinels");
+  }
+  return am;
+}
+
+}  // namespace
+
+std::string AnnualMaxima::summary() const {
+  std::string out = source + ": " + std::to_string(size()) + " annual maxima";
+  if (!years.empty()) {
+    out += " " + std::to_string(years.front()) + "-" + std::to_string(years.back());
+  }
+  if (year_start_month != 1) {
+    out += " (years start in month " + std::to_string(year_start_month) +
+           ", labelled by the year they start in)";
+  }
+  if (!r_largest_m.empty()) {
+    std::size_t values = 0;
+    for (const auto& r : r_largest_m) values += r.size();
+    out += ", " + std::to_string(values) + " r-largest values";
+  }
+  out += "; datum: " + (datum.empty() ? std::string("not stated") : datum) + "\n";
+  out += "  " + std::to_string(cleaning.rows_read) + " rows read, " +
+         std::to_string(cleaning.missing) + " missing, " + std::to_string(cleaning.sentinels) +
+         " sentinels\n";
+  out += detail::dropped_and_trend_lines(dropped, detrend);
+  return out;
+}
+
+AnnualMaxima read_annual_maxima(const std::filesystem::path& path, const ReadOptions& options) {
+  (void)metres_per_unit(options.unit);
+  return from_table(CsvTable::read(path, options.csv), options);
+}
+
+AnnualMaxima parse_annual_maxima(std::string_view text, std::string source,
+                                 const ReadOptions& options) {
+  (void)metres_per_unit(options.unit);
+  return from_table(CsvTable::parse(text, std::move(source), options.csv), options);
+}
+
+std::size_t minimum_maxima(std::string_view model) {
+  if (model == "gumbel") return minimum_maxima_gumbel;
+  if (model == "gev" || model == "rlargest") return minimum_maxima_gev;
+  if (model == "gpd") return minimum_exceedances_gpd;
+  throw InputError("model", "'" + std::string(model) + "' is not a model tidewright fits",
+                   "use gumbel, gev, rlargest or gpd");
+}
+
+void require_minimum_maxima(std::size_t n, std::string_view model, std::size_t minimum,
+                            std::string_view source) {
+  if (n >= minimum) return;
+  const bool gpd = model == "gpd";
+  const std::string what = gpd ? "declustered exceedances" : "annual maxima";
+  throw InputError(std::string(source.empty() ? model : source),
+                   std::to_string(n) + " " + what + " are too few for a " + std::string(model) +
+                       " fit, which needs at least " + std::to_string(minimum),
+                   gpd ? "lower the threshold or give a longer record"
+                       : "give a longer record or a model with fewer parameters");
+}
+
+}  // namespace tidewright::record

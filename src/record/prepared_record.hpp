@@ -1,0 +1,36 @@
+// Internal to the record module: the steps that annual maxima and peaks over threshold share
+// (years and their completeness, dropped years, trend removal) and the text of summaries.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "tidewright/record/annual_maxima.hpp"
+#include "tidewright/record/mean_sea_level_trend.hpp"
+#include "tidewright/record/record_years.hpp"
+#include "tidewright/record/water_level_series.hpp"
+
+namespace tidewright::record::detail {
+
+[[nodiscard]] std::string format_number(double value, const char* printf_format);
+[[nodiscard]] std::string percent(double fraction);  // "75.0%"
+// "1990 (62.0% complete, below 75.0%), 1991 (…)"
+[[nodiscard]] std::string dropped_list(const std::vector<DroppedYear>& dropped);
+// The summary lines for dropped years and a removed trend (empty when there is none).
+[[nodiscard]] std::string dropped_and_trend_lines(const std::vector<DroppedYear>& dropped,
+                                                  const std::optional<Detrend>& detrend);
+
+struct PreparedRecord {
+  RecordYears years;
+  DetrendedLevels levels;
+  std::vector<DroppedYear> dropped;
+  std::optional<Detrend> detrend;  // set unless the method is none
+};
+
+// InputError when no year reaches the completeness (naming the most complete year).
+[[nodiscard]] PreparedRecord prepare_record(const WaterLevelSeries& series, int start_month,
+                                            double min_completeness, DetrendMethod method,
+                                            std::optional<double> epoch_yr);
+
+}  // namespace tidewright::record::detail
