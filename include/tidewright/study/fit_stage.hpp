@@ -1,0 +1,62 @@
+// The fit stage: from a tide-gauge file to a fitted extreme still-water model with return
+// levels, intervals and diagnostics. `tidewright fit` and the study both call it; the
+// command only parses options and prints.
+#pragma once
+
+#include <filesystem>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "tidewright/extremes/diagnostics.hpp"
+#include "tidewright/extremes/fit.hpp"
+#include "tidewright/extremes/return_levels.hpp"
+#include "tidewright/record/annual_maxima.hpp"
+#include "tidewright/record/block_maxima.hpp"
+#include "tidewright/record/peaks_over_threshold.hpp"
+#include "tidewright/record/read_options.hpp"
+
+namespace tidewright::study {
+
+enum class RecordKind { detect, series, annual_maxima };
+
+struct FitRequest {
+  std::filesystem::path input;
+  RecordKind kind = RecordKind::detect;  // detect: a series if the file has the time column
+  record::ReadOptions read;
+  std::string model = "gev";  // gumbel, gev, gpd, rlargest, auto
+  std::vector<double> return_periods_yr = extremes::standard_return_periods_yr;
+  record::AnnualMaximaOptions maxima;  // series only
+  record::PeaksOptions peaks;          // gpd only
+  std::size_t r_largest = 0;           // rlargest: values per year kept (0: all given)
+  std::size_t bootstrap_samples = 0;   // 0: no bootstrap
+  unsigned long long seed = 20261201ULL;
+};
+
+struct FitStageResult {
+  std::string model;  // the family fitted ("gev", "gumbel", "gpd", "rlargest")
+  extremes::FitResult fit;
+  std::optional<extremes::DevianceTest> deviance_test;  // auto, or gumbel/gev on maxima
+  std::vector<extremes::ReturnLevel> delta;
+  std::vector<extremes::ReturnLevel> profile;
+  std::optional<extremes::BootstrapResult> bootstrap;
+  double anderson_darling = 0.0;
+  double aic = 0.0;
+  std::vector<extremes::PlotPoint> plot_points;
+  extremes::StillWaterModel present_day;  // N_0(z); a GPD carries the rate curve below u
+  std::string datum;
+  std::optional<double> reference_epoch;  // set when a trend was removed
+  double trend_mm_per_yr = 0.0;
+  std::string data_summary;  // what cleaning did, for the terminal and the report
+  std::vector<std::string> warnings;
+  std::string source;
+};
+
+[[nodiscard]] FitStageResult run_fit_stage(const FitRequest& request);
+
+// The JSON of `tidewright fit --json` (docs/file-formats.md).
+[[nodiscard]] nlohmann::ordered_json fit_result_json(const FitStageResult& result);
+
+}  // namespace tidewright::study

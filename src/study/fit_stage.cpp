@@ -1,0 +1,217 @@
+#include "tidewright/study/fit_stage.hpp"
+
+#include <cmath>
+#include <cstdio>
+
+#include "tidewright/common/csv.hpp"
+#include "tidewright/common/error.hpp"
+#include "tidewright/record/water_level_series.hpp"
+#include "tidewright/report/cautions.hpp"
+#include "tidewright/study/stage_files.hpp"
+
+namespace tidewright::study {
+namespace {
+
+std::string report_period(double years) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%g", years);
+  return buf;
+}
+
+RecordKind detect_kind(const FitRequest& r) {
+  if (r.kind != RecordKind::detect) return r.kind;
+  const CsvTable head = CsvTable::read(r.input, r.read.csv);
+  if (head.find_column(r.read.time_column)) return RecordKind::series;
+  if (head.find_column(r.read.year_column)) return RecordKind::annual_maxima;
+  throw InputError(location(r.input.string(), head.header_line()),
+                   "has neither a time column '" + r.read.time_column + "' nor a year column '" +
+                       r.read.year_column + "'",
+                   "name the columns with --time-column or --year-column");
+}
+
+nlohmann::ordered_json number_or_null(double v) {
+  return std::isfinite(v) ? nlohmann::ordered_json(v) : nlohmann::ordered_json(nullptr);
+}
+
+void fill_intervals(FitStageResult& out, const FitRequest& request) {
+  out.delta = extremes::return_levels_delta(out.fit, request.return_periods_yr);
+  out.profile = extremes::return_levels_profile(out.fit, request.return_periods_yr);
+  if (request.bootstrap_samples > 0) {
+    extremes::BootstrapOptions b;
+    b.samples = request.bootstrap_samples;
+    b.seed = request.seed;
+    out.bootstrap = extremes::return_levels_bootstrap(out.fit, request.return_periods_yr, b);
+  }
+  for (const auto& p : out.profile) {
+    if (!std::isfinite(p.lower_m) || !std::isfinite(p.upper_m)) {
+      out.warnings.push_back("the profile likelihood does not bound the " +
+                             report_period(p.return_period_yr) +
+                             "-year level on one side: the data cannot say how high (or low) it may be");
+    }
+  }
+}
+
+}  // namespace
+
+FitStageResult run_fit_stage(const FitRequest& request) {
+  for (double t : request.return_periods_yr) {
+    if (!(t > 1.0)) {
+      throw InputError("--return-periods", "holds " + std::to_string(t) + ", a return period of 1 year or less",
+                       "give return periods above 1 year");
+    }
+  }
+  FitStageResult out;
+  out.source = request.input.string();
+  const RecordKind kind = detect_kind(request);
+  const std::string& model = request.model;
+  if (model == "gpd") {
+    if (kind != RecordKind::series) {
+      throw InputError(request.input.string(), "a GPD fit needs a water-level series, not annual maxima",
+                       "give a timestamped series, or choose --model gev");
+    }
+    const auto series = record::read_water_level_series(request.input, request.read);
+    const auto peaks = record::peaks_over_threshold(series, request.peaks);
+    record::require_minimum_maxima(peaks.size(), "gpd", record::minimum_exceedances_gpd, out.source);
+    out.fit = extremes::fit_gpd(peaks.level_m, peaks.threshold_m, peaks.effective_years);
+    out.present_day = out.fit.model();
+    out.present_day.below_threshold = peaks.below_threshold;
+    out.datum = peaks.datum;
+    out.data_summary = series.summary() + "\n" + peaks.summary();
+    if (peaks.detrend) {
+      out.reference_epoch = peaks.detrend->epoch_yr;
+      out.trend_mm_per_yr = peaks.detrend->trend_mm_per_yr;
+    }
+    out.model = "gpd";
+  } else {
+    record::AnnualMaxima maxima;
+    if (kind == RecordKind::series) {
+      if (model == "rlargest") {
+        throw InputError(request.input.string(),
+                         "an r-largest fit needs an annual-maxima file with the r largest values of each year",
+                         "give such a file (with --r-columns), or choose --model gev");
+      }
+      const auto series = record::read_water_level_series(request.input, request.read);
+      maxima = record::annual_maxima_from_series(series, request.maxima);
+      out.data_summary = series.summary() + "\n" + maxima.summary();
+    } else {
+      maxima = record::read_annual_maxima(request.input, request.read);
+      out.data_summary = maxima.summary();
+    }
+    out.datum = maxima.datum;
+    if (maxima.detrend) {
+      out.reference_epoch = maxima.detrend->epoch_yr;
+      out.trend_mm_per_yr = maxima.detrend->trend_mm_per_yr;
+    }
+    if (model == "gumbel") {
+      record::require_minimum_maxima(maxima.size(), "gumbel", record::minimum_maxima_gumbel, out.source);
+      out.fit = extremes::fit_gumbel(maxima.level_m);
+      out.model = "gumbel";
+    } else if (model == "gev") {
+      record::require_minimum_maxima(maxima.size(), "gev", record::minimum_maxima_gev, out.source);
+      out.fit = extremes::fit_gev(maxima.level_m);
+      out.deviance_test = extremes::gumbel_against_gev(extremes::fit_gumbel(maxima.level_m), out.fit);
+      out.model = "gev";
+    } else if (model == "auto") {
+      record::require_minimum_maxima(maxima.size(), "gev", record::minimum_maxima_gev, out.source);
+      auto chosen = extremes::fit_annual_maxima_auto(maxima.level_m);
+      out.fit = std::move(chosen.fit);
+      out.deviance_test = chosen.test;
+      out.model = std::string(extremes::family_name(out.fit.family));
+    } else if (model == "rlargest") {
+      if (maxima.r_largest_m.empty()) {
+        throw InputError(request.input.string(), "has no r-largest columns",
+                         "name them with --r-columns, or choose --model gev");
+      }
+      record::require_minimum_maxima(maxima.size(), "rlargest", record::minimum_maxima_gev, out.source);
+      out.fit = extremes::fit_gev_r_largest(maxima.r_largest_m, request.r_largest);
+      out.model = "rlargest";
+    } else {
+      throw InputError("--model", "is '" + model + "'", "use gumbel, gev, gpd, rlargest or auto");
+    }
+    out.present_day = out.fit.model();
+  }
+  fill_intervals(out, request);
+  out.anderson_darling = extremes::anderson_darling(out.fit);
+  out.aic = extremes::aic(out.fit);
+  out.plot_points = extremes::diagnostic_plot_points(out.fit);
+  if (out.fit.family != extremes::Family::gumbel && out.fit.shape() > 0.5) {
+    out.warnings.push_back("the fitted shape is above 0.5: a very heavy tail; long return levels are unreliable");
+  }
+  return out;
+}
+
+nlohmann::ordered_json fit_result_json(const FitStageResult& r) {
+  nlohmann::ordered_json j;
+  j["model"] = r.model;
+  j["n"] = r.fit.n;
+  j["datum"] = r.datum;
+  j["source"] = r.source;
+  j["reference_epoch"] = r.reference_epoch ? nlohmann::ordered_json(*r.reference_epoch) : nlohmann::ordered_json(nullptr);
+  if (r.reference_epoch) j["trend_removed_mm_per_yr"] = r.trend_mm_per_yr;
+  nlohmann::ordered_json params, ses;
+  for (std::size_t i = 0; i < r.fit.parameter_names.size(); ++i) {
+    params[r.fit.parameter_names[i]] = r.fit.estimate(static_cast<Eigen::Index>(i));
+    ses[r.fit.parameter_names[i]] = r.fit.standard_error(static_cast<Eigen::Index>(i));
+  }
+  j["parameters"] = params;
+  j["standard_errors"] = ses;
+  nlohmann::ordered_json cov = nlohmann::ordered_json::array();
+  for (Eigen::Index a = 0; a < r.fit.covariance.rows(); ++a) {
+    nlohmann::ordered_json row = nlohmann::ordered_json::array();
+    for (Eigen::Index b = 0; b < r.fit.covariance.cols(); ++b) row.push_back(r.fit.covariance(a, b));
+    cov.push_back(row);
+  }
+  j["covariance"] = cov;
+  j["log_likelihood"] = r.fit.log_likelihood;
+  if (r.model == "gpd") {
+    j["threshold"] = r.fit.threshold_m;
+    j["rate_per_yr"] = r.fit.rate_per_yr;
+    j["rate_standard_error_per_yr"] = r.fit.rate_standard_error_per_yr;
+    j["years_of_record"] = r.fit.years_of_record;
+  }
+  nlohmann::ordered_json levels = nlohmann::ordered_json::array();
+  auto add = [&](const std::vector<extremes::ReturnLevel>& v) {
+    for (const auto& l : v) {
+      levels.push_back({{"return_period", l.return_period_yr},
+                        {"level", l.level_m},
+                        {"lower", number_or_null(l.lower_m)},
+                        {"upper", number_or_null(l.upper_m)},
+                        {"method", extremes::interval_method_name(l.method)}});
+    }
+  };
+  add(r.profile);
+  add(r.delta);
+  if (r.bootstrap) add(r.bootstrap->levels);
+  j["return_levels"] = levels;
+  j["confidence"] = 0.95;
+  nlohmann::ordered_json diag;
+  diag["aic"] = r.aic;
+  diag["anderson_darling"] = r.anderson_darling;
+  if (r.deviance_test) {
+    diag["deviance_gumbel_vs_gev"] = r.deviance_test->deviance;
+    diag["deviance_p_value"] = r.deviance_test->p_value;
+    diag["aic_gumbel"] = r.deviance_test->aic_gumbel;
+    diag["aic_gev"] = r.deviance_test->aic_gev;
+    diag["deviance_choice"] = std::string(extremes::family_name(r.deviance_test->chosen));
+  }
+  if (r.bootstrap) {
+    diag["bootstrap_samples"] = r.bootstrap->samples_used;
+    diag["bootstrap_failed_fits"] = r.bootstrap->failed_fits;
+  }
+  j["diagnostics"] = diag;
+  nlohmann::ordered_json pts = nlohmann::ordered_json::array();
+  for (const auto& p : r.plot_points) {
+    pts.push_back({{"level", p.level_m},
+                   {"plotting_position", p.plotting_position},
+                   {"model_probability", p.model_probability},
+                   {"model_level", p.model_level_m},
+                   {"return_period", p.return_period_yr}});
+  }
+  j["plot_points"] = pts;
+  j["present_day_model"] = still_water_model_json(r.present_day);
+  j["warnings"] = r.warnings;
+  j["cautions"] = report::safety_cautions();
+  return j;
+}
+
+}  // namespace tidewright::study

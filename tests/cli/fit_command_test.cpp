@@ -1,0 +1,107 @@
+// tidewright fit from the command line: the published Port Pirie example end to end, the JSON
+// contract of issue 3, and bad inputs with one-line messages and exit code 2.
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include <nlohmann/json.hpp>
+
+#include "support/run_cli.hpp"
+#include "tidewright/common/atomic_output.hpp"
+
+using tidewright::testing::count_lines;
+using tidewright::testing::read_all;
+using tidewright::testing::run_cli;
+using tidewright::testing::shell_quote;
+using tidewright::testing::TempDir;
+using ::testing::HasSubstr;
+using ::testing::StartsWith;
+
+namespace {
+const std::string portpirie = std::string(TIDEWRIGHT_SOURCE_DIR) + "/tests/reference/data/portpirie.csv";
+
+void expect_one_line_error(const tidewright::testing::CliResult& r, const std::string& part) {
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, StartsWith("tidewright: error: "));
+  EXPECT_THAT(r.err, HasSubstr(part));
+  EXPECT_EQ(count_lines(r.err), 1U) << r.err;
+}
+}  // namespace
+
+// Coles (2001) §3.4.1, Port Pirie annual maxima 1923-1987: mu 3.87, sigma 0.198, xi -0.050,
+// 100-year level 4.69 with delta-method interval [4.38, 5.00] and profile about [4.49, 5.26]
+// (docs/references.md: secondary, confirmed against evd::fgev 3.8748, 0.19805, -0.05012).
+TEST(FitCommand, PortPirieJsonMatchesColes) {
+  TempDir dir;
+  const auto json = dir / "fit.json";
+  const auto r = run_cli("fit " + shell_quote(portpirie) + " --level-column level_m --datum 'gauge datum' --json " +
+                         shell_quote(json.string()) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_TRUE(r.out.empty());
+  const auto j = nlohmann::json::parse(read_all(json));
+  EXPECT_EQ(j["model"], "gev");
+  EXPECT_EQ(j["n"], 65);
+  EXPECT_NEAR(j["parameters"]["location"].get<double>(), 3.8748, 5e-4);
+  EXPECT_NEAR(j["parameters"]["scale"].get<double>(), 0.19805, 5e-5);
+  EXPECT_NEAR(j["parameters"]["shape"].get<double>(), -0.05012, 5e-4);
+  EXPECT_NEAR(j["log_likelihood"].get<double>(), 4.34, 5e-3);
+  EXPECT_NEAR(j["standard_errors"]["shape"].get<double>(), 0.098, 1e-3);
+  EXPECT_EQ(j["covariance"].size(), 3U);
+  bool saw_profile_100 = false, saw_delta_100 = false;
+  for (const auto& l : j["return_levels"]) {
+    if (l["return_period"] != 100) continue;
+    EXPECT_NEAR(l["level"].get<double>(), 4.69, 5e-3);
+    if (l["method"] == "profile") {
+      saw_profile_100 = true;
+      EXPECT_NEAR(l["lower"].get<double>(), 4.49, 1e-2);
+      EXPECT_NEAR(l["upper"].get<double>(), 5.26, 1e-2);
+    }
+    if (l["method"] == "delta") {
+      saw_delta_100 = true;
+      EXPECT_NEAR(l["lower"].get<double>(), 4.38, 5e-3);
+      EXPECT_NEAR(l["upper"].get<double>(), 5.00, 5e-3);
+    }
+  }
+  EXPECT_TRUE(saw_profile_100 && saw_delta_100);
+  EXPECT_EQ(j["present_day_model"]["family"], "gev");
+  EXPECT_EQ(j["datum"], "gauge datum");
+}
+
+TEST(FitCommand, PrintsReadableSummaryWithCaution) {
+  const auto r = run_cli("fit " + shell_quote(portpirie) + " --level-column level_m --model gumbel");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("Model: gumbel"));
+  EXPECT_THAT(r.out, HasSubstr("return period (yr)"));
+  EXPECT_THAT(r.out, HasSubstr("licensed coastal engineer"));
+}
+
+TEST(FitCommand, RefusesToOverwriteWithoutForce) {
+  TempDir dir;
+  const auto json = dir / "fit.json";
+  tidewright::write_text_file(json, "{}", false);
+  const auto args = "fit " + shell_quote(portpirie) + " --level-column level_m --quiet --json " + shell_quote(json.string());
+  expect_one_line_error(run_cli(args), "already exists; choose another name or pass --force");
+  EXPECT_EQ(read_all(json), "{}");
+  EXPECT_EQ(run_cli(args + " --force").exit_code, 0);
+}
+
+TEST(FitCommand, BadInputsAreOneLineExitTwo) {
+  TempDir dir;
+  auto write = [&](const std::string& name, const std::string& text) {
+    tidewright::write_text_file(dir / name, text, true);
+    return shell_quote((dir / name).string());
+  };
+  expect_one_line_error(run_cli("fit " + shell_quote(portpirie)), "has no column 'level'");
+  expect_one_line_error(run_cli("fit " + write("few.csv", "year,level\n2000,1.1\n2001,1.3\n2002,1.2\n")),
+                        "few.csv");
+  expect_one_line_error(run_cli("fit " + write("twice.csv", "year,level\n2000,1.1\n2001,1.3\n2001,1.2\n")),
+                        "twice.csv:4");
+  expect_one_line_error(run_cli("fit " + write("bad.csv", "year,level\n2000,1.1\n2001,x\n")), "bad.csv:3");
+  expect_one_line_error(run_cli("fit " + write("times.csv", "time,level\n2020-01-01T00:00Z,1\n2019-13-01T00:00Z,2\n")),
+                        "times.csv:3");
+  expect_one_line_error(run_cli("fit " + shell_quote((dir / "absent.csv").string())), "absent.csv");
+  expect_one_line_error(run_cli("fit " + shell_quote(portpirie) + " --level-column level_m --model weibull"), "--model");
+  expect_one_line_error(run_cli("fit " + shell_quote(portpirie) + " --level-column level_m --return-periods 1,100"),
+                        "return period of 1 year or less");
+  expect_one_line_error(run_cli("fit " + shell_quote(portpirie) + " --level-column level_m --model gpd"),
+                        "needs a water-level series");
+}
