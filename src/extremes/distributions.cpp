@@ -2,6 +2,7 @@
 // (mu, sigma, xi, u, y, t, w, p, q as in Coles 2001).
 #include "tidewright/extremes/distributions.hpp"
 
+#include <array>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -13,6 +14,41 @@ namespace {
 
 constexpr double inf = std::numeric_limits<double>::infinity();
 constexpr int series_terms = 24;  // with |xi y| < 0.1: truncation below 0.1^24
+
+// Series coefficients (see shape_transform and expm1_over_shape).
+template <int Which>
+constexpr std::array<double, series_terms> log1p_coefficients() {
+  std::array<double, series_terms> c{};
+  for (int j = 0; j < series_terms; ++j) {
+    const double sign = (j % 2 == 0) ? 1.0 : -1.0;
+    const double jd = j;
+    if (Which == 0) c[j] = sign / (jd + 1.0);
+    if (Which == 1) c[j] = -sign * (jd + 1.0) / (jd + 2.0);
+    if (Which == 2) c[j] = sign * (jd + 1.0) * (jd + 2.0) / (jd + 3.0);
+  }
+  return c;
+}
+template <int Which>
+constexpr std::array<double, series_terms> expm1_coefficients() {
+  std::array<double, series_terms> c{};
+  double f = 1.0;  // (j+1)!
+  for (int j = 0; j < series_terms; ++j) {
+    const double jd = j;
+    f *= jd + 1.0;
+    const double f1 = f * (jd + 2.0);
+    const double f2 = f1 * (jd + 3.0);
+    if (Which == 0) c[j] = 1.0 / f;
+    if (Which == 1) c[j] = (jd + 1.0) / f1;
+    if (Which == 2) c[j] = (jd + 1.0) * (jd + 2.0) / f2;
+  }
+  return c;
+}
+constexpr auto log1p_c0 = log1p_coefficients<0>();
+constexpr auto log1p_c1 = log1p_coefficients<1>();
+constexpr auto log1p_c2 = log1p_coefficients<2>();
+constexpr auto expm1_c0 = expm1_coefficients<0>();
+constexpr auto expm1_c1 = expm1_coefficients<1>();
+constexpr auto expm1_c2 = expm1_coefficients<2>();
 
 std::string number(double v) {
   std::string s = std::to_string(v);
@@ -50,22 +86,19 @@ ShapeTransform shape_transform(double y, double xi) {
   const double x = xi * y;
   ShapeTransform r;
   if (std::abs(x) < small_shape_argument) {
-    // term k: w gets (-1)^(k+1) x^(k-1)/k; dw/dxi gets (-1)^(k+1) (k-1) x^(k-2)/k (times y^2);
-    // d2w/dxi2 gets (-1)^(k+1) (k-1)(k-2) x^(k-3)/k (times y^3).
+    // Term j (power x^j): w gets (-1)^j/(j+1); dw/dxi gets -(-1)^j (j+1)/(j+2) (times y^2);
+    // d2w/dxi2 gets (-1)^j (j+1)(j+2)/(j+3) (times y^3). Coefficients tabulated; the sum stops
+    // once (j+3)|x|^j < 1e-17, below rounding of the leading terms.
     double w = 0.0;
     double w1 = 0.0;
     double w2 = 0.0;
-    double xp = 1.0;  // x^j, used by the j-th term of each sum
-    double sign = 1.0;
+    double xp = 1.0;
     for (int j = 0; j < series_terms; ++j) {
-      const double k0 = j + 1;  // w term with power j
-      const double k1 = j + 2;  // dw term with power j
-      const double k2 = j + 3;  // d2w term with power j
-      w += sign * xp / k0;
-      w1 -= sign * (k1 - 1.0) * xp / k1;
-      w2 += sign * (k2 - 1.0) * (k2 - 2.0) * xp / k2;
+      w += log1p_c0[j] * xp;
+      w1 += log1p_c1[j] * xp;
+      w2 += log1p_c2[j] * xp;
       xp *= x;
-      sign = -sign;
+      if (std::abs(xp) * (j + 4) < 1e-17) break;
     }
     r.w = y * w;
     r.dw_dxi = y * y * w1;
@@ -102,21 +135,18 @@ ExpShape expm1_over_shape(double s, double xi) {
   }
   const double x = xi * s;
   if (std::abs(x) < small_shape_argument) {
-    // term with power j: a gets x^j/(j+1)!; da gets (k-1) x^j/k! with k = j+2 (times s^2);
-    // d2a gets (k-1)(k-2) x^j/k! with k = j+3 (times s^3).
+    // Term j (power x^j): a gets 1/(j+1)!; da gets (j+1)/(j+2)! (times s^2); d2a gets
+    // (j+1)(j+2)/(j+3)! (times s^3). Coefficients tabulated; factorial decay ends it early.
     double a = 0.0;
     double a1 = 0.0;
     double a2 = 0.0;
     double xp = 1.0;
-    double f0 = 1.0;  // (j+1)!
     for (int j = 0; j < series_terms; ++j) {
-      const double f1 = f0 * (j + 2);  // (j+2)!
-      const double f2 = f1 * (j + 3);  // (j+3)!
-      a += xp / f0;
-      a1 += (j + 1.0) * xp / f1;
-      a2 += (j + 2.0) * (j + 1.0) * xp / f2;
+      a += expm1_c0[j] * xp;
+      a1 += expm1_c1[j] * xp;
+      a2 += expm1_c2[j] * xp;
       xp *= x;
-      f0 = f1;
+      if (std::abs(xp) * expm1_c0[j] < 1e-18) break;
     }
     r.a = s * a;
     r.da_dxi = s * s * a1;

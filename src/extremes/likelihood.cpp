@@ -30,6 +30,7 @@ struct Accumulator {
   double mu;
   double sigma;
   double xi;
+  double log_sigma = std::log(sigma);
   double value = 0.0;
   Eigen::Vector3d g = Eigen::Vector3d::Zero();
   Eigen::Matrix3d h = Eigen::Matrix3d::Zero();
@@ -63,7 +64,7 @@ struct Accumulator {
     const double g_ww = -b * e;
     const double g_wxi = -a;
 
-    value += a * (-std::log(sigma) - (1.0 + xi) * s.w) - b * e;
+    value += a * (-log_sigma - (1.0 + xi) * s.w) - b * e;
     const Eigen::Vector3d W(W_mu, W_sigma, W_xi);
     g += g_w * W;
     g(1) -= a * inv_s;

@@ -22,14 +22,16 @@ MaximiserResult maximise_newton(const Objective& objective, ParamVector start,
     r.iterations = it;
     const LogLikelihood& cur = r.at_estimate;
     const ParamMatrix neg_h = -cur.hessian;
-    Eigen::SelfAdjointEigenSolver<ParamMatrix> eig(neg_h);
-    const auto& ev = eig.eigenvalues();
-    const bool newton = ev.minCoeff() > 0.0 && std::isfinite(ev.maxCoeff());
+    // Cholesky first: it succeeds exactly when -H is positive definite (the usual case near the
+    // maximum) and is cheaper than the eigen-decomposition needed otherwise.
+    Eigen::LLT<ParamMatrix> llt(neg_h);
+    const bool newton = llt.info() == Eigen::Success && neg_h.allFinite();
     ParamVector step;
     if (newton) {
-      step = eig.eigenvectors() *
-             (eig.eigenvectors().transpose() * cur.gradient).cwiseQuotient(ev);
+      step = llt.solve(cur.gradient);
     } else {
+      Eigen::SelfAdjointEigenSolver<ParamMatrix> eig(neg_h);
+      const auto& ev = eig.eigenvalues();
       const double floor_ev = 1e-8 * std::max(ev.cwiseAbs().maxCoeff(), 1e-300);
       const ParamVector absev = ev.cwiseAbs().cwiseMax(floor_ev);
       step = eig.eigenvectors() *

@@ -7,6 +7,7 @@
 #include <algorithm>
 #include <boost/math/distributions/chi_squared.hpp>
 #include <boost/math/distributions/normal.hpp>
+#include <boost/math/tools/roots.hpp>
 #include <boost/math/tools/toms748_solve.hpp>
 #include <cmath>
 #include <limits>
@@ -78,6 +79,27 @@ struct Profile {
       case Family::gpd: return gpd(q);
     }
     return gumbel(q);
+  }
+
+  // d l_p / d z_T at nuisance q: by the envelope theorem the derivative of the profile is the
+  // partial derivative of the likelihood in z_T with the nuisance held at its maximiser
+  // (mu = z - sigma a: dl/dmu; GPD sigma = (z - u)/b: dl/dsigma / b).
+  [[nodiscard]] double level_derivative(const ParamVector& q) const {
+    switch (fit.family) {
+      case Family::gumbel:
+        return fit.log_likelihood_at(vec2(level - q(0) * s, q(0))).gradient(0);
+      case Family::gev: {
+        ParamVector theta(3);
+        theta << level - q(0) * expm1_over_shape(s, q(1)).a, q(0), q(1);
+        return fit.log_likelihood_at(theta).gradient(0);
+      }
+      case Family::gpd: {
+        const double b = expm1_over_shape(std::log(q(0) * t_yr), q(1)).a;
+        const double sigma = (level - fit.threshold_m) / b;
+        return fit.log_likelihood_at(vec2(sigma, q(1))).gradient(0) / b;
+      }
+    }
+    return 0.0;
   }
 
   [[nodiscard]] LogLikelihood gumbel(const ParamVector& q) const {
@@ -201,8 +223,10 @@ MaximiserResult maximise_profile(const Profile& p, const ParamVector& start) {
 
 double delta_se(const FitResult& fit, double t);
 
-// One end of the profile interval on side dir (-1 lower, +1 upper).
-double profile_end(const FitResult& fit, double t, double z_hat, double se, double critical,
+// One end of the profile interval on side dir (-1 lower, +1 upper), by stepping outward until
+// the deviance passes the critical value and then TOMS 748 on the bracket. The fallback of
+// profile_end when Newton's method does not find the end (e.g. an unbounded side).
+double profile_end_bracketed(const FitResult& fit, double t, double z_hat, double se, double critical,
                    int dir) {
   const double l_max = full_maximum(fit);
   Profile prof{fit, fit.family == Family::gpd ? 0.0 : level_argument(fit, t), t, z_hat};
@@ -224,13 +248,11 @@ double profile_end(const FitResult& fit, double t, double z_hat, double se, doub
     const double f = deviance_minus_critical(z);
     if (f > 0.0) {
       // Bracketed: solve D(z) = critical with TOMS 748 (Alefeld, Potra & Shi 1995, via Boost.Math).
-      const ParamVector n_hi = last;
       last = n_prev;
       double lo = std::min(z_prev, z);
       double hi = std::max(z_prev, z);
       double f_lo = dir > 0 ? f_prev : f;
       double f_hi = dir > 0 ? f : f_prev;
-      (void)n_hi;
       std::uintmax_t max_iter = 60;
       const auto root = boost::math::tools::toms748_solve(
           deviance_minus_critical, lo, hi, f_lo, f_hi, boost::math::tools::eps_tolerance<double>(36),
@@ -245,6 +267,45 @@ double profile_end(const FitResult& fit, double t, double z_hat, double se, doub
   return dir > 0 ? inf : -inf;
 }
 
+
+// One end of the profile interval: the root of sqrt(D(z)) = sqrt(critical) on side dir, by
+// Boost.Math's newton_raphson_iterate started at the delta-method end. The signed root of the
+// deviance is close to linear in z, so Newton converges in a few steps; its derivative is
+// -l_p'(z)/sqrt(D) with l_p' from the envelope theorem (Profile::level_derivative).
+double profile_end(const FitResult& fit, double t, double z_hat, double se, double critical,
+                   int dir) {
+  if (!(std::isfinite(se) && se > 0.0)) return profile_end_bracketed(fit, t, z_hat, se, critical, dir);
+  const double l_max = full_maximum(fit);
+  const double target = std::sqrt(critical);
+  Profile prof{fit, fit.family == Family::gpd ? 0.0 : level_argument(fit, t), t, z_hat};
+  ParamVector last = nuisance_at_maximum(fit);
+  double last_root_deviance = 0.0;
+  auto f = [&](double z) {
+    prof.level = z;
+    const MaximiserResult m = maximise_profile(prof, last);
+    last = m.estimate;
+    const double d = std::max(0.0, 2.0 * (l_max - m.at_estimate.value));
+    const double r = std::sqrt(d);
+    last_root_deviance = r;
+    const double dr = r > 0.0 ? -prof.level_derivative(m.estimate) / r : 0.0;
+    return std::make_pair(r - target, dr);
+  };
+  double lo = dir > 0 ? z_hat : z_hat - 1000.0 * se;
+  double hi = dir > 0 ? z_hat + 1000.0 * se : z_hat;
+  if (fit.family == Family::gpd && dir < 0) lo = std::max(lo, fit.threshold_m);
+  const double guess = z_hat + dir * target * se;
+  try {
+    std::uintmax_t max_iter = 40;
+    const double z = boost::math::tools::newton_raphson_iterate(f, guess, lo, hi, 36, max_iter);
+    (void)f(z);
+    if (max_iter < 40 && std::abs(last_root_deviance - target) < 1e-7 && dir * (z - z_hat) > 0.0) {
+      return z;
+    }
+  } catch (const boost::math::evaluation_error&) {
+    // No root found from this start: fall through to the bracketing search.
+  }
+  return profile_end_bracketed(fit, t, z_hat, se, critical, dir);
+}
 }  // namespace
 
 const char* interval_method_name(IntervalMethod method) {
