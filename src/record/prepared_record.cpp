@@ -26,7 +26,8 @@ std::string dropped_and_trend_lines(const std::vector<DroppedYear>& dropped,
                                     const std::optional<Detrend>& detrend) {
   std::string out;
   if (!dropped.empty()) {
-    out += "  " + std::to_string(dropped.size()) + " years dropped: " + dropped_list(dropped) + "\n";
+    out +=
+        "  " + std::to_string(dropped.size()) + " years dropped: " + dropped_list(dropped) + "\n";
   }
   if (detrend && detrend->method != DetrendMethod::none) {
     out += "  mean-sea-level trend removed (" + std::string(detrend_method_name(detrend->method)) +
@@ -59,8 +60,9 @@ PreparedRecord prepare_record(const WaterLevelSeries& series, int start_month,
   if (method != DetrendMethod::none) p.detrend = p.levels.detrend;
   for (const auto& y : p.years.years) {
     if (!y.kept) {
-      p.dropped.push_back({y.year, y.completeness,
-                           percent(y.completeness) + " complete, below " + percent(min_completeness)});
+      p.dropped.push_back(
+          {y.year, y.completeness,
+           percent(y.completeness) + " complete, below " + percent(min_completeness)});
     }
   }
   return p;

@@ -12,10 +12,10 @@
 #include "record/record_test_helpers.hpp"
 
 namespace tr = tidewright::record;
-using tr::testing::input_error_of;
 using ::testing::DoubleEq;
 using ::testing::ElementsAre;
 using ::testing::HasSubstr;
+using tr::testing::input_error_of;
 
 namespace {
 std::string maxima_error(const std::string& text, const tr::ReadOptions& options = {}) {
@@ -127,9 +127,10 @@ TEST(AnnualMaxima, MinimumForEachModel) {
   EXPECT_EQ(input_error_of([] { tr::require_minimum_maxima(12, "gev", 15, "pp.csv"); }),
             "pp.csv: 12 annual maxima are too few for a gev fit, which needs at least 15; give a "
             "longer record or a model with fewer parameters");
-  EXPECT_EQ(input_error_of([] { tr::require_minimum_maxima(9, "gumbel", tr::minimum_maxima("gumbel")); }),
-            "gumbel: 9 annual maxima are too few for a gumbel fit, which needs at least 10; give "
-            "a longer record or a model with fewer parameters");
+  EXPECT_EQ(
+      input_error_of([] { tr::require_minimum_maxima(9, "gumbel", tr::minimum_maxima("gumbel")); }),
+      "gumbel: 9 annual maxima are too few for a gumbel fit, which needs at least 10; give "
+      "a longer record or a model with fewer parameters");
   EXPECT_EQ(input_error_of([] { tr::require_minimum_maxima(3, "gpd", 15, "tide.csv"); }),
             "tide.csv: 3 declustered exceedances are too few for a gpd fit, which needs at least "
             "15; lower the threshold or give a longer record");
@@ -147,7 +148,9 @@ TEST(AnnualMaximaReference, ReadsEvdSealevelWithMissingYears) {
       "library(evd); data(sealevel); "
       "d <- data.frame(year = as.integer(rownames(sealevel)), dover = sealevel$dover, "
       "harwich = sealevel$harwich); "
-      "write.csv(d, '" + csv.string() + "', row.names = FALSE); "
+      "write.csv(d, '" +
+      csv.string() +
+      "', row.names = FALSE); "
       "for (s in c('dover', 'harwich')) { x <- d[[s]]; "
       "cat(s, sum(!is.na(x)), sprintf('%.17g', sum(x, na.rm = TRUE)), d$year[is.na(x)], '\\n') }";
   const auto r = tr::testing::run_command("Rscript -e " + tidewright::testing::shell_quote(script));
@@ -186,7 +189,9 @@ TEST(AnnualMaximaReference, ReadsEvdVeniceAsRLargestInCentimetres) {
   const std::string script =
       "library(evd); data(venice); v <- as.data.frame(venice); names(v) <- paste0('r', 1:10); "
       "d <- cbind(year = as.integer(rownames(venice)), v); "
-      "write.csv(d, '" + csv.string() + "', row.names = FALSE); "
+      "write.csv(d, '" +
+      csv.string() +
+      "', row.names = FALSE); "
       "cat(nrow(d), sum(!is.na(venice)), sprintf('%.17g', sum(venice, na.rm = TRUE)), "
       "sum(!is.na(venice[rownames(venice) == '1935', ])), '\\n')";
   const auto r = tr::testing::run_command("Rscript -e " + tidewright::testing::shell_quote(script));
