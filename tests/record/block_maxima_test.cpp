@@ -82,7 +82,7 @@ TEST(BlockMaxima, CompletenessWithGapsDropsAndListsYears) {
   tr::AnnualMaximaOptions lenient;
   lenient.min_completeness = 0.7;
   EXPECT_EQ(tr::annual_maxima_from_series(g, lenient).size(), 3U);
-  EXPECT_THAT(am.summary(), HasSubstr("1 years dropped: 2002 (72.6% complete, below 75.0%)"));
+  EXPECT_THAT(am.summary(), HasSubstr("1 year dropped: 2002 (72.6% complete, below 75.0%)"));
 }
 
 TEST(BlockMaxima, PartialFirstAndLastYears) {
