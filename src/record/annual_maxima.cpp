@@ -12,7 +12,6 @@ namespace {
 
 using detail::format_number;
 
-
 AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
   const double to_m = metres_per_unit(options.unit);
   const std::size_t year_col = table.column(options.year_column);
@@ -29,8 +28,8 @@ AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
   for (const auto& row : table.rows()) {
     ++am.cleaning.rows_read;
     const std::string& year_cell = row.cells[year_col];
-    const auto year_value = options.missing.is_marker(year_cell) ? std::nullopt
-                                                                 : parse_finite_double(year_cell);
+    const auto year_value =
+        options.missing.is_marker(year_cell) ? std::nullopt : parse_finite_double(year_cell);
     if (!year_value || *year_value != std::round(*year_value) || std::abs(*year_value) > 1e6) {
       throw InputError(table.where(row),
                        "column '" + table.header()[year_col] + "' holds '" + year_cell +

@@ -28,9 +28,12 @@ Line fit_line(const Eigen::VectorXd& x, const Eigen::VectorXd& y) {
 
 std::string_view detrend_method_name(DetrendMethod method) {
   switch (method) {
-    case DetrendMethod::none: return "none";
-    case DetrendMethod::annual_mean: return "annual-mean";
-    case DetrendMethod::linear: return "linear";
+    case DetrendMethod::none:
+      return "none";
+    case DetrendMethod::annual_mean:
+      return "annual-mean";
+    case DetrendMethod::linear:
+      return "linear";
   }
   return "none";
 }
@@ -55,8 +58,8 @@ double record_mid_epoch(const RecordYears& years) {
     throw InputError("reference epoch", "the record has no year complete enough to place it",
                      "give a longer record or a lower minimum completeness");
   }
-  return decimal_year(0.5 * (static_cast<double>(first->start_utc_s) +
-                             static_cast<double>(last->end_utc_s)));
+  return decimal_year(
+      0.5 * (static_cast<double>(first->start_utc_s) + static_cast<double>(last->end_utc_s)));
 }
 
 DetrendedLevels remove_mean_sea_level_trend(const WaterLevelSeries& series,
@@ -106,8 +109,9 @@ DetrendedLevels remove_mean_sea_level_trend(const WaterLevelSeries& series,
 
   // annual_mean
   if (n_kept < 2) {
-    throw InputError("detrend", "annual-mean detrending needs at least 2 complete years; the record has " +
-                                    std::to_string(n_kept),
+    throw InputError("detrend",
+                     "annual-mean detrending needs at least 2 complete years; the record has " +
+                         std::to_string(n_kept),
                      "give a longer record or choose no detrending");
   }
   Eigen::VectorXd x(static_cast<Eigen::Index>(n_kept));
@@ -120,7 +124,8 @@ DetrendedLevels remove_mean_sea_level_trend(const WaterLevelSeries& series,
     double sum = 0.0;
     for (std::size_t i = y.first; i < y.last; ++i) sum += series.level_m[i];
     year_mean[j] = sum / static_cast<double>(y.last - y.first);
-    x(k) = years_from_epoch(0.5 * (static_cast<double>(y.start_utc_s) + static_cast<double>(y.end_utc_s)));
+    x(k) = years_from_epoch(
+        0.5 * (static_cast<double>(y.start_utc_s) + static_cast<double>(y.end_utc_s)));
     m(k) = year_mean[j];
     ++k;
   }
@@ -128,9 +133,10 @@ DetrendedLevels remove_mean_sea_level_trend(const WaterLevelSeries& series,
   for (std::size_t j = 0; j < years.years.size(); ++j) {
     const auto& y = years.years[j];
     for (std::size_t i = y.first; i < y.last; ++i) {
-      out.level_m[i] = y.kept ? series.level_m[i] - year_mean[j] + line.a
-                              : series.level_m[i] -
-                                    line.b * years_from_epoch(static_cast<double>(series.time_utc_s[i]));
+      out.level_m[i] =
+          y.kept ? series.level_m[i] - year_mean[j] + line.a
+                 : series.level_m[i] -
+                       line.b * years_from_epoch(static_cast<double>(series.time_utc_s[i]));
     }
   }
   out.detrend.trend_mm_per_yr = 1000.0 * line.b;

@@ -12,7 +12,6 @@ namespace {
 
 using detail::format_number;
 
-
 // Largest number of levels the rate curve may visit; guards against a step far too small.
 constexpr double max_rate_curve_levels = 100000.0;
 
@@ -52,8 +51,8 @@ std::string PeaksOverThreshold::summary() const {
   if (threshold_quantile) out += " (quantile " + format_number(*threshold_quantile, "%g") + ")";
   out += ", separation " + format_number(separation_h, "%g") + " h; " +
          format_number(events_per_yr, "%.3f") + " events per year over " +
-         format_number(effective_years, "%.2f") + " effective years; datum: " +
-         (datum.empty() ? std::string("not stated") : datum) + "\n";
+         format_number(effective_years, "%.2f") +
+         " effective years; datum: " + (datum.empty() ? std::string("not stated") : datum) + "\n";
   out += "  " + std::to_string(cleaning.rows_read) + " rows read, " +
          std::to_string(cleaning.missing) + " missing, " + std::to_string(cleaning.sentinels) +
          " sentinels; " + std::to_string(exceedances) + " samples above the threshold\n";
@@ -81,11 +80,13 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
                      "give a quantile such as 0.99 or 0.997");
   }
   if (!(options.separation_h > 0.0) || !std::isfinite(options.separation_h)) {
-    throw InputError("separation", format_number(options.separation_h, "%g") + " h is not a positive time",
+    throw InputError("separation",
+                     format_number(options.separation_h, "%g") + " h is not a positive time",
                      "give the minimum separation of independent events in hours, such as 72");
   }
   if (!(options.rate_curve_step_m > 0.0) || !std::isfinite(options.rate_curve_step_m)) {
-    throw InputError("rate curve step", format_number(options.rate_curve_step_m, "%g") + " m is not positive",
+    throw InputError("rate curve step",
+                     format_number(options.rate_curve_step_m, "%g") + " m is not positive",
                      "give a step such as 0.01 m");
   }
   const detail::PreparedRecord prepared =
@@ -159,12 +160,13 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
 
   // Empirical rate curve below u: clusters at u − k·step, kept while the count grows as the
   // level falls; N(z) = n_c(z) / T.
-  const double lowest =
-      options.rate_curve_lowest_m ? *options.rate_curve_lowest_m : sample_quantile(kept_levels, 0.5);
+  const double lowest = options.rate_curve_lowest_m ? *options.rate_curve_lowest_m
+                                                    : sample_quantile(kept_levels, 0.5);
   if ((u - lowest) / options.rate_curve_step_m > max_rate_curve_levels) {
     throw InputError("rate curve step",
                      "would visit more than " + format_number(max_rate_curve_levels, "%.0f") +
-                         " levels between " + format_number(lowest, "%.3f") + " m and the threshold",
+                         " levels between " + format_number(lowest, "%.3f") +
+                         " m and the threshold",
                      "give a larger step or a higher lowest level");
   }
   std::size_t best = pot.level_m.size();

@@ -1,5 +1,6 @@
 #include "prepared_record.hpp"
 
+#include <algorithm>
 #include <cstdio>
 
 #include "tidewright/common/error.hpp"
@@ -15,9 +16,25 @@ std::string format_number(double value, const char* printf_format) {
 std::string percent(double fraction) { return format_number(100.0 * fraction, "%.1f") + "%"; }
 
 std::string dropped_list(const std::vector<DroppedYear>& dropped) {
-  std::string out;
+  // Years that share a reason are grouped ("no value in the file: 1925, 1927"); a year with a
+  // reason of its own reads "2002 (72.6% complete, below 75.0%)".
+  std::vector<std::string> reasons;
   for (const auto& d : dropped) {
-    out += (out.empty() ? "" : ", ") + std::to_string(d.year) + " (" + d.reason + ")";
+    if (std::find(reasons.begin(), reasons.end(), d.reason) == reasons.end()) {
+      reasons.push_back(d.reason);
+    }
+  }
+  std::string out;
+  for (const auto& reason : reasons) {
+    std::string years;
+    std::size_t count = 0;
+    for (const auto& d : dropped) {
+      if (d.reason != reason) continue;
+      years += (years.empty() ? "" : ", ") + std::to_string(d.year);
+      ++count;
+    }
+    out += (out.empty() ? "" : "; ") +
+           (count == 1 ? years + " (" + reason + ")" : reason + ": " + years);
   }
   return out;
 }
@@ -26,7 +43,8 @@ std::string dropped_and_trend_lines(const std::vector<DroppedYear>& dropped,
                                     const std::optional<Detrend>& detrend) {
   std::string out;
   if (!dropped.empty()) {
-    out += "  " + std::to_string(dropped.size()) + " years dropped: " + dropped_list(dropped) + "\n";
+    out += "  " + std::to_string(dropped.size()) + (dropped.size() == 1 ? " year" : " years") +
+           " dropped: " + dropped_list(dropped) + "\n";
   }
   if (detrend && detrend->method != DetrendMethod::none) {
     out += "  mean-sea-level trend removed (" + std::string(detrend_method_name(detrend->method)) +
@@ -59,8 +77,9 @@ PreparedRecord prepare_record(const WaterLevelSeries& series, int start_month,
   if (method != DetrendMethod::none) p.detrend = p.levels.detrend;
   for (const auto& y : p.years.years) {
     if (!y.kept) {
-      p.dropped.push_back({y.year, y.completeness,
-                           percent(y.completeness) + " complete, below " + percent(min_completeness)});
+      p.dropped.push_back(
+          {y.year, y.completeness,
+           percent(y.completeness) + " complete, below " + percent(min_completeness)});
     }
   }
   return p;

@@ -15,7 +15,7 @@ namespace tidewright::record::detail {
 
 [[nodiscard]] std::string format_number(double value, const char* printf_format);
 [[nodiscard]] std::string percent(double fraction);  // "75.0%"
-// "1990 (62.0% complete, below 75.0%), 1991 (…)"
+// "2002 (72.6% complete, below 75.0%); no value in the file: 1925, 1927"
 [[nodiscard]] std::string dropped_list(const std::vector<DroppedYear>& dropped);
 // The summary lines for dropped years and a removed trend (empty when there is none).
 [[nodiscard]] std::string dropped_and_trend_lines(const std::vector<DroppedYear>& dropped,

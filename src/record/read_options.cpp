@@ -31,7 +31,8 @@ double metres_per_unit(std::string_view unit, std::string_view where) {
   for (const auto& u : units) {
     if (lower == u.name) return u.metres;
   }
-  throw InputError(std::string(where), "unit '" + std::string(unit) + "' is not one tidewright reads",
+  throw InputError(std::string(where),
+                   "unit '" + std::string(unit) + "' is not one tidewright reads",
                    "use one of " + accepted_units());
 }
 

@@ -40,7 +40,8 @@ RecordYears partition_record_years(const WaterLevelSeries& series, int start_mon
                      "give a month from 1 (January, calendar years) to 12");
   }
   if (!(min_completeness >= 0.0 && min_completeness <= 1.0)) {
-    throw InputError("minimum completeness", std::to_string(min_completeness) + " is not a fraction",
+    throw InputError("minimum completeness",
+                     std::to_string(min_completeness) + " is not a fraction",
                      "give a fraction of the expected samples from 0 to 1, such as 0.75");
   }
   RecordYears out;

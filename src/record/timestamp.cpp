@@ -90,7 +90,8 @@ ParsedTimestamp parse_utc_timestamp(std::string_view raw) {
       } else if (z == '+' || z == '-') {
         int oh = 0;
         int om = 0;
-        if (!read_digits(s, pos, 2, oh)) return fail("a UTC offset is written +hh, +hh:mm or +hhmm");
+        if (!read_digits(s, pos, 2, oh))
+          return fail("a UTC offset is written +hh, +hh:mm or +hhmm");
         if (pos < s.size()) {
           if (s[pos] == ':') ++pos;
           if (!read_digits(s, pos, 2, om) || pos != s.size()) {
@@ -104,8 +105,8 @@ ParsedTimestamp parse_utc_timestamp(std::string_view raw) {
       }
     }
   }
-  const std::int64_t local_s = days_since_epoch(ymd) * 86400 + hour * 3600 + minute * 60 +
-                               second + (round_up ? 1 : 0);
+  const std::int64_t clock_s = std::int64_t{hour} * 3600 + std::int64_t{minute} * 60 + second;
+  const std::int64_t local_s = days_since_epoch(ymd) * 86400 + clock_s + (round_up ? 1 : 0);
   return {local_s - offset_s, {}};  // local time = UTC + offset (ISO 8601-1:2019, 4.3.13)
 }
 

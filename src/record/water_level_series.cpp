@@ -11,7 +11,6 @@ namespace {
 
 using detail::format_number;
 
-
 WaterLevelSeries from_table(const CsvTable& table, const ReadOptions& options) {
   const double to_m = metres_per_unit(options.unit);
   const std::size_t time_col = table.column(options.time_column);
@@ -41,15 +40,15 @@ WaterLevelSeries from_table(const CsvTable& table, const ReadOptions& options) {
     }
     if (previous_line != 0 && *t.utc_s <= previous_time) {
       const bool same = *t.utc_s == previous_time;
-      throw InputError(
-          table.where(row),
-          same ? "time " + format_utc_timestamp(*t.utc_s) + " is given twice (lines " +
-                     std::to_string(previous_line) + " and " + std::to_string(row.line) +
-                     "; times are kept to the whole second, in UTC)"
-               : "time " + format_utc_timestamp(*t.utc_s) + " comes before " +
-                     format_utc_timestamp(previous_time) + " on line " +
-                     std::to_string(previous_line) + " (times in UTC)",
-          same ? "remove the duplicated row" : "sort the rows by time");
+      throw InputError(table.where(row),
+                       same ? "time " + format_utc_timestamp(*t.utc_s) + " is given twice (lines " +
+                                  std::to_string(previous_line) + " and " +
+                                  std::to_string(row.line) +
+                                  "; times are kept to the whole second, in UTC)"
+                            : "time " + format_utc_timestamp(*t.utc_s) + " comes before " +
+                                  format_utc_timestamp(previous_time) + " on line " +
+                                  std::to_string(previous_line) + " (times in UTC)",
+                       same ? "remove the duplicated row" : "sort the rows by time");
     }
     previous_time = *t.utc_s;
     previous_line = row.line;

@@ -13,10 +13,10 @@
 #include "tidewright/record/timestamp.hpp"
 
 namespace tr = tidewright::record;
-using tr::testing::input_error_of;
-using tr::testing::make_series;
 using ::testing::ElementsAre;
 using ::testing::HasSubstr;
+using tr::testing::input_error_of;
+using tr::testing::make_series;
 using namespace std::chrono;
 
 namespace {
@@ -46,13 +46,14 @@ TEST(BlockMaxima, CompletenessWithGapsDropsAndListsYears) {
   // Hourly 2001-2003; 100 days of 2002 missing. 2002: (365 − 100) / 365 = 0.7260 < 0.75.
   auto s = hourly(utc(2001y / January / 1), utc(2004y / January / 1), pattern);
   const std::int64_t gap_from = utc(2002y / March / 1);
-  const std::int64_t gap_to = gap_from + 100 * 86400;
+  const std::int64_t gap_to = gap_from + std::int64_t{100} * 86400;
   tr::WaterLevelSeries g;
   for (std::size_t i = 0; i < s.size(); ++i) {
     if (s.time_utc_s[i] >= gap_from && s.time_utc_s[i] < gap_to) continue;
     g.time_utc_s.push_back(s.time_utc_s[i]);
     // A planted maximum each year: +1 m on 1 July 06:00 (2001-2003 have 365 days each).
-    const bool peak = (s.time_utc_s[i] - utc(2001y / July / 1, 6)) % (365 * 86400) == 0;
+    const bool peak =
+        (s.time_utc_s[i] - utc(2001y / July / 1, 6)) % (std::int64_t{365} * 86400) == 0;
     g.level_m.push_back(s.level_m[i] + (peak ? 1.0 : 0.0));
   }
   g.source = "gaps";
@@ -81,7 +82,7 @@ TEST(BlockMaxima, CompletenessWithGapsDropsAndListsYears) {
   tr::AnnualMaximaOptions lenient;
   lenient.min_completeness = 0.7;
   EXPECT_EQ(tr::annual_maxima_from_series(g, lenient).size(), 3U);
-  EXPECT_THAT(am.summary(), HasSubstr("1 years dropped: 2002 (72.6% complete, below 75.0%)"));
+  EXPECT_THAT(am.summary(), HasSubstr("1 year dropped: 2002 (72.6% complete, below 75.0%)"));
 }
 
 TEST(BlockMaxima, PartialFirstAndLastYears) {
@@ -114,7 +115,8 @@ TEST(BlockMaxima, YearStartMonthKeepsAStormSeasonTogether) {
   EXPECT_EQ(am.time_utc_s[1], storm2);
   EXPECT_DOUBLE_EQ(am.level_m[2], 1.1);
   EXPECT_TRUE(am.dropped.empty());
-  EXPECT_THAT(am.summary(), HasSubstr("years start in month 10, labelled by the year they start in"));
+  EXPECT_THAT(am.summary(),
+              HasSubstr("years start in month 10, labelled by the year they start in"));
   // Calendar years split the season: 2001 gets 1.2 m and 2002 gets 1.4 m (2000 and 2003 are
   // a quarter and three quarters complete and are dropped).
   const auto calendar = tr::annual_maxima_from_series(s);
@@ -131,7 +133,8 @@ TEST(BlockMaxima, LinearTrendRecoveredAndRemoved) {
   const double epoch_yr = 2005.0;
   const double epoch_s = tr::utc_s_of_decimal_year(epoch_yr);
   const auto level = [&](std::int64_t t) {
-    return 1.0 + b_m_per_yr * (static_cast<double>(t) - epoch_s) / tr::seconds_per_year + pattern(t);
+    return 1.0 + b_m_per_yr * (static_cast<double>(t) - epoch_s) / tr::seconds_per_year +
+           pattern(t);
   };
   const auto s = hourly(utc(2000y / January / 1), utc(2010y / January / 1), level);
   tr::AnnualMaximaOptions o;

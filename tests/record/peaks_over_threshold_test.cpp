@@ -15,11 +15,11 @@
 #include "tidewright/record/timestamp.hpp"
 
 namespace tr = tidewright::record;
-using tr::testing::input_error_of;
-using tr::testing::make_series;
 using ::testing::DoubleEq;
 using ::testing::ElementsAre;
 using ::testing::HasSubstr;
+using tr::testing::input_error_of;
+using tr::testing::make_series;
 using namespace std::chrono;
 
 namespace {
@@ -46,8 +46,8 @@ tr::WaterLevelSeries year_with_spikes(const std::map<int, double>& spikes) {
 TEST(PeaksOverThreshold, RunsDeclusteringWith72HourWindow) {
   // Hour 130 comes 30 h after hour 100: one cluster, peak 1.8. Hour 202 comes exactly 72 h after
   // 130: a new cluster. Hour 273 comes 71 h after 202: the same cluster. Hour 400: a third.
-  const auto s = year_with_spikes({{100, 1.5}, {101, 1.6}, {130, 1.8}, {202, 1.2}, {273, 1.1},
-                                   {400, 2.0}});
+  const auto s =
+      year_with_spikes({{100, 1.5}, {101, 1.6}, {130, 1.8}, {202, 1.2}, {273, 1.1}, {400, 2.0}});
   tr::PeaksOptions o;
   o.threshold_m = 1.0;
   o.rate_curve_lowest_m = 0.5;
@@ -84,8 +84,8 @@ TEST(PeaksOverThreshold, TiesKeepTheFirstPeakAndLevelsAtTheThresholdDoNotExceed)
 TEST(PeaksOverThreshold, EmpiricalRateCurveBelowTheThreshold) {
   // Isolated smaller events at 0.855 and 0.555 m, far from the others: with 1 cm steps the
   // count of clusters rises from 3 to 4 at 0.85 m and to 5 at 0.55 m (levels u − k·0.01).
-  const auto s = year_with_spikes({{100, 1.5}, {1000, 1.2}, {2000, 2.0}, {3000, 0.855},
-                                   {4000, 0.555}});
+  const auto s =
+      year_with_spikes({{100, 1.5}, {1000, 1.2}, {2000, 2.0}, {3000, 0.855}, {4000, 0.555}});
   tr::PeaksOptions o;
   o.threshold_m = 1.0;
   o.rate_curve_lowest_m = 0.3;
@@ -137,7 +137,8 @@ TEST(PeaksOverThreshold, SampleQuantileClosedForm) {
 // numpy.quantile (default method "linear", Hyndman & Fan type 7) from Debian's Python.
 TEST(PeaksOverThresholdReference, QuantileThresholdMatchesNumpy) {
   std::map<int, double> spikes;
-  for (int k = 0; k < 365 * 24; k += 7) spikes[k] = 0.3 + 0.9 * std::sin(0.37 * k) * std::sin(0.011 * k);
+  for (int k = 0; k < 365 * 24; k += 7)
+    spikes[k] = 0.3 + 0.9 * std::sin(0.37 * k) * std::sin(0.011 * k);
   const auto s = year_with_spikes(spikes);
   tidewright::testing::TempDir dir;
   const auto path = dir / "levels.txt";

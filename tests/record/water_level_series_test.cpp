@@ -10,8 +10,8 @@
 #include "record/record_test_helpers.hpp"
 
 namespace tr = tidewright::record;
-using tr::testing::input_error_of;
 using ::testing::HasSubstr;
+using tr::testing::input_error_of;
 using namespace std::chrono;
 
 namespace {

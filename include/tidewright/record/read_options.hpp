@@ -36,10 +36,10 @@ struct ReadOptions {
 
 // What cleaning did to a file, for the summary a command prints.
 struct CleaningCounts {
-  std::size_t rows_read = 0;     // data rows (header, comments and blank lines not counted)
-  std::size_t missing = 0;       // level cells holding a missing-value marker
-  std::size_t sentinels = 0;     // level cells holding a user sentinel
-  std::size_t values_kept = 0;   // levels read as numbers
+  std::size_t rows_read = 0;    // data rows (header, comments and blank lines not counted)
+  std::size_t missing = 0;      // level cells holding a missing-value marker
+  std::size_t sentinels = 0;    // level cells holding a user sentinel
+  std::size_t values_kept = 0;  // levels read as numbers
 };
 
 }  // namespace tidewright::record
