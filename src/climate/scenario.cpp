@@ -149,9 +149,10 @@ double builtin_pathway_forcing_w_m2(std::string_view name, double year) {
     throw InputError("year " + std::to_string(year), "lies before the start of pathway '" + std::string(name) + "' (2019)",
                      "years before 2019 follow the historical ramp");
   }
-  for (int i = 0; i + 1 < d.knot_count; ++i) {
-    const Knot& a = d.knots[static_cast<std::size_t>(i)];
-    const Knot& b = d.knots[static_cast<std::size_t>(i + 1)];
+  const auto knots = static_cast<std::size_t>(d.knot_count);
+  for (std::size_t i = 0; i + 1 < knots; ++i) {
+    const Knot& a = d.knots[i];
+    const Knot& b = d.knots[i + 1];
     if (year <= b.year) return hermite(a, b, year);
   }
   return d.knots[static_cast<std::size_t>(d.knot_count - 1)].forcing_w_m2;  // held after the last knot

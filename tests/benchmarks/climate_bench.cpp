@@ -23,7 +23,7 @@ void run_cpp(benchmark::State& state, int first, int last) {
   o.first_year = first;
   o.last_year = last;
   o.member_count = 10000;
-  for (auto _ : state) {
+  for (auto _ : state) {  // NOLINT(clang-analyzer-deadcode.DeadStores): Google Benchmark's loop idiom
     ComponentEnsemble e = project_global_components(scenario, o);
     benchmark::DoNotOptimize(e.rise_m.front().data());
   }
@@ -35,7 +35,7 @@ void run_numpy(benchmark::State& state, int first, int last) {
   const std::string cmd = std::string("/usr/bin/python3 ") + TIDEWRIGHT_SOURCE_DIR +
                           "/tests/reference/scripts/climate_ensemble_numpy.py 10000 " + std::to_string(first) + " " +
                           std::to_string(last);
-  for (auto _ : state) {
+  for (auto _ : state) {  // NOLINT(clang-analyzer-deadcode.DeadStores): Google Benchmark's loop idiom
     FILE* pipe = popen(cmd.c_str(), "r");
     double seconds = -1.0;
     double median = 0.0;

@@ -64,6 +64,7 @@ TEST(ClimateLandIce, GreenlandAntarcticaAndLandWaterFollowTheirRates) {
               1e-12);
   // Linear T = 0.02 (t - 2000): cumulative k 0.01 t^2 for Antarctica's linear rate k T.
   std::vector<double> ramp;
+  ramp.reserve(years.size());
   for (int y : years) ramp.push_back(0.02 * (y - 2000));
   const AntarcticParameters a;
   const double k = a.discharge_m_per_yr_k - a.accumulation_m_per_yr * a.snowfall_increase_per_k * a.antarctic_warming_ratio;
