@@ -21,6 +21,7 @@ struct ComponentEnsemble {
   std::vector<std::string> component_names;  // e.g. {thermal_expansion, glaciers, ...}
   std::vector<Eigen::MatrixXd> rise_m;      // one per component: members x years, metres of GMSL
   Eigen::MatrixXd surface_warming_k;        // members x years: global surface temperature anomaly
+  Eigen::MatrixXd ocean_heat_content_change_yj;  // members x years: ocean heat gain, 10^24 J
   std::string reference;                    // what rise and warming are measured from
   std::string scenario;                     // label carried into every output
   bool illustrative = false;                // true for the built-in illustrative pathways

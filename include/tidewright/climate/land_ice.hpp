@@ -1,0 +1,76 @@
+// Semi-empirical land-ice and land-water contributions to global mean sea level, each driven by
+// the global surface warming path T(t) (K relative to pre-industrial) at annual points, linear
+// between them. Each function returns the cumulative contribution in metres of sea-level
+// equivalent (SLE), zero at the first year of the path. Floating ice adds nothing.
+//
+// Glossary (code name -> symbol)
+//   warming_k                   T       global surface warming, K
+//   volume_m / volume_2019_m    V, V_19 remaining glacier volume, m SLE (in 2019)
+//   sensitivity_m_per_yr_k      a_g     glacier loss rate per K of warming at today's volume
+//   equilibrium_warming_k       T_g0    warming at which glaciers would be in balance
+//   volume_exponent             n       rate scales as (V/V_19)^n (area-volume scaling)
+//   smb_m_per_yr_k2             s_G     Greenland surface-mass-balance loss per K^2
+//   discharge_m_per_yr_k        d_G,d_A ice discharge increase per K
+//   accumulation_m_per_yr       P_A     present Antarctic snowfall, m SLE per year
+//   snowfall_increase_per_k     c_A     fractional snowfall increase per K of Antarctic warming
+//
+// The calibration constants marked "calibrated" below were set so that the central member on the
+// built-in pathway "midway" reproduces the IPCC AR6 WG1 Table 9.9 SSP2-4.5 component medians in
+// 2100 (relative to 1995-2014): glaciers 0.12, Greenland 0.08, Antarctica 0.11, land water
+// 0.03 m (secondary, docs/references.md). Those medians are then not an independent check.
+#pragma once
+
+#include <vector>
+
+namespace tidewright::climate {
+
+// Glaciers: dS/dt = a_g (T - T_g0) (V/V_19)^n, V = V_19 - (S - S_19) -- a warming-driven loss
+// rate limited by the remaining volume (form after the volume-limited semi-empirical glacier
+// models, e.g. Wigley & Raper 2005, from memory).
+struct GlacierParameters {
+  double volume_2019_m = 0.32;        // Farinotti et al. (2019) Nat. Geosci. 12:168, 0.32 +- 0.08 m (confirmed)
+  double sensitivity_m_per_yr_k = 6.4e-4;  // calibrated (see above)
+  double equilibrium_warming_k = -0.2;      // glaciers already retreating in the late 19th century (from memory)
+  double volume_exponent = 1.0 / 1.375;     // area ~ V^(1/1.375), Bahr et al. (1997) JGR 102:20355 (from memory)
+  int volume_year = 2019;
+};
+// Exact for T linear in each step: with u = V^(1-n), du/dt = -(1-n) a_g V_19^-n (T - T_g0), so
+// V(t)^(1-n) = V_19^(1-n) - (1-n) a_g V_19^-n int_{2019}^t (T - T_g0) dt, V >= 0.
+[[nodiscard]] std::vector<double> glacier_rise_m(const GlacierParameters& p, const std::vector<int>& years,
+                                                 const std::vector<double>& warming_k);
+
+// Greenland: dS/dt = s_G T|T| + d_G T -- surface mass balance loss growing with the square of
+// warming (melt-albedo and elevation feedbacks, e.g. Fettweis et al. 2013, from memory) plus a
+// discharge increase linear in warming. The split, about half each in the 2010s, follows the
+// IMBIE Team (2020, Nature 579:233) partition (from memory).
+struct GreenlandParameters {
+  double smb_m_per_yr_k2 = 1.266e-4;       // calibrated
+  double discharge_m_per_yr_k = 1.401e-4;  // calibrated
+  double factor = 1.0;                    // ensemble multiplier of both terms
+};
+[[nodiscard]] std::vector<double> greenland_rise_m(const GreenlandParameters& p, const std::vector<int>& years,
+                                                   const std::vector<double>& warming_k);
+
+// Antarctica: dS/dt = -P_A c_A r_A T + f_A d_A T -- snowfall that grows with warming by
+// Clausius-Clapeyron scaling (Frieler et al. 2015, Nat. Clim. Change 5:348: about 5 % per K of
+// Antarctic warming, from memory) lowers sea level; dynamic discharge raises it, with a skewed
+// multiplier f_A (log-normal in the ensemble).
+struct AntarcticParameters {
+  double accumulation_m_per_yr = 5.8e-3;   // about 2100 Gt/yr at 362.5 Gt per mm SLE (from memory)
+  double snowfall_increase_per_k = 0.05;   // Frieler et al. (2015), from memory
+  double antarctic_warming_ratio = 1.0;    // Antarctic over global warming (from memory)
+  double discharge_m_per_yr_k = 8.60e-4;   // calibrated
+  double discharge_factor = 1.0;           // ensemble multiplier (log-normal)
+};
+[[nodiscard]] std::vector<double> antarctic_rise_m(const AntarcticParameters& p, const std::vector<int>& years,
+                                                   const std::vector<double>& warming_k);
+
+// Land-water storage: a prescribed constant rate (groundwater depletion minus reservoir
+// impoundment), calibrated to the AR6 SSP2-4.5 median of 0.03 m over 1995-2014 -> 2100.
+struct LandWaterParameters {
+  double rate_m_per_yr = 0.03 / 95.5;  // calibrated: 0.03 m over 2004.5 -> 2100
+  double factor = 1.0;                 // ensemble multiplier
+};
+[[nodiscard]] std::vector<double> land_water_rise_m(const LandWaterParameters& p, const std::vector<int>& years);
+
+}  // namespace tidewright::climate
