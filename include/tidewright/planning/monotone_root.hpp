@@ -61,6 +61,12 @@ MonotoneRoot solve_non_increasing(F f, double lo, double hi, double tolerance, c
   if (max_iter >= 200) {
     throw ComputationError(what, "TOMS748 did not converge in 200 iterations", "report this case");
   }
+  // A root pinned against a clamped infinity is no root: the equation jumps there (e.g. a
+  // GEV lower end point entered by one node), so the answer would only mark the jump.
+  if (std::abs(g(r.first)) >= 1e300 || std::abs(g(r.second)) >= 1e300) {
+    throw ComputationError(what, "the equation jumps to infinity at the solution (an end point of the extreme model)",
+                           "check the extreme model's shape and the spread of the rise");
+  }
   return {0.5 * (r.first + r.second), evaluations};
 }
 
