@@ -81,6 +81,28 @@ std::vector<YearConditions> conditions_over_years(const local::RiseEnsemble& ens
   return out;
 }
 
+YearConditions conditions_in_year(const local::QuantileTable& table, int year, const StorminessChange& storminess,
+                                  int nodes) {
+  const local::QuantileDistribution d = local::distribution_in_year(table, year);
+  YearConditions c;
+  c.year = year;
+  c.storminess = storminess;
+  c.rise = RiseDistribution::normal_score([&](double s) { return d.rise_at_score(s); }, nodes);
+  check_conditions(c);
+  return c;
+}
+
+std::vector<YearConditions> conditions_over_years(const local::QuantileTable& table, int first_year, int last_year,
+                                                  const StorminessChange& storminess, int nodes) {
+  if (last_year < first_year) {
+    throw InputError("years " + std::to_string(first_year) + "-" + std::to_string(last_year),
+                     "the last year comes before the first", "give the span as first..last");
+  }
+  std::vector<YearConditions> out;
+  for (int t = first_year; t <= last_year; ++t) out.push_back(conditions_in_year(table, t, storminess, nodes));
+  return out;
+}
+
 void node_rates(const extremes::StillWaterModel& present, const YearConditions& conditions, double level_m,
                 std::span<double> out) {
   check_conditions(conditions);

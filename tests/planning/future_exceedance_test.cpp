@@ -145,3 +145,25 @@ TEST(PresentReturnLevel, RefusesReturnPeriodsUpToOneYear) {
   // Gumbel: z_T = mu + lambda ln T (rate form N_0 = 1/T).
   EXPECT_NEAR(present_return_level(m, 100.0), 2.0 + 0.1 * std::log(100.0), 1e-12);
 }
+
+// A projection table holding the quantiles of N(0.5, 0.1) gives, through the table's
+// distribution and Gauss-Hermite, the lognormal-mean N_t of a Gumbel model (closed form as
+// above), and a design-life span over the table's comonotone nodes.
+TEST(FutureExceedanceRate, ProjectionTableDistribution) {
+  tidewright::local::QuantileTable t;
+  t.years = {2050, 2100};
+  t.probabilities = {0.05, 0.17, 0.5, 0.83, 0.95};
+  t.rise_m.resize(2, 5);
+  const boost::math::normal_distribution<double> n2050(0.2, 0.04), n2100(0.5, 0.1);
+  for (int k = 0; k < 5; ++k) {
+    t.rise_m(0, k) = boost::math::quantile(n2050, t.probabilities[static_cast<std::size_t>(k)]);
+    t.rise_m(1, k) = boost::math::quantile(n2100, t.probabilities[static_cast<std::size_t>(k)]);
+  }
+  const StillWaterModel m = gumbel(2.0, 0.1);
+  const YearConditions c = conditions_in_year(t, 2100);
+  EXPECT_NEAR(future_exceedance_rate(m, c, 2.5) / (m.annual_exceedance_rate(2.5) * std::exp(5.5)), 1.0, 1e-12);
+  const auto span = conditions_over_years(t, 2060, 2070);
+  ASSERT_EQ(span.size(), 11U);
+  EXPECT_EQ(span[3].rise.weight, span[0].rise.weight);
+  EXPECT_THROW((void)conditions_in_year(t, 2110), InputError);
+}

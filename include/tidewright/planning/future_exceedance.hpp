@@ -14,6 +14,7 @@
 #include <vector>
 
 #include "tidewright/extremes/still_water_model.hpp"
+#include "tidewright/local/quantile_table.hpp"
 #include "tidewright/local/rise_ensemble.hpp"
 #include "tidewright/planning/rise_distribution.hpp"
 
@@ -59,6 +60,17 @@ struct YearConditions {
 [[nodiscard]] std::vector<YearConditions> conditions_over_years(const local::RiseEnsemble& ensemble,
                                                                 int first_year, int last_year,
                                                                 const StorminessChange& storminess = {});
+
+// Year t of a published projection table as a continuous distribution (local::
+// distribution_in_year), integrated by Gauss-Hermite in normal-score space. The nodes are the
+// same scores in every year, so node k of each year lies on one comonotone path and
+// design_life_risk can use a span of these. No warming: a per-kelvin storminess change throws.
+[[nodiscard]] YearConditions conditions_in_year(const local::QuantileTable& table, int year,
+                                                const StorminessChange& storminess = {}, int nodes = 20);
+[[nodiscard]] std::vector<YearConditions> conditions_over_years(const local::QuantileTable& table,
+                                                                int first_year, int last_year,
+                                                                const StorminessChange& storminess = {},
+                                                                int nodes = 20);
 
 // N_0 of the storm-adjusted model at z - delta_i for every node i (per yr), written to `out`
 // (size = conditions.rise.size()). The one place where N_0 meets Delta.
