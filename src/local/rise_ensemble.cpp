@@ -6,7 +6,10 @@
 
 namespace tidewright::local {
 
-Eigen::VectorXd RiseEnsemble::rise_in(int year) const {
+namespace {
+
+// Column of `values` (members x years) at `year`, linear between listed years.
+Eigen::VectorXd column_in_year(const std::vector<int>& years, const Eigen::MatrixXd& values, int year) {
   if (years.empty() || year < years.front() || year > years.back()) {
     throw InputError("year " + std::to_string(year),
                      "lies outside the projection (" +
@@ -17,11 +20,20 @@ Eigen::VectorXd RiseEnsemble::rise_in(int year) const {
   }
   const auto it = std::lower_bound(years.begin(), years.end(), year);
   const auto hi = static_cast<Eigen::Index>(it - years.begin());
-  if (*it == year) return rise_m.col(hi);
+  if (*it == year) return values.col(hi);
   const Eigen::Index lo = hi - 1;
   const double w = static_cast<double>(year - years[static_cast<std::size_t>(lo)]) /
                    static_cast<double>(*it - years[static_cast<std::size_t>(lo)]);
-  return (1.0 - w) * rise_m.col(lo) + w * rise_m.col(hi);
+  return (1.0 - w) * values.col(lo) + w * values.col(hi);
+}
+
+}  // namespace
+
+Eigen::VectorXd RiseEnsemble::rise_in(int year) const { return column_in_year(years, rise_m, year); }
+
+Eigen::VectorXd RiseEnsemble::warming_in(int year) const {
+  if (surface_warming_k.size() == 0) return {};
+  return column_in_year(years, surface_warming_k, year);
 }
 
 }  // namespace tidewright::local

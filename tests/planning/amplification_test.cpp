@@ -1,0 +1,80 @@
+#include "tidewright/planning/amplification.hpp"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+
+#include "planning/planning_test_support.hpp"
+#include "tidewright/common/error.hpp"
+
+using tidewright::extremes::StillWaterModel;
+using namespace tidewright::planning;
+using tidewright::testing::gev;
+using tidewright::testing::gumbel;
+
+// Amplification factor for Gumbel and a known rise: exp(Delta/lambda) (IPCC AR5 WG1 ch. 13;
+// docs/references.md: lambda 0.1, Delta 0.5 -> 148.4, computed).
+TEST(Amplification, GumbelKnownRiseIsExpDeltaOverLambda) {
+  const StillWaterModel m = gumbel(2.0, 0.1);
+  const YearConditions c{2100, RiseDistribution::members(Eigen::VectorXd::Constant(1, 0.5)), {}};
+  const Amplification a = amplification_of_return_level(m, c, 100.0);
+  EXPECT_NEAR(a.amplification_factor, std::exp(5.0), 1e-10 * std::exp(5.0));
+  EXPECT_NEAR(a.amplification_factor, 148.4, 0.05);
+  EXPECT_DOUBLE_EQ(a.present_return_period_yr, 100.0);
+  EXPECT_NEAR(a.future_return_period_yr, 100.0 / std::exp(5.0), 1e-10);
+  EXPECT_FALSE(a.present_rate_is_zero);
+}
+
+// With Delta ~ N(0.5, 0.1): exp(mu/lambda + sigma^2/(2 lambda^2)) = exp(5.5) = 244.7
+// (lognormal mean; docs/references.md, computed).
+TEST(Amplification, GumbelNormalRiseIsLognormalMean) {
+  const StillWaterModel m = gumbel(2.0, 0.1);
+  const YearConditions c{2100, RiseDistribution::normal(0.5, 0.1), {}};
+  const Amplification a = amplification(m, c, 2.3);
+  EXPECT_NEAR(a.amplification_factor / std::exp(5.5), 1.0, 1e-12);
+  EXPECT_NEAR(a.amplification_factor, 244.7, 0.05);
+}
+
+// Monte Carlo members from N(0.5, 0.1), n = 20000: the mean of exp(delta/lambda) has relative
+// standard error sqrt((exp(sigma^2/lambda^2) - 1)/n) = 0.93 % (lognormal variance; closed
+// form); the test allows 4 of them.
+TEST(Amplification, MonteCarloMembersWithinSamplingError) {
+  const std::size_t n = 20000;
+  const auto draws = tidewright::testing::normal_draws(n, 0.5, 0.1, 7);
+  const Eigen::VectorXd d = Eigen::Map<const Eigen::VectorXd>(draws.data(), static_cast<Eigen::Index>(n));
+  const YearConditions c{2100, RiseDistribution::members(d), {}};
+  const double rel_se = std::sqrt(std::expm1(1.0) / static_cast<double>(n));
+  const double af = amplification(gumbel(2.0, 0.1), c, 2.5).amplification_factor;
+  EXPECT_NEAR(af / std::exp(5.5), 1.0, 4 * rel_se);
+}
+
+TEST(Amplification, AboveUpperEndPointIsFlaggedNotPrinted) {
+  const StillWaterModel m = gev(2.0, 0.1, -0.5);  // upper end point 2.2 m
+  const YearConditions c{2100, RiseDistribution::members(Eigen::VectorXd::Constant(1, 0.3)), {}};
+  const Amplification a = amplification(m, c, 2.3);
+  EXPECT_TRUE(a.present_rate_is_zero);
+  EXPECT_TRUE(std::isinf(a.amplification_factor));
+  EXPECT_TRUE(std::isinf(a.present_return_period_yr));
+  EXPECT_GT(a.future_rate_per_yr, 0.0);
+}
+
+// Emergence: Gumbel lambda 0.1, today's 100-year level, Delta_t = 0.01 (t - 2020) m. The rate
+// 0.01 exp(Delta_t/lambda) reaches 1 per year when Delta_t = lambda ln 100 = 0.4605 m, i.e. in
+// 2066.05, so the first whole year is 2067 (closed form).
+TEST(Emergence, GumbelLinearRiseReachesAnnualInClosedFormYear) {
+  const StillWaterModel m = gumbel(2.0, 0.1);
+  Eigen::MatrixXd rise(1, 2);
+  rise << 0.0, 1.3;
+  const auto e = tidewright::testing::ensemble({2020, 2150}, rise);
+  const auto years = conditions_over_years(e, 2020, 2150);
+  const double z100 = present_return_level(m, 100.0);
+  const Emergence once = emergence_year(m, years, z100);
+  ASSERT_TRUE(once.year.has_value());
+  EXPECT_EQ(*once.year, 2067);
+  EXPECT_GE(once.rate_in_year_per_yr, 1.0);
+  // Ten times a year: Delta = lambda ln 1000 = 0.6908 m -> 2089.08 -> 2090.
+  EXPECT_EQ(emergence_year(m, years, z100, 10.0).year.value_or(0), 2090);
+  // Never within the span at 1e6 per year.
+  EXPECT_FALSE(emergence_year(m, years, z100, 1e6).year.has_value());
+  EXPECT_THROW((void)emergence_year(m, years, z100, 0.0), tidewright::InputError);
+}
