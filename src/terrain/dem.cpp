@@ -14,12 +14,7 @@ namespace {
 
 constexpr float nan_f = std::numeric_limits<float>::quiet_NaN();
 
-std::string number(double v) {
-  std::string s = std::to_string(v);
-  while (s.size() > 1 && s.back() == '0') s.pop_back();
-  if (!s.empty() && s.back() == '.') s.pop_back();
-  return s;
-}
+std::string number(double v) { return gdal::number_text(v); }
 
 }  // namespace
 

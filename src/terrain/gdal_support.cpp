@@ -5,6 +5,7 @@
 
 #include <cmath>
 #include <mutex>
+#include <sstream>
 
 #include "tidewright/common/error.hpp"
 
@@ -13,6 +14,13 @@ namespace tidewright::terrain::gdal {
 void register_drivers() {
   static std::once_flag once;
   std::call_once(once, [] { GDALAllRegister(); });
+}
+
+std::string number_text(double value) {
+  std::ostringstream s;
+  s.precision(10);
+  s << value;
+  return s.str();
 }
 
 std::string last_error() {

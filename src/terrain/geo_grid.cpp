@@ -50,8 +50,8 @@ CellAreas cell_areas(const GeoGrid& grid) {
     const double a = srs.GetSemiMajor(&err);
     const double inv_f = srs.GetInvFlattening(&err);
     out.geodesic = true;
-    out.method = "geodesic on the ellipsoid of " + crs_name + " (a = " + std::to_string(a) +
-                 " m, 1/f = " + std::to_string(inv_f) + "), PROJ geod_polygonarea";
+    out.method = "geodesic on the ellipsoid of " + crs_name + " (a = " + gdal::number_text(a) +
+                 " m, 1/f = " + gdal::number_text(inv_f) + "), PROJ geod_polygonarea";
     const double lon0 = gt[0] * to_deg;
     const double lon1 = (gt[0] + gt[1]) * to_deg;
     for (std::size_t r = 0; r < grid.shape.rows; ++r) {
@@ -65,7 +65,7 @@ CellAreas cell_areas(const GeoGrid& grid) {
   const double unit_m = srs.GetLinearUnits(nullptr);  // metres per CRS unit
   // Planar area of the parallelogram spanned by the cell's two edge vectors.
   const double area = std::abs(gt[1] * gt[5] - gt[2] * gt[4]) * unit_m * unit_m;
-  out.method = "planar in " + crs_name + " (" + std::to_string(area) + " m2 per cell)";
+  out.method = "planar in " + crs_name + " (" + gdal::number_text(area) + " m2 per cell)";
   out.row_area_m2.assign(grid.shape.rows, area);
   return out;
 }

@@ -89,7 +89,8 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
     for (const auto& p : source.points_xy) {
       const double col = inverse[0] + p[0] * inverse[1] + p[1] * inverse[2];
       const double row = inverse[3] + p[0] * inverse[4] + p[1] * inverse[5];
-      const std::string where = "--sea-point " + std::to_string(p[0]) + "," + std::to_string(p[1]);
+      const std::string where =
+          "--sea-point " + gdal::number_text(p[0]) + "," + gdal::number_text(p[1]);
       if (!(col >= 0.0 && row >= 0.0 && col < static_cast<double>(shape.cols) &&
             row < static_cast<double>(shape.rows))) {
         throw InputError(where, "the point lies outside the DEM",
@@ -111,7 +112,7 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
         if (!std::isnan(z) && static_cast<double>(z) <= limit) sea.is_sea[i] = 1;
       }
     }
-    add_part("DEM edge cells at or below " + std::to_string(limit) + " m");
+    add_part("DEM edge cells at or below " + gdal::number_text(limit) + " m");
   }
 
   if (source.nodata_is_sea) {

@@ -14,7 +14,9 @@
 
 namespace tidewright::terrain::gdal {
 
-void register_drivers();  // GDALAllRegister once, thread-safe
+void register_drivers();
+// A number as short text for messages and metadata ("0.5", "100", "-2.25"), 10 significant digits.
+[[nodiscard]] std::string number_text(double value);  // GDALAllRegister once, thread-safe
 // The last GDAL error message (trimmed), or "no reason given".
 [[nodiscard]] std::string last_error();
 
