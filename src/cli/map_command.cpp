@@ -4,6 +4,7 @@
 // Interim (until the planning stage's N_t(z) is wired in by the study): levels are explicit
 // (--level), the AEP raster uses a present-day still-water model given on the command line or
 // as a small JSON file, and future years shift it by a stated deterministic rise (--rise).
+#include <cpl_error.h>
 #include <gdal.h>
 
 #include <CLI/CLI.hpp>
@@ -351,6 +352,14 @@ void configure(CLI::App& app, CommonOptions& common) {
       }
     }
     const auto req = build_request(*o, common, recipe);
+    // GDAL's own messages would break the one-line error rule; the library reports its
+    // failures through InputError with GDAL's last message in the text.
+    struct QuietGdal {
+      QuietGdal() { CPLPushErrorHandler(CPLQuietErrorHandler); }
+      ~QuietGdal() { CPLPopErrorHandler(); }
+      QuietGdal(const QuietGdal&) = delete;
+      QuietGdal& operator=(const QuietGdal&) = delete;
+    } quiet_gdal;
     const auto summary = terrain::make_flood_maps(req);
     if (!common.quiet) print_summary(summary, o->out);
   });

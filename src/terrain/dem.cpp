@@ -26,11 +26,22 @@ std::vector<float> resample_to_grid(const std::string& path, const GeoGrid& grid
                      "assign one (gdal_edit.py -a_srs EPSG:XXXX " + path + ")");
   }
   auto dst = gdal::mem_raster(grid, GDT_Float32, 1, std::numeric_limits<double>::quiet_NaN());
-  std::vector<std::string> args{"-r", resampling, "-b", "1", "-wo", "INIT_DEST=NO_DATA"};
+  // Band 1 into the one-band grid; "-et 0": exact coordinate transformation for every cell
+  // (GDAL's default approximates it to 1/8 pixel).
+  std::vector<std::string> args{"-r", resampling, "-et", "0", "-wo", "INIT_DEST=NO_DATA"};
   std::vector<char*> argv;
   for (auto& a : args) argv.push_back(a.data());
   argv.push_back(nullptr);
   GDALWarpAppOptions* options = GDALWarpAppOptionsNew(argv.data(), nullptr);
+  if (options == nullptr) {
+    throw ComputationError("GDALWarp", "the resampling options were refused (" + gdal::last_error() + ")",
+                           "report this with the GDAL version");
+  }
+  if (src->GetRasterCount() != 1) {
+    throw InputError(path, "the " + role + " has " + std::to_string(src->GetRasterCount()) +
+                               " bands",
+                     "give a one-band raster (gdal_translate -b N to extract one)");
+  }
   GDALDatasetH sources[] = {GDALDataset::ToHandle(src.get())};
   int usage_error = 0;
   CPLErrorReset();

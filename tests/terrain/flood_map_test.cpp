@@ -70,20 +70,38 @@ TEST(TerrainDem, IntegerDemAndConstantOffset) {
 }
 
 TEST(TerrainDem, OffsetRasterIsResampledBilinearlyToTheDemGrid) {
-  // An offset raster in geographic coordinates (EPSG:4326) that varies linearly in longitude
-  // over the DEM: bilinear resampling reproduces a linear field exactly (up to the warp's
-  // own approximations); a constant field in a second check must come back exactly.
+  // An offset raster in geographic coordinates (EPSG:4326) whose value is a linear function of
+  // longitude, offset = lon - 14.9 (m), over a UTM 33N DEM: bilinear resampling reproduces a
+  // linear field exactly, so each DEM cell must get lon(cell centre) - 14.9 (its centre mapped
+  // to WGS 84 with OGR), where nearest-neighbour resampling would be off by up to 0.01 m.
   TempDir tmp;
   const auto dem_path = (tmp / "dem.tif").string();
   write_raster(dem_path, 4, 4, utm_10m, 32633, std::vector<double>(16, 1.0));
   const auto off_path = (tmp / "offset.tif").string();
   // UTM 33N (500000, 6000000) is at 15 E, about 54.13 N: cover 14.9..15.1 E, 54.0..54.3 N.
-  write_raster(off_path, 10, 10, {14.9, 0.02, 0.0, 54.3, 0.0, -0.03}, 4326,
-               std::vector<double>(100, 0.4));
+  std::vector<double> field;
+  for (int r = 0; r < 10; ++r) {
+    for (int c = 0; c < 10; ++c) field.push_back(0.02 * (c + 0.5));
+  }
+  write_raster(off_path, 10, 10, {14.9, 0.02, 0.0, 54.3, 0.0, -0.03}, 4326, field);
   auto src = same_datum(dem_path);
   src.datum = {tw::DatumRelation::Kind::raster, 0.0, off_path};
   const auto dem = tw::read_dem(src);
-  for (float z : dem.elevation_m) EXPECT_FLOAT_EQ(z, 1.4F);
+  OGRSpatialReference utm;
+  utm.importFromEPSG(32633);
+  OGRSpatialReference wgs;
+  wgs.importFromEPSG(4326);
+  utm.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
+  wgs.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
+  std::unique_ptr<OGRCoordinateTransformation> ct(OGRCreateCoordinateTransformation(&utm, &wgs));
+  for (int r = 0; r < 4; ++r) {
+    for (int c = 0; c < 4; ++c) {
+      double x = 500005.0 + 10.0 * c;
+      double y = 5999995.0 - 10.0 * r;
+      ct->Transform(1, &x, &y);
+      EXPECT_NEAR(dem.elevation_m[static_cast<std::size_t>(r * 4 + c)], 1.0 + (x - 14.9), 2e-6);
+    }
+  }
 }
 
 TEST(TerrainDem, OffsetRasterNotCoveringTheDemIsRefused) {
