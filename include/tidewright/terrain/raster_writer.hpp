@@ -1,0 +1,57 @@
+// Writing result rasters as GeoTIFF: tiled 256 x 256, compressed (DEFLATE or ZSTD with the
+// predictor suited to the cell type: 3 floating point, 2 integer), nodata set, one description
+// and unit per band, a metadata record, the DEM's CRS and geotransform; optionally converted to a
+// Cloud-Optimized GeoTIFF (GDAL's COG driver) when finished. Rows are written block by block.
+// The file is written where asked; the caller makes that path atomic (an AtomicPath folder).
+#pragma once
+
+#include <cstddef>
+#include <cstdint>
+#include <filesystem>
+#include <memory>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "tidewright/terrain/geo_grid.hpp"
+
+namespace tidewright::terrain {
+
+enum class Compression { deflate, zstd };
+enum class CellType { byte, int16, float32 };
+
+struct RasterFormat {
+  Compression compression = Compression::deflate;  // DEFLATE: read by every GIS (common practice)
+  bool cloud_optimized = false;
+};
+
+struct BandInfo {
+  std::string description;
+  std::string units;  // "m", "1" (probability), "year", "" (classes)
+  std::vector<std::pair<std::string, std::string>> metadata;
+};
+
+class GeoTiffWriter {
+ public:
+  GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, CellType type, double nodata,
+                const std::vector<BandInfo>& bands,
+                const std::vector<std::pair<std::string, std::string>>& metadata,
+                RasterFormat format);
+  GeoTiffWriter(const GeoTiffWriter&) = delete;
+  GeoTiffWriter& operator=(const GeoTiffWriter&) = delete;
+  ~GeoTiffWriter();
+
+  // `rows` full rows starting at `first_row` of band `band` (0-based), values of the cell type.
+  void write_rows(std::size_t band, std::size_t first_row, std::size_t rows, const void* values);
+  // Flushes and closes the file (and converts it to COG); throws InputError on a write failure.
+  void finish();
+
+ private:
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
+};
+
+// Block height used by the streamed passes: one row of 256 x 256 tiles.
+inline constexpr std::size_t block_rows = 256;
+
+}  // namespace tidewright::terrain

@@ -1,0 +1,372 @@
+// tidewright map: flood-threshold, extent, depth, AEP and first-year rasters from a DEM.
+// Parsing and printing only; the work is terrain::make_flood_maps.
+//
+// Interim (until the planning stage's N_t(z) is wired in by the study): levels are explicit
+// (--level), the AEP raster uses a present-day still-water model given on the command line or
+// as a small JSON file, and future years shift it by a stated deterministic rise (--rise).
+#include <cpl_error.h>
+#include <gdal.h>
+
+#include <CLI/CLI.hpp>
+#include <cmath>
+#include <fstream>
+#include <iostream>
+#include <memory>
+#include <nlohmann/json.hpp>
+
+#include "command.hpp"
+#include "tidewright/common/error.hpp"
+#include "tidewright/extremes/still_water_model.hpp"
+#include "tidewright/report/cautions.hpp"
+#include "tidewright/report/text_table.hpp"
+#include "tidewright/terrain/flood_map.hpp"
+
+namespace tidewright::cli {
+namespace {
+
+using extremes::Family;
+using extremes::StillWaterModel;
+
+struct MapOptions {
+  std::string dem;
+  int band = 1;
+  std::optional<double> dem_nodata;
+  std::string dem_crs;
+  std::optional<double> datum_offset_m;
+  std::string datum_offset_raster;
+  bool same_datum = false;
+  std::string sea;
+  std::vector<std::string> sea_points;
+  std::optional<double> sea_edge_below_m;
+  bool nodata_is_sea = false;
+  std::string defences;
+  std::string defence_layer;
+  std::string crest_field = "crest_m";
+  std::string crest_datum = "dem";
+  int connectivity = 8;
+  std::vector<double> levels;
+  std::optional<int> year;
+  std::string scenario;
+  std::vector<double> gumbel;
+  std::vector<double> gev;
+  std::vector<double> gpd;
+  std::string model_json;
+  std::vector<std::string> rises;
+  std::optional<double> aep_pass;
+  bool polygons = false;
+  bool cog = false;
+  std::string compress = "deflate";
+  std::string out;
+};
+
+double parse_number(const std::string& text, const std::string& where) {
+  try {
+    std::size_t used = 0;
+    const double v = std::stod(text, &used);
+    if (used == text.size() && std::isfinite(v)) return v;
+  } catch (const std::exception&) {
+  }
+  throw InputError(where, "'" + text + "' is not a number", "give a number such as 1.25");
+}
+
+std::array<double, 2> parse_point(const std::string& text) {
+  const auto comma = text.find(',');
+  if (comma == std::string::npos) {
+    throw InputError("--sea-point", "'" + text + "' is not X,Y", "give the point as X,Y in the DEM's CRS");
+  }
+  return {parse_number(text.substr(0, comma), "--sea-point"),
+          parse_number(text.substr(comma + 1), "--sea-point")};
+}
+
+StillWaterModel model_from_json(const std::string& path) {
+  std::ifstream in(path);
+  if (!in) throw InputError(path, "cannot be opened", "check the path");
+  nlohmann::json j;
+  try {
+    j = nlohmann::json::parse(in);
+  } catch (const nlohmann::json::exception& e) {
+    throw InputError(path, std::string("is not valid JSON (") + e.what() + ")", "fix the file");
+  }
+  StillWaterModel m;
+  const auto number = [&](const char* key, double fallback, bool required) {
+    if (!j.contains(key)) {
+      if (required) throw InputError(field_location(path, key), "is missing", "add it (see docs/map.md)");
+      return fallback;
+    }
+    if (!j[key].is_number()) throw InputError(field_location(path, key), "is not a number", "give a number");
+    return j[key].get<double>();
+  };
+  const std::string family = j.value("family", "");
+  if (family == "gumbel") {
+    m.family = Family::gumbel;
+  } else if (family == "gev") {
+    m.family = Family::gev;
+  } else if (family == "gpd") {
+    m.family = Family::gpd;
+  } else {
+    throw InputError(field_location(path, "family"), "'" + family + "' is not gumbel, gev or gpd",
+                     "name the model family");
+  }
+  const bool gpd = m.family == Family::gpd;
+  m.location_m = number("location_m", 0.0, !gpd);
+  m.scale_m = number("scale_m", 1.0, true);
+  m.shape = number("shape", 0.0, m.family != Family::gumbel);
+  m.threshold_m = number("threshold_m", 0.0, gpd);
+  m.rate_per_yr = number("rate_per_yr", 1.0, gpd);
+  if (j.contains("below_threshold")) {
+    const auto& b = j["below_threshold"];
+    m.below_threshold.level_m = b.value("level_m", std::vector<double>{});
+    m.below_threshold.rate_per_yr = b.value("rate_per_yr", std::vector<double>{});
+  }
+  return m;
+}
+
+std::optional<StillWaterModel> present_day_model(const MapOptions& o) {
+  const int given = static_cast<int>(!o.gumbel.empty()) + static_cast<int>(!o.gev.empty()) +
+                    static_cast<int>(!o.gpd.empty()) + static_cast<int>(!o.model_json.empty());
+  if (given > 1) {
+    throw InputError("--gumbel/--gev/--gpd/--model-json", "more than one still-water model given",
+                     "give one");
+  }
+  if (given == 0) return std::nullopt;
+  StillWaterModel m;
+  if (!o.gumbel.empty()) {
+    m = {Family::gumbel, o.gumbel[0], o.gumbel[1], 0.0, 0.0, 1.0, {}};
+  } else if (!o.gev.empty()) {
+    m = {Family::gev, o.gev[0], o.gev[1], o.gev[2], 0.0, 1.0, {}};
+  } else if (!o.gpd.empty()) {
+    m = {Family::gpd, 0.0, o.gpd[1], o.gpd[2], o.gpd[0], o.gpd[3], {}};
+  } else {
+    m = model_from_json(o.model_json);
+  }
+  if (!(m.scale_m > 0.0)) {
+    throw InputError("still-water model", "the scale is " + std::to_string(m.scale_m),
+                     "give a scale above 0 m");
+  }
+  if (m.family == Family::gpd && !(m.rate_per_yr > 0.0)) {
+    throw InputError("still-water model", "the GPD exceedance rate is not positive",
+                     "give the threshold's rate per year (> 0)");
+  }
+  return m;
+}
+
+std::string model_label(const StillWaterModel& m) {
+  const auto f = [](double v) { return report::fixed(v, 4); };
+  switch (m.family) {
+    case Family::gumbel: return "Gumbel mu " + f(m.location_m) + " m, sigma " + f(m.scale_m) + " m";
+    case Family::gev:
+      return "GEV mu " + f(m.location_m) + " m, sigma " + f(m.scale_m) + " m, xi " + f(m.shape);
+    case Family::gpd:
+      return "GPD u " + f(m.threshold_m) + " m, sigma " + f(m.scale_m) + " m, xi " + f(m.shape) +
+             ", rate " + f(m.rate_per_yr) + "/yr";
+  }
+  return "";
+}
+
+terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& common,
+                                  const std::string& recipe) {
+  terrain::MapRequest req;
+  req.dem.path = o.dem;
+  req.dem.band = o.band;
+  req.dem.nodata = o.dem_nodata;
+  req.dem.crs_override = o.dem_crs;
+  const int datum_given = static_cast<int>(o.datum_offset_m.has_value()) +
+                          static_cast<int>(!o.datum_offset_raster.empty()) +
+                          static_cast<int>(o.same_datum);
+  if (datum_given > 1) {
+    throw InputError("--datum-offset/--datum-offset-raster/--same-datum",
+                     "more than one datum relation given", "give exactly one");
+  }
+  if (o.datum_offset_m) {
+    req.dem.datum = {terrain::DatumRelation::Kind::constant, *o.datum_offset_m, ""};
+  } else if (!o.datum_offset_raster.empty()) {
+    req.dem.datum = {terrain::DatumRelation::Kind::raster, 0.0, o.datum_offset_raster};
+  } else if (o.same_datum) {
+    req.dem.datum.kind = terrain::DatumRelation::Kind::same;
+  }
+  req.sea.mask_path = o.sea;
+  for (const auto& p : o.sea_points) req.sea.points_xy.push_back(parse_point(p));
+  req.sea.edge_at_or_below_m = o.sea_edge_below_m;
+  req.sea.nodata_is_sea = o.nodata_is_sea;
+  if (!o.defences.empty()) {
+    req.defences = terrain::DefenceSource{o.defences, o.defence_layer, o.crest_field,
+                                          o.crest_datum == "water"};
+  }
+  req.connectivity = o.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
+  for (double l : o.levels) req.levels.push_back({l, o.year, o.scenario});
+
+  const auto model = present_day_model(o);
+  std::vector<terrain::YearlyRate> years;
+  for (const auto& r : o.rises) {
+    const auto eq = r.find('=');
+    if (eq == std::string::npos) {
+      throw InputError("--rise", "'" + r + "' is not YEAR=METRES", "give e.g. --rise 2050=0.3");
+    }
+    const double year = parse_number(r.substr(0, eq), "--rise");
+    const double rise = parse_number(r.substr(eq + 1), "--rise");
+    if (year != std::floor(year)) throw InputError("--rise", "'" + r + "': the year is not whole", "give a year");
+    if (!model) {
+      throw InputError("--rise", "a rise needs a present-day still-water model",
+                       "give --gumbel, --gev, --gpd or --model-json");
+    }
+    const StillWaterModel m = *model;
+    // Interim N_t(z) = N_0(z - rise_t): a stated deterministic rise (docs/design.md, with Δ_t
+    // fixed); the planning stage's ensemble expectation replaces it.
+    years.push_back({static_cast<int>(year), [m, rise](double z) {
+                       return m.annual_exceedance_rate(z - rise);
+                     }});
+  }
+  if (model) {
+    const StillWaterModel m = *model;
+    req.aep.push_back({[m](double z) { return m.annual_exceedance_rate(z); },
+                       "present day, " + model_label(m), std::nullopt, o.scenario});
+    for (std::size_t i = 0; i < years.size(); ++i) {
+      req.aep.push_back({years[i].rate,
+                         "year " + std::to_string(years[i].year) + ", " + model_label(m) +
+                             " shifted by rise " + o.rises[i].substr(o.rises[i].find('=') + 1) +
+                             " m (interim, deterministic)",
+                         years[i].year, o.scenario});
+    }
+  }
+  if (o.aep_pass) {
+    if (years.empty()) {
+      throw InputError("--aep-pass", "the first-year raster needs years", "give --rise YEAR=M (repeat)");
+    }
+    req.first_year = terrain::FirstYearLayer{years, *o.aep_pass,
+                                             model_label(*model) + " shifted by --rise (interim)",
+                                             o.scenario};
+  } else if (!years.empty() && !model) {
+    throw InputError("--rise", "a rise needs a present-day still-water model", "give one");
+  }
+  if (req.levels.empty() && req.aep.empty()) {
+    throw InputError("map", "nothing to map", "give --level M (repeat) and/or a still-water model");
+  }
+  req.polygons = o.polygons;
+  req.format.cloud_optimized = o.cog;
+  req.format.compression =
+      o.compress == "zstd" ? terrain::Compression::zstd : terrain::Compression::deflate;
+  req.out_dir = o.out;
+  req.force = common.force;
+  req.command_line = recipe;
+  for (const auto& c : report::safety_cautions()) req.cautions.emplace_back(c);
+  if (!common.quiet) {
+    req.progress = [](double f) { GDALTermProgress(f, nullptr, nullptr); };
+  }
+  return req;
+}
+
+void print_summary(const terrain::MapSummary& s, const std::string& out) {
+  std::cout << "Flood maps written to " << out << " (" << s.cells << " cells, " << s.sea_cells
+            << " sea, " << s.unreached_cells << " land cells never reached; areas "
+            << s.area_method << ")\n";
+  if (!s.levels.empty()) {
+    report::TextTable t({"level_m", "flooded_cells", "flooded_area_m2", "volume_m3",
+                         "max_depth_m", "disconnected_cells", "disconnected_area_m2"});
+    for (const auto& l : s.levels) {
+      t.add_row({report::fixed(l.level.level_m, 3), std::to_string(l.connected_cells),
+                 report::fixed(l.flooded_area_m2, 0), report::fixed(l.volume_m3, 0),
+                 report::fixed(l.max_depth_m, 3), std::to_string(l.disconnected_cells),
+                 report::fixed(l.disconnected_area_m2, 0)});
+    }
+    std::cout << t.render();
+  }
+  std::cout << "Files:";
+  for (const auto& f : s.files) std::cout << ' ' << f;
+  std::cout << "\nCautions:\n" << report::cautions_text("  - ", 92);
+}
+
+void configure(CLI::App& app, CommonOptions& common) {
+  auto o = std::make_shared<MapOptions>();
+  app.description(
+      "Flood-threshold raster of a DEM (priority-flood from the sea), and from it extent, depth, "
+      "annual exceedance probability and first-year rasters, extent polygons and a summary table. "
+      "Levels in metres above the water-level datum.");
+  app.add_option("--dem", o->dem, "DEM raster (any GDAL format)")->required()->type_name("FILE");
+  app.add_option("--dem-band", o->band, "Band of the DEM to read")->default_val(1);
+  app.add_option("--dem-nodata", o->dem_nodata, "Extra nodata value (the file's own is always used)");
+  app.add_option("--dem-crs", o->dem_crs, "CRS to assume when the DEM has none (e.g. EPSG:32633)");
+  app.add_option("--datum-offset", o->datum_offset_m,
+                 "Metres added to DEM elevations to give heights above the water-level datum")
+      ->type_name("M");
+  app.add_option("--datum-offset-raster", o->datum_offset_raster,
+                 "Raster of that offset (m), resampled bilinearly to the DEM grid")
+      ->type_name("FILE");
+  app.add_flag("--same-datum", o->same_datum, "State that the DEM's datum is the water-level datum");
+  app.add_option("--sea", o->sea, "Sea mask: polygons (OGR) or raster (non-zero = sea)")
+      ->type_name("FILE");
+  app.add_option("--sea-point", o->sea_points, "A sea seed point X,Y in the DEM's CRS (repeat)")
+      ->type_name("X,Y");
+  app.add_option("--sea-edge-below", o->sea_edge_below_m,
+                 "DEM edge cells at or below M are sea")->type_name("M");
+  app.add_flag("--nodata-is-sea", o->nodata_is_sea, "Nodata cells are sea (otherwise barriers)");
+  app.add_option("--defences", o->defences, "Defence lines/polygons (OGR) burned in as walls")
+      ->type_name("FILE");
+  app.add_option("--defence-layer", o->defence_layer, "Layer of --defences (default: the first)");
+  app.add_option("--crest-field", o->crest_field, "Attribute holding the crest level (m)")
+      ->default_val("crest_m");
+  app.add_option("--crest-datum", o->crest_datum, "Datum of the crest levels: dem or water")
+      ->check(CLI::IsMember({"dem", "water"}))
+      ->default_val("dem");
+  app.add_option("--connectivity", o->connectivity,
+                 "4 or 8 neighbours (8: water passes diagonally, the cautious side)")
+      ->check(CLI::IsMember({4, 8}))
+      ->default_val(8);
+  app.add_option("--level", o->levels, "Still-water level to map, m above the water-level datum (repeat)")
+      ->type_name("M");
+  app.add_option("--year", o->year, "Year label written with the levels");
+  app.add_option("--scenario", o->scenario, "Scenario label written with the levels");
+  app.add_option("--gumbel", o->gumbel, "Present-day Gumbel annual maxima MU,SIGMA (m), for AEP")
+      ->expected(2)->delimiter(',')->type_name("MU,SIGMA");
+  app.add_option("--gev", o->gev, "Present-day GEV annual maxima MU,SIGMA,XI, for AEP")
+      ->expected(3)->delimiter(',')->type_name("MU,SIGMA,XI");
+  app.add_option("--gpd", o->gpd, "Present-day GPD peaks U,SIGMA,XI,RATE_PER_YR, for AEP")
+      ->expected(4)->delimiter(',')->type_name("U,SIGMA,XI,RATE");
+  app.add_option("--model-json", o->model_json, "Present-day still-water model as JSON (docs/map.md)")
+      ->type_name("FILE");
+  app.add_option("--rise", o->rises,
+                 "Interim: year and a deterministic sea-level rise (m) shifting the model (repeat)")
+      ->type_name("YEAR=M");
+  app.add_option("--aep-pass", o->aep_pass, "Write first_year.tif: first --rise year a cell's AEP reaches P")
+      ->type_name("P");
+  app.add_flag("--polygons", o->polygons, "Write extent polygons to extent.gpkg");
+  app.add_flag("--cog", o->cog, "Write Cloud-Optimized GeoTIFFs");
+  app.add_option("--compress", o->compress, "GeoTIFF compression: deflate or zstd")
+      ->check(CLI::IsMember({"deflate", "zstd"}))
+      ->default_val("deflate");
+  add_out_dir_option(app, o->out)->required();
+  add_force_flag(app, common);
+  add_quiet_flag(app, common);
+  app.callback([o, &common, &app] {
+    std::string recipe = "tidewright map";
+    for (const auto* opt : app.get_options()) {
+      if (opt->count() == 0 || opt->get_name() == "--help") continue;
+      const std::string name = opt->get_name();
+      if (opt->get_type_size_max() == 0) {  // a flag
+        recipe += " " + name;
+      } else if (name == "--gumbel" || name == "--gev" || name == "--gpd") {
+        std::string joined;
+        for (const auto& r : opt->results()) joined += (joined.empty() ? "" : ",") + r;
+        recipe += " " + name + " " + joined;
+      } else {
+        for (const auto& r : opt->results()) recipe += " " + name + " " + r;
+      }
+    }
+    const auto req = build_request(*o, common, recipe);
+    // GDAL's own messages would break the one-line error rule; the library reports its
+    // failures through InputError with GDAL's last message in the text.
+    struct QuietGdal {
+      QuietGdal() { CPLPushErrorHandler(CPLQuietErrorHandler); }
+      ~QuietGdal() { CPLPopErrorHandler(); }
+      QuietGdal(const QuietGdal&) = delete;
+      QuietGdal& operator=(const QuietGdal&) = delete;
+    } quiet_gdal;
+    const auto summary = terrain::make_flood_maps(req);
+    if (!common.quiet) print_summary(summary, o->out);
+  });
+}
+
+const bool registered =
+    register_command({"map", "Flood-threshold, extent, depth and AEP rasters from a DEM", 50, configure});
+
+}  // namespace
+}  // namespace tidewright::cli

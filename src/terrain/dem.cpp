@@ -1,0 +1,181 @@
+// Reading a DEM and its datum relation (include/tidewright/terrain/dem.hpp).
+#include "tidewright/terrain/dem.hpp"
+
+#include <gdal_utils.h>
+
+#include <cmath>
+#include <limits>
+
+#include "tidewright/common/error.hpp"
+#include "tidewright/terrain/gdal_support.hpp"
+
+namespace tidewright::terrain {
+namespace {
+
+constexpr float nan_f = std::numeric_limits<float>::quiet_NaN();
+
+std::string number(double v) { return gdal::number_text(v); }
+
+}  // namespace
+
+std::vector<float> resample_to_grid(const std::string& path, const GeoGrid& grid,
+                                    const std::string& resampling, const std::string& role) {
+  auto src = gdal::open_raster(path, role);
+  if (src->GetSpatialRef() == nullptr) {
+    throw InputError(path, "the " + role + " has no coordinate reference system",
+                     "assign one (gdal_edit.py -a_srs EPSG:XXXX " + path + ")");
+  }
+  auto dst = gdal::mem_raster(grid, GDT_Float32, 1, std::numeric_limits<double>::quiet_NaN());
+  // Band 1 into the one-band grid; "-et 0": exact coordinate transformation for every cell
+  // (GDAL's default approximates it to 1/8 pixel).
+  std::vector<std::string> args{"-r", resampling, "-et", "0", "-wo", "INIT_DEST=NO_DATA"};
+  std::vector<char*> argv;
+  for (auto& a : args) argv.push_back(a.data());
+  argv.push_back(nullptr);
+  GDALWarpAppOptions* options = GDALWarpAppOptionsNew(argv.data(), nullptr);
+  if (options == nullptr) {
+    throw ComputationError("GDALWarp", "the resampling options were refused (" + gdal::last_error() + ")",
+                           "report this with the GDAL version");
+  }
+  if (src->GetRasterCount() != 1) {
+    throw InputError(path, "the " + role + " has " + std::to_string(src->GetRasterCount()) +
+                               " bands",
+                     "give a one-band raster (gdal_translate -b N to extract one)");
+  }
+  GDALDatasetH sources[] = {GDALDataset::ToHandle(src.get())};
+  int usage_error = 0;
+  CPLErrorReset();
+  CPLPushErrorHandler(CPLQuietErrorHandler);
+  GDALDatasetH result =
+      GDALWarp(nullptr, GDALDataset::ToHandle(dst.get()), 1, sources, options, &usage_error);
+  CPLPopErrorHandler();
+  GDALWarpAppOptionsFree(options);
+  if (result == nullptr) {
+    throw InputError(path, "the " + role + " cannot be resampled to the DEM grid (" +
+                               gdal::last_error() + ")",
+                     "check its CRS and extent with gdalinfo");
+  }
+  std::vector<float> values(grid.shape.cells());
+  if (dst->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, static_cast<int>(grid.shape.cols),
+                                      static_cast<int>(grid.shape.rows), values.data(),
+                                      static_cast<int>(grid.shape.cols),
+                                      static_cast<int>(grid.shape.rows), GDT_Float32, 0, 0,
+                                      nullptr) != CE_None) {
+    throw InputError(path, "reading the resampled " + role + " failed (" + gdal::last_error() + ")",
+                     "check the file with gdalinfo");
+  }
+  return values;
+}
+
+Dem read_dem(const DemSource& source) {
+  auto ds = gdal::open_raster(source.path, "DEM");
+  if (source.band < 1 || source.band > ds->GetRasterCount()) {
+    throw InputError(source.path, "has no band " + std::to_string(source.band),
+                     "choose a band between 1 and " + std::to_string(ds->GetRasterCount()));
+  }
+  Dem dem;
+  dem.grid.shape = {static_cast<std::size_t>(ds->GetRasterXSize()),
+                    static_cast<std::size_t>(ds->GetRasterYSize())};
+  if (ds->GetGeoTransform(dem.grid.geotransform.data()) != CE_None) {
+    throw InputError(source.path, "the DEM has no geotransform (no cell size or position)",
+                     "georeference it (gdal_translate -a_ullr / gdal_edit.py) first");
+  }
+  const OGRSpatialReference* srs = ds->GetSpatialRef();
+  OGRSpatialReference chosen;
+  if (srs != nullptr) {
+    chosen = *srs;
+  } else if (!source.crs_override.empty()) {
+    if (chosen.SetFromUserInput(source.crs_override.c_str()) != OGRERR_NONE) {
+      throw InputError("--dem-crs", "'" + source.crs_override + "' is not a CRS GDAL knows",
+                       "give an EPSG code such as EPSG:32633 or a WKT string");
+    }
+  } else {
+    throw InputError(source.path,
+                     "the DEM has no coordinate reference system, so neither areas nor the sea "
+                     "and defence layers can be placed on it",
+                     "assign one (gdal_edit.py -a_srs EPSG:XXXX) or pass --dem-crs EPSG:XXXX");
+  }
+  char* wkt = nullptr;
+  const char* wkt_options[] = {"FORMAT=WKT2_2019", nullptr};
+  chosen.exportToWkt(&wkt, wkt_options);
+  dem.grid.crs_wkt = wkt != nullptr ? wkt : "";
+  CPLFree(wkt);
+
+  GDALRasterBand* band = ds->GetRasterBand(source.band);
+  const std::size_t n = dem.grid.shape.cells();
+  dem.elevation_m.resize(n);
+  if (band->RasterIO(GF_Read, 0, 0, ds->GetRasterXSize(), ds->GetRasterYSize(),
+                     dem.elevation_m.data(), ds->GetRasterXSize(), ds->GetRasterYSize(),
+                     GDT_Float32, 0, 0, nullptr) != CE_None) {
+    throw InputError(source.path, "reading the DEM failed (" + gdal::last_error() + ")",
+                     "check the file with gdalinfo -checksum");
+  }
+  int has_nodata = 0;
+  const double file_nodata = band->GetNoDataValue(&has_nodata);
+  // Nodata compared after conversion to float32, as the values were read (exact for integers).
+  const auto is_declared = [&](float v) {
+    return (has_nodata != 0 && v == static_cast<float>(file_nodata)) ||
+           (source.nodata && v == static_cast<float>(*source.nodata));
+  };
+  std::size_t valid = 0;
+  for (auto& v : dem.elevation_m) {
+    if (std::isnan(v) || is_declared(v)) {
+      v = nan_f;
+    } else {
+      ++valid;
+    }
+  }
+  if (valid == 0) {
+    throw InputError(source.path, "every cell of the DEM is nodata",
+                     "check the nodata value (gdalinfo -stats) or choose another band");
+  }
+
+  std::string datum;
+  switch (source.datum.kind) {
+    case DatumRelation::Kind::unstated:
+      throw InputError("DEM datum",
+                       "the relation between the DEM's vertical datum and the water-level datum is "
+                       "not stated",
+                       "give --datum-offset M, --datum-offset-raster FILE, or --same-datum if they "
+                       "are the same");
+    case DatumRelation::Kind::same:
+      datum = "DEM datum = water-level datum (stated by the user)";
+      break;
+    case DatumRelation::Kind::constant:
+      dem.constant_offset_m = source.datum.offset_m;
+      datum = "z_water = z_dem + " + number(source.datum.offset_m) + " m (constant offset)";
+      break;
+    case DatumRelation::Kind::raster: {
+      dem.offset_m = resample_to_grid(source.datum.raster_path, dem.grid, "bilinear",
+                                      "datum offset raster");
+      std::size_t uncovered = 0;
+      for (std::size_t i = 0; i < n; ++i) {
+        if (!std::isnan(dem.elevation_m[i]) && std::isnan(dem.offset_m[i])) ++uncovered;
+      }
+      if (uncovered > 0) {
+        throw InputError(source.datum.raster_path,
+                         "the datum offset raster does not cover " + std::to_string(uncovered) +
+                             " valid DEM cells",
+                         "give an offset raster whose extent covers the whole DEM");
+      }
+      datum = "z_water = z_dem + offset from " + source.datum.raster_path +
+              " (bilinear resampling to the DEM grid)";
+      break;
+    }
+  }
+  for (std::size_t i = 0; i < n; ++i) {
+    if (!std::isnan(dem.elevation_m[i])) {
+      dem.elevation_m[i] = static_cast<float>(static_cast<double>(dem.elevation_m[i]) + dem.offset_at(i));
+    }
+  }
+  dem.description = source.path + " band " + std::to_string(source.band) + " (" +
+                    std::to_string(dem.grid.shape.cols) + " x " +
+                    std::to_string(dem.grid.shape.rows) + " cells, " + std::to_string(valid) +
+                    " valid; nodata: " +
+                    (has_nodata != 0 ? number(file_nodata) + " from the file" : "none in the file") +
+                    (source.nodata ? ", " + number(*source.nodata) + " declared" : "") + "); " +
+                    datum;
+  return dem;
+}
+
+}  // namespace tidewright::terrain

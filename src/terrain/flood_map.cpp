@@ -1,0 +1,393 @@
+// The map pipeline (include/tidewright/terrain/flood_map.hpp).
+// Glossary: z elevation above the water-level datum (m); T flood threshold (m); h level (m);
+// A_r area of a cell in row r (m^2); d = h - z depth (m); V = sum d A_r volume (m^3).
+#include "tidewright/terrain/flood_map.hpp"
+
+#include <gdal_alg.h>
+
+#include <cmath>
+#include <limits>
+#include <nlohmann/json.hpp>
+#include <sstream>
+
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/error.hpp"
+#include "tidewright/terrain/gdal_support.hpp"
+#include "tidewright/version.hpp"
+
+namespace tidewright::terrain {
+namespace {
+
+constexpr float nan_f = std::numeric_limits<float>::quiet_NaN();
+using Metadata = std::vector<std::pair<std::string, std::string>>;
+
+std::string fixed(double v, int digits = 3) {
+  std::ostringstream s;
+  s.setf(std::ios::fixed);
+  s.precision(digits);
+  s << v;
+  return s.str();
+}
+
+std::string level_label(const MapLevel& l) {
+  std::string s = fixed(l.level_m) + " m";
+  if (l.year) s += ", year " + std::to_string(*l.year);
+  if (!l.scenario.empty()) s += ", scenario " + l.scenario;
+  return s;
+}
+
+const char* class_name(std::uint8_t c) {
+  switch (static_cast<ExtentClass>(c)) {
+    case ExtentClass::connected_flooded: return "connected flooded";
+    case ExtentClass::disconnected_low_lying: return "disconnected low-lying";
+    default: return "other";
+  }
+}
+
+Metadata common_metadata(const MapRequest& req, const FloodThresholdMap& map,
+                         const std::string& product) {
+  Metadata m;
+  m.emplace_back("TIDEWRIGHT_PRODUCT", product);
+  m.emplace_back("TIDEWRIGHT_VERSION", version_string);
+  m.emplace_back("TIDEWRIGHT_METHOD",
+                 "flood threshold = lowest still-water level at which the sea reaches the cell "
+                 "over land no higher than that level; priority-flood from the sea cells (Barnes, "
+                 "Lehman & Mulla 2014, Computers & Geosciences 62:117, doi:10.1016/"
+                 "j.cageo.2013.04.024), " +
+                     std::to_string(static_cast<int>(map.connectivity)) + "-connectivity");
+  m.emplace_back("TIDEWRIGHT_VERTICAL", "metres above the water-level datum");
+  m.emplace_back("TIDEWRIGHT_DEM", map.dem.description);
+  m.emplace_back("TIDEWRIGHT_SEA", map.sea.description);
+  m.emplace_back("TIDEWRIGHT_DEFENCES", map.defences ? map.defences->description : "none");
+  if (!req.command_line.empty()) m.emplace_back("TIDEWRIGHT_COMMAND", req.command_line);
+  std::string cautions;
+  for (const auto& c : req.cautions) cautions += (cautions.empty() ? "" : " | ") + c;
+  if (!cautions.empty()) m.emplace_back("TIDEWRIGHT_CAUTIONS", cautions);
+  return m;
+}
+
+// Extent polygons of one level: the classes 1 and 2 polygonised (GDALPolygonize) into `layer`.
+void polygonise_level(const FloodThresholdMap& map, const LevelSummary& level, OGRLayer& layer,
+                      const std::string& path) {
+  const GeoGrid& grid = map.dem.grid;
+  const std::size_t n = grid.shape.cells();
+  auto classes = gdal::mem_raster(grid, GDT_Byte, 1, 0.0);
+  std::vector<std::uint8_t> values(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto c = classify_cell(map.dem.elevation_m[i], map.threshold_m[i], level.level.level_m);
+    values[i] = (c == ExtentClass::connected_flooded || c == ExtentClass::disconnected_low_lying)
+                    ? static_cast<std::uint8_t>(c)
+                    : 0;
+  }
+  GDALRasterBand* band = classes->GetRasterBand(1);
+  band->DeleteNoDataValue();
+  if (band->RasterIO(GF_Write, 0, 0, static_cast<int>(grid.shape.cols),
+                     static_cast<int>(grid.shape.rows), values.data(),
+                     static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows),
+                     GDT_Byte, 0, 0, nullptr) != CE_None) {
+    throw InputError(path, "preparing the extent polygons failed", "report this");
+  }
+  values = {};
+  // Polygonise into a scratch layer, then copy with the level's attributes.
+  GDALDriver* memory = GetGDALDriverManager()->GetDriverByName("Memory");
+  GDALDatasetUniquePtr scratch(memory->Create("", 0, 0, 0, GDT_Unknown, nullptr));
+  OGRSpatialReference srs = gdal::grid_srs(grid);
+  OGRLayer* tmp = scratch->CreateLayer("p", &srs, wkbPolygon, nullptr);
+  OGRFieldDefn value_field("extent_class", OFTInteger);
+  tmp->CreateField(&value_field);
+  const char* options[] = {map.connectivity == Connectivity::eight ? "8CONNECTED=8" : nullptr,
+                           nullptr};
+  if (GDALPolygonize(GDALRasterBand::ToHandle(band), GDALRasterBand::ToHandle(band),
+                     OGRLayer::ToHandle(tmp), 0, const_cast<char**>(options), nullptr,
+                     nullptr) != CE_None) {
+    throw InputError(path, "polygonising the extent failed (" + gdal::last_error() + ")",
+                     "leave out --polygons");
+  }
+  for (auto& f : tmp) {
+    OGRFeature out(layer.GetLayerDefn());
+    const int cls = f->GetFieldAsInteger(0);
+    out.SetField("extent_class", cls);
+    out.SetField("class_name", class_name(static_cast<std::uint8_t>(cls)));
+    out.SetField("level_m", level.level.level_m);
+    if (level.level.year) out.SetField("year", *level.level.year);
+    if (!level.level.scenario.empty()) out.SetField("scenario", level.level.scenario.c_str());
+    out.SetGeometry(f->GetGeometryRef());
+    if (layer.CreateFeature(&out) != OGRERR_NONE) {
+      throw InputError(path, "writing a polygon failed (" + gdal::last_error() + ")",
+                       "free disk space or choose another folder");
+    }
+  }
+}
+
+void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary>& levels,
+                    const std::filesystem::path& path) {
+  GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
+  GDALDatasetUniquePtr ds(gpkg->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
+  if (!ds) {
+    throw InputError(path.string(), "cannot be created (" + gdal::last_error() + ")",
+                     "check the output folder");
+  }
+  OGRSpatialReference srs = gdal::grid_srs(map.dem.grid);
+  OGRLayer* layer = ds->CreateLayer("extent", &srs, wkbPolygon, nullptr);
+  for (const auto& [name, type] : std::vector<std::pair<const char*, OGRFieldType>>{
+           {"extent_class", OFTInteger},
+           {"class_name", OFTString},
+           {"level_m", OFTReal},
+           {"year", OFTInteger},
+           {"scenario", OFTString}}) {
+    OGRFieldDefn field(name, type);
+    layer->CreateField(&field);
+  }
+  ds->StartTransaction();
+  for (const auto& level : levels) polygonise_level(map, level, *layer, path.string());
+  if (ds->CommitTransaction() != OGRERR_NONE) {
+    throw InputError(path.string(), "writing the polygons failed (" + gdal::last_error() + ")",
+                     "free disk space or choose another folder");
+  }
+  CPLErrorReset();
+  ds.reset();
+  if (CPLGetLastErrorType() >= CE_Failure) {
+    throw InputError(path.string(), "closing the GeoPackage failed (" + gdal::last_error() + ")",
+                     "free disk space or choose another folder");
+  }
+}
+
+std::string summary_csv(const MapSummary& s) {
+  std::ostringstream out;
+  out << "level_m,year,scenario,connected_cells,disconnected_cells,flooded_area_m2,"
+         "disconnected_area_m2,volume_m3,max_depth_m\n";
+  for (const auto& l : s.levels) {
+    out << fixed(l.level.level_m, 4) << ',' << (l.level.year ? std::to_string(*l.level.year) : "")
+        << ',' << l.level.scenario << ',' << l.connected_cells << ',' << l.disconnected_cells << ','
+        << fixed(l.flooded_area_m2, 2) << ',' << fixed(l.disconnected_area_m2, 2) << ','
+        << fixed(l.volume_m3, 2) << ',' << fixed(l.max_depth_m, 4) << '\n';
+  }
+  return out.str();
+}
+
+nlohmann::ordered_json summary_json(const MapSummary& s, const FloodThresholdMap& map,
+                                    const MapRequest& req) {
+  nlohmann::ordered_json j;
+  j["dem"] = map.dem.description;
+  j["sea"] = map.sea.description;
+  j["defences"] = map.defences ? map.defences->description : "none";
+  j["connectivity"] = static_cast<int>(map.connectivity);
+  j["vertical"] = "metres above the water-level datum";
+  j["area_method"] = s.area_method;
+  j["cells"] = s.cells;
+  j["valid_cells"] = s.valid_cells;
+  j["sea_cells"] = s.sea_cells;
+  j["unreached_cells"] = s.unreached_cells;
+  j["lowest_threshold_m"] = s.lowest_threshold_m;
+  j["highest_threshold_m"] = s.highest_threshold_m;
+  auto& levels = j["levels"] = nlohmann::ordered_json::array();
+  for (const auto& l : s.levels) {
+    nlohmann::ordered_json e;
+    e["level_m"] = l.level.level_m;
+    e["year"] = l.level.year ? nlohmann::ordered_json(*l.level.year) : nlohmann::ordered_json();
+    e["scenario"] = l.level.scenario;
+    e["connected_cells"] = l.connected_cells;
+    e["disconnected_cells"] = l.disconnected_cells;
+    e["flooded_area_m2"] = l.flooded_area_m2;
+    e["disconnected_area_m2"] = l.disconnected_area_m2;
+    e["volume_m3"] = l.volume_m3;
+    e["max_depth_m"] = l.max_depth_m;
+    levels.push_back(e);
+  }
+  j["files"] = s.files;
+  j["command"] = req.command_line;
+  j["cautions"] = req.cautions;
+  return j;
+}
+
+}  // namespace
+
+FloodThresholdMap prepare_flood_threshold(const DemSource& dem, const SeaSource& sea,
+                                          const std::optional<DefenceSource>& defences,
+                                          Connectivity connectivity) {
+  FloodThresholdMap map;
+  map.connectivity = connectivity;
+  map.dem = read_dem(dem);
+  if (defences) map.defences = burn_defences(map.dem, *defences);
+  map.dem.offset_m = {};  // no longer needed: free it before the threshold pass
+  map.sea = find_sea_cells(map.dem, sea, connectivity);
+  map.threshold_m =
+      flood_threshold_barnes2014(map.dem.grid.shape, map.dem.elevation_m, map.sea.is_sea, connectivity);
+  return map;
+}
+
+MapSummary make_flood_maps(const MapRequest& req) {
+  const auto progress = [&](double f) {
+    if (req.progress) req.progress(f);
+  };
+  // Refuse an existing folder before any work.
+  AtomicPath folder(req.out_dir, req.force, "--out");
+  for (const auto& l : req.levels) {
+    if (!std::isfinite(l.level_m)) {
+      throw InputError("--level", "a level is not a finite number", "give levels in metres");
+    }
+  }
+  if (req.polygons && req.levels.empty()) {
+    throw InputError("--polygons", "extent polygons need at least one level", "give --level M");
+  }
+  FloodThresholdMap map = prepare_flood_threshold(req.dem, req.sea, req.defences, req.connectivity);
+  progress(0.4);
+  gdal::register_drivers();
+  const CellAreas areas = cell_areas(map.dem.grid);
+
+  MapSummary s;
+  const GridShape shape = map.dem.grid.shape;
+  s.cells = shape.cells();
+  s.sea_cells = map.sea.count;
+  s.area_method = areas.method;
+  double lo = std::numeric_limits<double>::infinity();
+  double hi = -lo;
+  for (std::size_t i = 0; i < s.cells; ++i) {
+    const float t = map.threshold_m[i];
+    if (!std::isnan(map.dem.elevation_m[i]) || map.sea.is_sea[i] != 0) ++s.valid_cells;
+    if (t == std::numeric_limits<float>::infinity()) ++s.unreached_cells;
+    if (std::isfinite(t)) {
+      lo = std::min(lo, static_cast<double>(t));
+      hi = std::max(hi, static_cast<double>(t));
+    }
+  }
+  if (!std::isfinite(lo)) lo = hi = 0.0;  // nothing reached: the tables are never read
+  s.lowest_threshold_m = lo;
+  s.highest_threshold_m = hi;
+
+  std::filesystem::create_directory(folder.temp_path());
+  const auto dir = folder.temp_path();
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+
+  // Writers: one file per product, one band per level / rate function.
+  GeoTiffWriter threshold(dir / "threshold.tif", map.dem.grid, CellType::float32, nan,
+                          {{"flood threshold (lowest still-water level that reaches the cell "
+                            "from the sea); nodata: sea, DEM nodata, land never reached",
+                            "m",
+                            {}}},
+                          common_metadata(req, map, "flood threshold"), req.format);
+  s.files.emplace_back("threshold.tif");
+  std::unique_ptr<GeoTiffWriter> extent;
+  std::unique_ptr<GeoTiffWriter> depth;
+  if (!req.levels.empty()) {
+    std::vector<BandInfo> extent_bands;
+    std::vector<BandInfo> depth_bands;
+    for (const auto& l : req.levels) {
+      Metadata m{{"LEVEL_M", fixed(l.level_m, 4)}};
+      if (l.year) m.emplace_back("YEAR", std::to_string(*l.year));
+      if (!l.scenario.empty()) m.emplace_back("SCENARIO", l.scenario);
+      extent_bands.push_back({"extent at " + level_label(l) +
+                                  " (0 dry, 1 connected flooded, 2 disconnected low-lying, 3 sea)",
+                              "", m});
+      depth_bands.push_back({"depth at " + level_label(l) + " on connected flooded land", "m", m});
+    }
+    extent = std::make_unique<GeoTiffWriter>(dir / "extent.tif", map.dem.grid, CellType::byte,
+                                             255.0, extent_bands,
+                                             common_metadata(req, map, "flood extent"), req.format);
+    depth = std::make_unique<GeoTiffWriter>(dir / "depth.tif", map.dem.grid, CellType::float32, nan,
+                                            depth_bands, common_metadata(req, map, "flood depth"),
+                                            req.format);
+    s.files.emplace_back("extent.tif");
+    s.files.emplace_back("depth.tif");
+  }
+  std::vector<AepLookup> aep_tables;
+  std::unique_ptr<GeoTiffWriter> aep;
+  if (!req.aep.empty()) {
+    std::vector<BandInfo> bands;
+    for (const auto& a : req.aep) {
+      aep_tables.emplace_back(a.rate, lo, hi);
+      Metadata m;
+      if (a.year) m.emplace_back("YEAR", std::to_string(*a.year));
+      if (!a.scenario.empty()) m.emplace_back("SCENARIO", a.scenario);
+      bands.push_back({"annual exceedance probability of the flood threshold: " + a.description,
+                       "1", m});
+    }
+    aep = std::make_unique<GeoTiffWriter>(dir / "aep.tif", map.dem.grid, CellType::float32, nan,
+                                          bands, common_metadata(req, map, "annual exceedance probability"),
+                                          req.format);
+    s.files.emplace_back("aep.tif");
+  }
+  std::optional<FirstPassingYear> first;
+  std::unique_ptr<GeoTiffWriter> first_writer;
+  if (req.first_year) {
+    first.emplace(req.first_year->years, req.first_year->aep, lo, hi);
+    Metadata m{{"AEP_PASSED", fixed(req.first_year->aep, 6)},
+               {"NEVER_VALUE", std::to_string(FirstPassingYear::never)}};
+    if (!req.first_year->scenario.empty()) m.emplace_back("SCENARIO", req.first_year->scenario);
+    first_writer = std::make_unique<GeoTiffWriter>(
+        dir / "first_year.tif", map.dem.grid, CellType::int16, FirstPassingYear::nodata,
+        std::vector<BandInfo>{{"first year the cell's AEP reaches " + fixed(req.first_year->aep, 6) +
+                                   " (" + req.first_year->description +
+                                   "); 0: not within the years given",
+                               "year", m}},
+        common_metadata(req, map, "first year an AEP is passed"), req.format);
+    s.files.emplace_back("first_year.tif");
+  }
+
+  for (const auto& l : req.levels) s.levels.push_back({l});
+  // Streamed passes: one block of rows at a time, every product.
+  const std::size_t cols = shape.cols;
+  std::vector<float> fbuf(cols * block_rows);
+  std::vector<std::uint8_t> bbuf(cols * block_rows);
+  std::vector<std::int16_t> ibuf(cols * block_rows);
+  const auto& z = map.dem.elevation_m;
+  const auto& t = map.threshold_m;
+  for (std::size_t r0 = 0; r0 < shape.rows; r0 += block_rows) {
+    const std::size_t h = std::min(block_rows, shape.rows - r0);
+    const std::size_t base = r0 * cols;
+    for (std::size_t k = 0; k < h * cols; ++k) {
+      fbuf[k] = std::isfinite(t[base + k]) ? t[base + k] : nan_f;
+    }
+    threshold.write_rows(0, r0, h, fbuf.data());
+    for (std::size_t li = 0; li < req.levels.size(); ++li) {
+      const double level = req.levels[li].level_m;
+      LevelSummary& sum = s.levels[li];
+      for (std::size_t k = 0; k < h * cols; ++k) {
+        const auto c = classify_cell(z[base + k], t[base + k], level);
+        bbuf[k] = static_cast<std::uint8_t>(c);
+        fbuf[k] = nan_f;
+        const double area = areas.row_area_m2[r0 + k / cols];
+        if (c == ExtentClass::connected_flooded) {
+          const double d = level - static_cast<double>(z[base + k]);
+          fbuf[k] = static_cast<float>(d);
+          ++sum.connected_cells;
+          sum.flooded_area_m2 += area;
+          sum.volume_m3 += d * area;
+          sum.max_depth_m = std::max(sum.max_depth_m, d);
+        } else if (c == ExtentClass::disconnected_low_lying) {
+          ++sum.disconnected_cells;
+          sum.disconnected_area_m2 += area;
+        }
+      }
+      extent->write_rows(li, r0, h, bbuf.data());
+      depth->write_rows(li, r0, h, fbuf.data());
+    }
+    for (std::size_t ai = 0; ai < aep_tables.size(); ++ai) {
+      for (std::size_t k = 0; k < h * cols; ++k) fbuf[k] = aep_tables[ai](t[base + k]);
+      aep->write_rows(ai, r0, h, fbuf.data());
+    }
+    if (first) {
+      for (std::size_t k = 0; k < h * cols; ++k) ibuf[k] = (*first)(t[base + k]);
+      first_writer->write_rows(0, r0, h, ibuf.data());
+    }
+    progress(0.4 + 0.5 * static_cast<double>(r0 + h) / static_cast<double>(shape.rows));
+  }
+  threshold.finish();
+  if (extent) extent->finish();
+  if (depth) depth->finish();
+  if (aep) aep->finish();
+  if (first_writer) first_writer->finish();
+  if (req.polygons) {
+    write_polygons(map, s.levels, dir / "extent.gpkg");
+    s.files.emplace_back("extent.gpkg");
+  }
+  s.files.emplace_back("summary.csv");
+  s.files.emplace_back("summary.json");
+  write_text_file(dir / "summary.csv", summary_csv(s), false);
+  write_json_file(dir / "summary.json", summary_json(s, map, req), false);
+  folder.commit();
+  progress(1.0);
+  return s;
+}
+
+}  // namespace tidewright::terrain

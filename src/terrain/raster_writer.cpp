@@ -1,0 +1,130 @@
+// GeoTIFF output (include/tidewright/terrain/raster_writer.hpp).
+#include "tidewright/terrain/raster_writer.hpp"
+
+#include <cpl_string.h>
+
+#include "tidewright/common/error.hpp"
+#include "tidewright/terrain/gdal_support.hpp"
+
+namespace tidewright::terrain {
+
+struct GeoTiffWriter::Impl {
+  std::filesystem::path path;      // final file
+  std::filesystem::path tiff_path;  // where the GTiff driver writes (a side file for COG)
+  GeoGrid grid;
+  GDALDataType type = GDT_Float32;
+  RasterFormat format;
+  GDALDatasetUniquePtr ds;
+};
+
+namespace {
+
+GDALDataType gdal_type(CellType t) {
+  switch (t) {
+    case CellType::byte: return GDT_Byte;
+    case CellType::int16: return GDT_Int16;
+    case CellType::float32: return GDT_Float32;
+  }
+  return GDT_Float32;
+}
+
+const char* compression_name(Compression c) { return c == Compression::zstd ? "ZSTD" : "DEFLATE"; }
+
+}  // namespace
+
+GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, CellType type,
+                             double nodata, const std::vector<BandInfo>& bands,
+                             const std::vector<std::pair<std::string, std::string>>& metadata,
+                             RasterFormat format)
+    : impl_(std::make_unique<Impl>()) {
+  gdal::register_drivers();
+  impl_->path = std::move(path);
+  impl_->grid = grid;
+  impl_->type = gdal_type(type);
+  impl_->format = format;
+  impl_->tiff_path = impl_->path;
+  if (format.cloud_optimized) impl_->tiff_path += ".tiled.tif";
+  CPLStringList options;
+  options.SetNameValue("TILED", "YES");
+  options.SetNameValue("BLOCKXSIZE", "256");
+  options.SetNameValue("BLOCKYSIZE", "256");
+  options.SetNameValue("COMPRESS", compression_name(format.compression));
+  options.SetNameValue("PREDICTOR", type == CellType::float32 ? "3" : "2");
+  options.SetNameValue("INTERLEAVE", "BAND");
+  options.SetNameValue("BIGTIFF", "IF_SAFER");
+  GDALDriver* driver = GetGDALDriverManager()->GetDriverByName("GTiff");
+  CPLErrorReset();
+  impl_->ds.reset(driver->Create(impl_->tiff_path.c_str(), static_cast<int>(grid.shape.cols),
+                                 static_cast<int>(grid.shape.rows), static_cast<int>(bands.size()),
+                                 impl_->type, options.List()));
+  if (!impl_->ds) {
+    throw InputError(impl_->path.string(), "cannot be created (" + gdal::last_error() + ")",
+                     "check the output folder's space and permissions");
+  }
+  std::array<double, 6> gt = grid.geotransform;
+  impl_->ds->SetGeoTransform(gt.data());
+  impl_->ds->SetProjection(grid.crs_wkt.c_str());
+  for (const auto& [key, value] : metadata) impl_->ds->SetMetadataItem(key.c_str(), value.c_str());
+  for (std::size_t b = 0; b < bands.size(); ++b) {
+    GDALRasterBand* band = impl_->ds->GetRasterBand(static_cast<int>(b + 1));
+    band->SetNoDataValue(nodata);
+    band->SetDescription(bands[b].description.c_str());
+    band->SetUnitType(bands[b].units.c_str());
+    for (const auto& [key, value] : bands[b].metadata) {
+      band->SetMetadataItem(key.c_str(), value.c_str());
+    }
+  }
+}
+
+GeoTiffWriter::~GeoTiffWriter() = default;
+
+void GeoTiffWriter::write_rows(std::size_t band, std::size_t first_row, std::size_t rows,
+                               const void* values) {
+  GDALRasterBand* b = impl_->ds->GetRasterBand(static_cast<int>(band + 1));
+  const int cols = static_cast<int>(impl_->grid.shape.cols);
+  if (b->RasterIO(GF_Write, 0, static_cast<int>(first_row), cols, static_cast<int>(rows),
+                  const_cast<void*>(values), cols, static_cast<int>(rows), impl_->type, 0, 0,
+                  nullptr) != CE_None) {
+    throw InputError(impl_->path.string(), "writing failed (" + gdal::last_error() + ")",
+                     "free disk space or choose another folder");
+  }
+}
+
+void GeoTiffWriter::finish() {
+  if (!impl_->ds) return;
+  CPLErrorReset();
+  // GDAL 3.6 reports write failures of the flush and close through the error state only.
+  impl_->ds->FlushCache(true);
+  impl_->ds.reset();
+  if (CPLGetLastErrorType() >= CE_Failure) {
+    throw InputError(impl_->path.string(), "writing failed (" + gdal::last_error() + ")",
+                     "free disk space or choose another folder");
+  }
+  if (!impl_->format.cloud_optimized) return;
+  GDALDatasetUniquePtr tiled(GDALDataset::Open(impl_->tiff_path.c_str(), GDAL_OF_RASTER));
+  GDALDriver* cog = GetGDALDriverManager()->GetDriverByName("COG");
+  if (!tiled || cog == nullptr) {
+    throw InputError(impl_->path.string(), "the COG driver is not available in this GDAL",
+                     "leave out --cog");
+  }
+  CPLStringList options;
+  options.SetNameValue("COMPRESS", compression_name(impl_->format.compression));
+  options.SetNameValue("PREDICTOR", "YES");
+  options.SetNameValue("BLOCKSIZE", "256");
+  options.SetNameValue("BIGTIFF", "IF_SAFER");
+  options.SetNameValue("RESAMPLING", impl_->type == GDT_Float32 ? "AVERAGE" : "NEAREST");
+  CPLErrorReset();
+  GDALDatasetUniquePtr out(
+      cog->CreateCopy(impl_->path.c_str(), tiled.get(), FALSE, options.List(), nullptr, nullptr));
+  const bool created = static_cast<bool>(out);
+  out.reset();
+  tiled.reset();
+  std::error_code ec;
+  std::filesystem::remove(impl_->tiff_path, ec);
+  if (!created || CPLGetLastErrorType() >= CE_Failure) {
+    throw InputError(impl_->path.string(), "writing the COG failed (" + gdal::last_error() + ")",
+                     "free disk space or leave out --cog");
+  }
+}
+
+}  // namespace tidewright::terrain

@@ -1,0 +1,162 @@
+// Finding the sea cells of a DEM (include/tidewright/terrain/sea.hpp).
+#include "tidewright/terrain/sea.hpp"
+
+#include <gdal_alg.h>
+
+#include <cmath>
+#include <limits>
+
+#include "tidewright/common/error.hpp"
+#include "tidewright/terrain/gdal_support.hpp"
+
+namespace tidewright::terrain {
+namespace {
+
+// Rasterises every polygon of every layer at cell centres (GDAL's default rule).
+std::vector<std::uint8_t> rasterise_sea_polygons(const std::string& path, const GeoGrid& grid) {
+  auto ds = gdal::open_vector(path, "sea mask");
+  std::vector<gdal::LayerGeometry> geometries;
+  for (auto* layer : ds->GetLayers()) {
+    auto g = gdal::layer_geometries(*layer, grid, path);
+    for (auto& item : g) geometries.push_back(std::move(item));
+  }
+  auto mem = gdal::mem_raster(grid, GDT_Byte, 1, 0.0);
+  std::vector<OGRGeometryH> handles;
+  for (auto& g : geometries) handles.push_back(OGRGeometry::ToHandle(g.geometry.get()));
+  const std::vector<double> burn(handles.size(), 1.0);
+  int band = 1;
+  if (!handles.empty() &&
+      GDALRasterizeGeometries(GDALDataset::ToHandle(mem.get()), 1, &band,
+                              static_cast<int>(handles.size()), handles.data(), nullptr, nullptr,
+                              burn.data(), nullptr, nullptr, nullptr) != CE_None) {
+    throw InputError(path, "rasterising the sea mask failed (" + gdal::last_error() + ")",
+                     "check its geometries with ogrinfo");
+  }
+  std::vector<std::uint8_t> out(grid.shape.cells());
+  if (mem->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, static_cast<int>(grid.shape.cols),
+                                      static_cast<int>(grid.shape.rows), out.data(),
+                                      static_cast<int>(grid.shape.cols),
+                                      static_cast<int>(grid.shape.rows), GDT_Byte, 0, 0,
+                                      nullptr) != CE_None) {
+    throw InputError(path, "reading the rasterised sea mask failed", "check the file");
+  }
+  return out;
+}
+
+}  // namespace
+
+SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity connectivity) {
+  const GridShape shape = dem.grid.shape;
+  const std::size_t n = shape.cells();
+  SeaCells sea;
+  sea.is_sea.assign(n, 0);
+  std::string parts;
+  const auto add_part = [&](const std::string& s) { parts += (parts.empty() ? "" : "; ") + s; };
+
+  if (!source.mask_path.empty()) {
+    std::vector<std::uint8_t> mask;
+    if (gdal::is_vector(source.mask_path)) {
+      mask = rasterise_sea_polygons(source.mask_path, dem.grid);
+      add_part("sea polygons " + source.mask_path + " (cell centres)");
+    } else {
+      const auto values = resample_to_grid(source.mask_path, dem.grid, "near", "sea mask");
+      mask.resize(n);
+      for (std::size_t i = 0; i < n; ++i) {
+        mask[i] = !std::isnan(values[i]) && values[i] != 0.0F ? 1 : 0;
+      }
+      add_part("sea raster " + source.mask_path + " (non-zero cells, nearest resampling)");
+    }
+    std::size_t in_mask = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+      if (mask[i] != 0) {
+        sea.is_sea[i] = 1;
+        ++in_mask;
+      }
+    }
+    if (in_mask == 0) {
+      throw InputError(source.mask_path, "the sea mask covers no cell of the DEM",
+                       "check that it overlaps the DEM (ogrinfo -so / gdalinfo) and has the "
+                       "right CRS");
+    }
+  }
+
+  if (!source.points_xy.empty()) {
+    std::array<double, 6> inverse{};
+    std::array<double, 6> gt = dem.grid.geotransform;
+    if (GDALInvGeoTransform(gt.data(), inverse.data()) == 0) {
+      throw InputError("DEM", "the geotransform cannot be inverted", "check the DEM's georeferencing");
+    }
+    for (const auto& p : source.points_xy) {
+      const double col = inverse[0] + p[0] * inverse[1] + p[1] * inverse[2];
+      const double row = inverse[3] + p[0] * inverse[4] + p[1] * inverse[5];
+      const std::string where =
+          "--sea-point " + gdal::number_text(p[0]) + "," + gdal::number_text(p[1]);
+      if (!(col >= 0.0 && row >= 0.0 && col < static_cast<double>(shape.cols) &&
+            row < static_cast<double>(shape.rows))) {
+        throw InputError(where, "the point lies outside the DEM",
+                         "give x,y in the DEM's CRS inside its extent (gdalinfo shows it)");
+      }
+      const auto i = static_cast<std::size_t>(row) * shape.cols + static_cast<std::size_t>(col);
+      sea.is_sea[i] = 1;
+    }
+    add_part(std::to_string(source.points_xy.size()) + " seed point(s)");
+  }
+
+  if (source.edge_at_or_below_m) {
+    const double limit = *source.edge_at_or_below_m;
+    for (std::size_t y = 0; y < shape.rows; ++y) {
+      for (std::size_t x = 0; x < shape.cols; ++x) {
+        if (y != 0 && x != 0 && y + 1 != shape.rows && x + 1 != shape.cols) continue;
+        const std::size_t i = y * shape.cols + x;
+        const float z = dem.elevation_m[i];
+        if (!std::isnan(z) && static_cast<double>(z) <= limit) sea.is_sea[i] = 1;
+      }
+    }
+    add_part("DEM edge cells at or below " + gdal::number_text(limit) + " m");
+  }
+
+  if (source.nodata_is_sea) {
+    for (std::size_t i = 0; i < n; ++i) {
+      if (std::isnan(dem.elevation_m[i])) sea.is_sea[i] = 1;
+    }
+    add_part("nodata cells declared sea");
+  }
+
+  if (parts.empty()) {
+    throw InputError("sea", "no sea is given",
+                     "give --sea FILE, --sea-point X,Y, --sea-edge-below M or --nodata-is-sea");
+  }
+  // The sea must touch valid land: some sea cell is valid or has a valid neighbour.
+  const auto cols = static_cast<std::ptrdiff_t>(shape.cols);
+  const auto rows = static_cast<std::ptrdiff_t>(shape.rows);
+  const std::ptrdiff_t reach = 1;
+  bool touches = false;
+  for (std::size_t i = 0; i < n && !touches; ++i) {
+    if (sea.is_sea[i] == 0) continue;
+    const auto x = static_cast<std::ptrdiff_t>(i) % cols;
+    const auto y = static_cast<std::ptrdiff_t>(i) / cols;
+    for (std::ptrdiff_t dy = -reach; dy <= reach && !touches; ++dy) {
+      for (std::ptrdiff_t dx = -reach; dx <= reach && !touches; ++dx) {
+        if (connectivity == Connectivity::four && dx != 0 && dy != 0) continue;
+        const auto nx = x + dx;
+        const auto ny = y + dy;
+        if (nx < 0 || ny < 0 || nx >= cols || ny >= rows) continue;
+        const auto m = static_cast<std::size_t>(ny * cols + nx);
+        touches = sea.is_sea[m] == 0 && !std::isnan(dem.elevation_m[m]);
+      }
+    }
+  }
+  for (auto s : sea.is_sea) sea.count += s;
+  if (sea.count == 0) {
+    throw InputError("sea", "no sea cell found in the DEM (" + parts + ")",
+                     "check the sea sources against the DEM's extent and elevations");
+  }
+  if (!touches) {
+    throw InputError("sea", "the sea (" + parts + ") touches no valid land cell, so nothing can flood",
+                     "check the sea mask and the DEM's nodata");
+  }
+  sea.description = parts + "; " + std::to_string(sea.count) + " sea cells";
+  return sea;
+}
+
+}  // namespace tidewright::terrain

@@ -1,0 +1,161 @@
+// tidewright map: help, a good run on a small DEM written here (answers worked out by hand), and
+// each bad input: one line on stderr naming the file or option, exit code 2, no output folder.
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include <filesystem>
+
+#include "support/run_cli.hpp"
+#include "terrain/terrain_fixtures.hpp"
+
+using tidewright::testing::count_lines;
+using tidewright::testing::read_all;
+using tidewright::testing::run_cli;
+using tidewright::testing::shell_quote;
+using tidewright::testing::TempDir;
+using tidewright::testing::utm_10m;
+using tidewright::testing::write_raster;
+using tidewright::testing::write_vector;
+using ::testing::HasSubstr;
+using ::testing::StartsWith;
+
+namespace {
+
+// 5 x 3, rows alike: sea 0 | beach 0.5 | ridge 3 | bowl 1 | slope 2 (10 m cells, UTM 33N).
+std::string profile_dem(const TempDir& tmp, int epsg = 32633) {
+  const auto path = (tmp / "dem.tif").string();
+  std::vector<double> z;
+  for (int r = 0; r < 3; ++r) z.insert(z.end(), {0.0, 0.5, 3.0, 1.0, 2.0});
+  write_raster(path, 5, 3, utm_10m, epsg, z);
+  return path;
+}
+
+void expect_input_error(const tidewright::testing::CliResult& r, const std::string& text,
+                        const std::filesystem::path& out) {
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, StartsWith("tidewright: error: "));
+  EXPECT_THAT(r.err, HasSubstr(text));
+  EXPECT_EQ(count_lines(r.err), 1U) << r.err;
+  EXPECT_FALSE(std::filesystem::exists(out));
+}
+
+}  // namespace
+
+TEST(MapCommand, HelpNamesTheInputsAndExitsZero) {
+  const auto r = run_cli("map --help");
+  EXPECT_EQ(r.exit_code, 0);
+  for (const char* opt : {"--dem", "--same-datum", "--datum-offset-raster", "--sea", "--sea-point",
+                          "--defences", "--connectivity", "--level", "--gev", "--rise", "--cog"}) {
+    EXPECT_THAT(r.out, HasSubstr(opt));
+  }
+  EXPECT_THAT(run_cli("--help").out, HasSubstr("map"));
+}
+
+TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
+  // Level 1.5: the three beach cells flood (depth 1.0 m, 100 m2 each); the bowls are low-lying
+  // but behind the 3 m ridge (3 disconnected cells). Level 3.5: all 12 land cells flood,
+  // volume 100 x 3 x (3.0 + 0.5 + 2.5 + 1.5) = 2250 m3, deepest 3.0 m on the beach.
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const auto out = tmp / "maps";
+  const auto r = run_cli("map --dem " + shell_quote(dem) +
+                         " --same-datum --sea-edge-below 0 --level 1.5 --level 3.5 --quiet --out " +
+                         shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_TRUE(r.out.empty());
+  EXPECT_EQ(read_all(out / "summary.csv"),
+            "level_m,year,scenario,connected_cells,disconnected_cells,flooded_area_m2,"
+            "disconnected_area_m2,volume_m3,max_depth_m\n"
+            "1.5000,,,3,3,300.00,300.00,300.00,1.0000\n"
+            "3.5000,,,12,0,1200.00,0.00,2250.00,3.0000\n");
+  for (const char* f : {"threshold.tif", "extent.tif", "depth.tif", "summary.json"}) {
+    EXPECT_TRUE(std::filesystem::exists(out / f)) << f;
+  }
+  // Printed table without --quiet; the existing folder is refused without --force.
+  const auto again = run_cli("map --dem " + shell_quote(dem) +
+                             " --same-datum --sea-edge-below 0 --level 1.5 --out " +
+                             shell_quote(out.string()));
+  EXPECT_EQ(again.exit_code, 2);
+  EXPECT_THAT(again.err, HasSubstr("already exists"));
+  EXPECT_THAT(again.err, HasSubstr("--force"));
+  EXPECT_TRUE(std::filesystem::exists(out / "depth.tif"));  // untouched
+  const auto forced = run_cli("map --dem " + shell_quote(dem) +
+                              " --same-datum --sea-edge-below 0 --level 1.5 --force --out " +
+                              shell_quote(out.string()));
+  EXPECT_EQ(forced.exit_code, 0) << forced.err;
+  EXPECT_THAT(forced.out, HasSubstr("1.500"));
+  EXPECT_THAT(forced.out, HasSubstr("Cautions:"));
+  EXPECT_THAT(read_all(out / "summary.csv"), HasSubstr("1.5000,,,3,3,300.00"));
+  EXPECT_THAT(read_all(out / "summary.csv"), ::testing::Not(HasSubstr("3.5000")));
+}
+
+TEST(MapCommand, AepAndFirstYearFromTheInterimModel) {
+  // Gumbel mu 1.0, sigma 0.5: the bowl's threshold is 3 m. First year the AEP reaches 0.1:
+  // c_t = mu + rise_t - sigma ln(-ln 0.9) = 1.0 + rise_t + 1.1252; with rises 0.5 (2050) and
+  // 1.0 (2100), the bowl (3 m) passes in 2100 and the beach (0.5 m) in 2050.
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const auto out = tmp / "maps";
+  const auto r = run_cli("map --dem " + shell_quote(dem) +
+                         " --same-datum --sea-edge-below 0 --gumbel 1.0,0.5 --rise 2050=0.5"
+                         " --rise 2100=1.0 --aep-pass 0.1 --quiet --out " +
+                         shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  GDALDatasetUniquePtr first(GDALDataset::Open((out / "first_year.tif").c_str(), GDAL_OF_RASTER));
+  ASSERT_TRUE(first);
+  std::vector<std::int16_t> y(15);
+  ASSERT_EQ(first->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, y.data(), 5, 3, GDT_Int16, 0, 0,
+                                              nullptr),
+            CE_None);
+  EXPECT_EQ(std::vector<std::int16_t>(y.begin(), y.begin() + 5),
+            (std::vector<std::int16_t>{-32768, 2050, 2100, 2100, 2100}));
+  GDALDatasetUniquePtr aep(GDALDataset::Open((out / "aep.tif").c_str(), GDAL_OF_RASTER));
+  ASSERT_TRUE(aep);
+  EXPECT_EQ(aep->GetRasterCount(), 3);  // present day, 2050, 2100
+}
+
+TEST(MapCommand, BadInputsAreOneLineExitTwoAndLeaveNothing) {
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const auto out = tmp / "maps";
+  const std::string tail = " --level 1 --out " + shell_quote(out.string());
+  const std::string good = "map --dem " + shell_quote(dem) + " --same-datum";
+
+  expect_input_error(run_cli("map --dem " + shell_quote((tmp / "nope.tif").string()) +
+                             " --same-datum --sea-edge-below 0" + tail),
+                     "GDAL cannot open the DEM", out);
+  expect_input_error(run_cli("map --dem " + shell_quote(dem) + " --sea-edge-below 0" + tail),
+                     "--same-datum", out);
+  expect_input_error(run_cli(good + tail), "no sea is given", out);
+  expect_input_error(run_cli(good + " --sea-edge-below -1" + tail), "no sea cell found", out);
+
+  TempDir other;
+  const auto no_crs = profile_dem(other, 0);
+  expect_input_error(run_cli("map --dem " + shell_quote(no_crs) + " --same-datum --sea-edge-below 0" + tail),
+                     "no coordinate reference system", out);
+
+  const auto far = (tmp / "far.gpkg").string();
+  write_vector(far, "GPKG", 32633, {{"POLYGON((0 0,10 0,10 10,0 10,0 0))", {}}}, "");
+  expect_input_error(run_cli(good + " --sea " + shell_quote(far) + tail), "covers no cell", out);
+
+  const auto walls = (tmp / "walls.gpkg").string();
+  write_vector(walls, "GPKG", 32633, {{"LINESTRING(500020 6000000,500020 5999970)", {}}}, "height");
+  expect_input_error(run_cli(good + " --sea-edge-below 0 --defences " + shell_quote(walls) + tail),
+                     "no crest-level attribute 'crest_m'", out);
+
+  const auto offset = (tmp / "offset.tif").string();
+  write_raster(offset, 2, 2, {20.0, 0.1, 0.0, 10.0, 0.0, -0.1}, 4326, {0, 0, 0, 0});
+  expect_input_error(run_cli("map --dem " + shell_quote(dem) + " --datum-offset-raster " +
+                             shell_quote(offset) + " --sea-edge-below 0" + tail),
+                     "does not cover", out);
+
+  const auto blank = (tmp / "blank.tif").string();
+  write_raster(blank, 2, 2, utm_10m, 32633, {-1, -1, -1, -1}, -1.0);
+  expect_input_error(run_cli("map --dem " + shell_quote(blank) + " --same-datum --sea-edge-below 0" + tail),
+                     "every cell of the DEM is nodata", out);
+
+  expect_input_error(run_cli(good + " --datum-offset 0.1 --sea-edge-below 0" + tail),
+                     "more than one datum relation", out);
+  expect_input_error(run_cli(good + " --sea-edge-below 0 --rise 2050=0.3" + tail),
+                     "needs a present-day still-water model", out);
+}
