@@ -58,10 +58,11 @@ AxisTicks axis_ticks(const AxisSpec& axis, std::vector<double> values, const std
     hi = std::max(hi, 0.0);
   }
   AxisTicks t = ticks_for(axis, lo, hi);
-  // Fixed limits are kept exactly; ticks outside them are dropped.
-  if (axis.min || axis.max) {
-    if (axis.min) t.min = *axis.min;
-    if (axis.max) t.max = *axis.max;
+  // Fixed (or tight) limits are kept exactly; ticks outside them are dropped.
+  const bool tight = axis.tight && !axis.log && hi > lo;
+  if (axis.min || axis.max || tight) {
+    if (axis.min || tight) t.min = lo;
+    if (axis.max || tight) t.max = hi;
     AxisTicks kept;
     kept.min = t.min;
     kept.max = t.max;
