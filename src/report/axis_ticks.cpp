@@ -17,15 +17,17 @@ int decimals_for_step(double step) {
   return std::max(0, -static_cast<int>(std::floor(std::log10(step) + step_slack)));
 }
 
-// A log-axis label: plain numbers from 0.001 to 100000, else 10 with a superscript exponent.
-std::string log_label(double v) {
+// A log-axis label: a plain number, or 10 with a superscript exponent when `powers` (used for
+// a whole axis at once, so that one axis never mixes the two styles).
+std::string log_label(double v, bool powers) {
   const double e = std::log10(v);
-  if (e >= -3 - step_slack && e <= 5 + step_slack) {
+  if (!powers) {
     return tick_label(v, std::max(0, -static_cast<int>(std::floor(e + step_slack))));
   }
   static const char* const superscripts[] = {"⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹"};
-  const int k = static_cast<int>(std::lround(e));
-  std::string s = "10";
+  const int k = static_cast<int>(std::floor(e + step_slack));
+  const long mantissa = std::lround(v / std::pow(10.0, k));  // 1, 2 or 5
+  std::string s = mantissa == 1 ? "10" : std::to_string(mantissa) + "\u00d710";
   if (k < 0) s += "⁻";
   for (char c : std::to_string(std::abs(k))) s += superscripts[c - '0'];
   return s;
@@ -84,8 +86,10 @@ AxisTicks log_ticks(double lo, double hi) {
   const int e_lo = static_cast<int>(std::floor(std::log10(lo) + step_slack));
   const int e_hi = static_cast<int>(std::ceil(std::log10(hi) - step_slack));
   const int decades = std::max(1, e_hi - e_lo);
+  // Plain numbers while they stay short (0.001 .. 10000), powers of ten beyond.
+  const bool powers = e_lo < -3 || e_hi > 4;
   AxisTicks t;
-  if (decades <= 2) {
+  if (decades <= 3) {
     // Short range: 1-2-5 steps, widened to the nearest of them on each side.
     static constexpr double steps[] = {1, 2, 5};
     std::vector<double> candidates;
@@ -105,7 +109,7 @@ AxisTicks log_ticks(double lo, double hi) {
     for (double c : candidates) {
       if (c >= amin * (1 - step_slack) && c <= amax * (1 + step_slack)) {
         t.major.push_back(c);
-        t.labels.push_back(log_label(c));
+        t.labels.push_back(log_label(c, powers));
       }
     }
   } else {
@@ -116,13 +120,15 @@ AxisTicks log_ticks(double lo, double hi) {
       const double v = std::pow(10.0, e);
       if ((e - e_lo) % every == 0) {
         t.major.push_back(v);
-        t.labels.push_back(log_label(v));
+        t.labels.push_back(log_label(v, powers));
       } else {
         t.minor.push_back(v);
       }
     }
   }
-  for (int e = e_lo; e < e_hi; ++e) {
+  // Minor ticks at 2..9 times each decade, unless there are so many decades that they would
+  // crowd into a grey band.
+  for (int e = e_lo; e < e_hi && decades <= 6; ++e) {
     for (int m = 2; m <= 9; ++m) {
       const double v = m * std::pow(10.0, e);
       if (v <= t.min || v >= t.max) continue;

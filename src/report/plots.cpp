@@ -100,15 +100,21 @@ void check_raster(const std::string& title, const RasterView& r) {
 struct MapFrame {
   double x, y, w, h;  // map rectangle on the canvas
   double px_per_cell;
+  int canvas_height_px;
 };
 
-// The map fitted into the canvas left of a legend column of `legend_w` px.
-MapFrame fit_map(const RasterView& r, double canvas_w, double canvas_h, double legend_w) {
+// Maps are 720 px wide; the raster fills the room left of a legend column of `legend_w` px,
+// and the canvas height follows the raster's shape (at least 300 px and enough for a legend of
+// `legend_h` px, at most 560 px).
+constexpr int map_canvas_width_px = 720;
+MapFrame fit_map(const RasterView& r, double legend_w, double legend_h) {
   const double left = 14, top = 44, bottom_margin = 14;
-  const double room_w = canvas_w - left - legend_w - 28;
-  const double room_h = canvas_h - top - bottom_margin;
+  const double room_w = map_canvas_width_px - left - legend_w - 36;
+  const double room_h = 560 - top - bottom_margin;
   const double s = std::min(room_w / r.columns, room_h / r.rows);
-  return {left, top, s * r.columns, s * r.rows, s};
+  const double h = s * r.rows;
+  const double canvas_h = std::max({top + h + bottom_margin, top + legend_h + bottom_margin, 300.0});
+  return {left, top, s * r.columns, h, s, static_cast<int>(std::ceil(canvas_h))};
 }
 
 // Nearest-neighbour resampling to at most twice the display size (keeps the inlined PNG small
@@ -163,13 +169,13 @@ void add_map_furniture(Canvas& c, const RasterView& r, const MapFrame& f) {
   const double bar_px = bar_m / r.cell_size_m * f.px_per_cell;
   const std::string label = length_text(bar_m);
   const double label_w = Canvas::text_width_px(label, 11);
-  const double bx = f.x + 12, by = f.y + f.h - 16;
-  c.add(PathItem{rect(bx - 6, by - 18, bar_px + label_w + 22, 30), true, Colour{0xbb, 0xbb, 0xbb},
+  const double bx = f.x + 14, by = f.y + f.h - 14;
+  c.add(PathItem{rect(bx - 10, by - 20, bar_px + label_w / 2 + 20, 32), true, Colour{0xbb, 0xbb, 0xbb},
                  0.8, {}, Colour{0xff, 0xff, 0xff, 0.85}, false, "scale-bar"});
   c.add(PathItem{rect(bx, by, bar_px / 2, 6), true, ink, 1.0, {}, ink, false, "scale-bar"});
   c.add(PathItem{rect(bx + bar_px / 2, by, bar_px / 2, 6), true, ink, 1.0, {}, white, false, "scale-bar"});
   c.add(TextItem{{bx, by - 5}, "0", 11, TextAnchor::middle, 0, false, ink, "scale-label"});
-  c.add(TextItem{{bx + bar_px + 4, by + 7}, label, 11, TextAnchor::start, 0, false, ink, "scale-label"});
+  c.add(TextItem{{bx + bar_px, by - 5}, label, 11, TextAnchor::middle, 0, false, ink, "scale-label"});
   // North arrow: rows run north to south, so north is up the page.
   const double nx = f.x + f.w - 22, ny = f.y + 10;
   c.add(PathItem{rect(nx - 12, ny - 2, 24, 42), true, Colour{0xbb, 0xbb, 0xbb}, 0.8, {},
@@ -240,9 +246,9 @@ Canvas projection_fan_chart(const FanChartInput& in) {
   spec.y.label = "Relative sea-level rise" + (in.baseline.empty() ? "" : " " + in.baseline) + " (m)";
   spec.y.include_zero = true;
   const Colour c = series_colour(0);
-  spec.series.push_back(Series{"5-95% range", SeriesStyle::band, in.years, in.q05_m, in.q95_m, c, 0,
+  spec.series.push_back(Series{"5\u201395% range", SeriesStyle::band, in.years, in.q05_m, in.q95_m, c, 0,
                                {}, MarkerShape::circle, 0, 0.16});
-  spec.series.push_back(Series{"17-83% range", SeriesStyle::band, in.years, in.q17_m, in.q83_m, c, 0,
+  spec.series.push_back(Series{"17\u201383% range", SeriesStyle::band, in.years, in.q17_m, in.q83_m, c, 0,
                                {}, MarkerShape::circle, 0, 0.32});
   spec.series.push_back(Series{"Median, total", SeriesStyle::line, in.years, in.q50_m, {}, c, 2.6, {},
                                MarkerShape::circle, 0, 0});
@@ -288,6 +294,7 @@ Canvas design_life_risk_plot(const std::vector<double>& heights_m,
   AxisSpec x;
   x.label = level_label("Height", datum);
   x.tight = true;
+  x.target_ticks = 9;
   AxisSpec y;
   y.label = "Chance of one or more exceedances" + (design_life.empty() ? "" : ", " + design_life) + " (%)";
   y.min = 0;
@@ -326,23 +333,26 @@ Canvas continuous_map(const ContinuousMapInput& in) {
     throw InputError("map '" + in.title + "'", "every cell is nodata", "check the raster and its nodata value");
   }
   if (hi <= lo) hi = lo + 1;
-  Canvas c(720, 450, in.title);
   constexpr double legend_w = 150;
-  const MapFrame f = fit_map(r, c.width_px(), c.height_px(), legend_w);
+  const auto title_lines = wrap(in.value_label, 12, legend_w, true);
+  const double title_h = 16.0 * static_cast<double>(title_lines.size());
+  const MapFrame f = fit_map(r, legend_w, title_h + 120 + 50);
+  Canvas c(map_canvas_width_px, f.canvas_height_px, in.title);
   c.add(map_image(r, f, [&](float v) -> std::optional<Colour> {
     if (is_nodata(r, v)) return std::nullopt;
     return viridis((v - lo) / (hi - lo));
   }));
   add_map_furniture(c, r, f);
   add_title(c, in.title);
-  // Colour bar with the value label above it.
+  // Colour bar with the value label above it and the blank swatch below.
   const double lx = f.x + f.w + 24;
   double ly = f.y + 14;
-  for (const auto& line : wrap(in.value_label, 12, legend_w, true)) {
+  for (const auto& line : title_lines) {
     c.add(TextItem{{lx, ly}, line, 12, TextAnchor::start, 0, true, ink, "legend-title"});
     ly += 16;
   }
-  const double bar_top = ly + 4, bar_h = std::min(240.0, f.h - (bar_top - f.y) - 10), bar_w = 18;
+  const double bar_top = ly + 4, bar_w = 18;
+  const double bar_h = std::clamp(f.h - title_h - 60, 120.0, 240.0);
   ImageItem ramp{lx, bar_top, bar_w, bar_h, 1, 256, {}};
   for (int i = 0; i < 256; ++i) {
     const Colour col = viridis(1.0 - i / 255.0);
@@ -350,6 +360,12 @@ Canvas continuous_map(const ContinuousMapInput& in) {
   }
   c.add(std::move(ramp));
   c.add(PathItem{rect(lx, bar_top, bar_w, bar_h), true, axis_grey, 0.8, {}, std::nullopt, false, "legend"});
+  if (!in.blank_label.empty()) {
+    const double sy = bar_top + bar_h + 16;
+    c.add(PathItem{rect(lx, sy, bar_w, 12), true, axis_grey, 0.8, {}, white, false, "legend-swatch"});
+    c.add(TextItem{{lx + bar_w + 7, sy + 10}, in.blank_label, 11, TextAnchor::start, 0, false, ink,
+                   "legend-label"});
+  }
   const AxisTicks t = linear_ticks(lo * in.label_scale, hi * in.label_scale, 5);
   for (std::size_t i = 0; i < t.major.size(); ++i) {
     const double v = t.major[i] / in.label_scale;
@@ -375,13 +391,17 @@ Canvas categorical_map(const CategoricalMapInput& in) {
     throw InputError("map '" + in.title + "'", "no categories given", "pass the map's classes with labels");
   }
   const RasterView& r = in.raster;
-  Canvas c(720, 450, in.title);
   double legend_w = Canvas::text_width_px(in.legend_title, 12, true);
   for (const auto& cat : in.categories) {
     legend_w = std::max(legend_w, 22 + Canvas::text_width_px(cat.label, 12));
   }
   legend_w = std::min(legend_w, 220.0);
-  const MapFrame f = fit_map(r, c.width_px(), c.height_px(), legend_w);
+  double legend_h = 26;
+  for (const auto& cat : in.categories) {
+    legend_h += std::max(22.0, 15.0 * static_cast<double>(wrap(cat.label, 12, legend_w - 22, false).size()) + 7);
+  }
+  const MapFrame f = fit_map(r, legend_w, legend_h);
+  Canvas c(map_canvas_width_px, f.canvas_height_px, in.title);
   c.add(map_image(r, f, [&](float v) -> std::optional<Colour> {
     if (is_nodata(r, v)) return std::nullopt;
     const long code = std::lround(v);

@@ -64,14 +64,23 @@ TEST(LinearTicks, DegenerateAndReversedRanges) {
   EXPECT_THROW((void)tr::linear_ticks(0, NAN, 5), std::invalid_argument);
 }
 
-TEST(LogTicks, DecadesForReturnPeriods) {
+TEST(LogTicks, ReturnPeriodsOneToThousandGetOneTwoFiveLabels) {
   const auto t = tr::log_ticks(1.02, 1000);
-  expect_ticks(t, {1, 10, 100, 1000});
-  EXPECT_EQ(t.labels, (std::vector<std::string>{"1", "10", "100", "1000"}));
-  // Minor ticks at 2..9 of each of the three decades.
-  EXPECT_EQ(t.minor.size(), 24U);
-  EXPECT_DOUBLE_EQ(t.minor.front(), 2);
+  expect_ticks(t, {1, 2, 5, 10, 20, 50, 100, 200, 500, 1000});
+  EXPECT_EQ(t.labels.front(), "1");
+  EXPECT_EQ(t.labels[5], "50");
+  EXPECT_EQ(t.labels.back(), "1000");
+  // Minor ticks at the unlabelled 3, 4, 6, 7, 8, 9 of each of the three decades.
+  EXPECT_EQ(t.minor.size(), 18U);
+  EXPECT_DOUBLE_EQ(t.minor.front(), 3);
   EXPECT_DOUBLE_EQ(t.minor.back(), 900);
+}
+
+TEST(LogTicks, FourToSixDecadesGetDecadeLabels) {
+  const auto t = tr::log_ticks(1, 9000);
+  expect_ticks(t, {1, 10, 100, 1000, 10000});
+  EXPECT_EQ(t.labels, (std::vector<std::string>{"1", "10", "100", "1000", "10000"}));
+  EXPECT_EQ(t.minor.size(), 32U);  // 2..9 in each of four decades
 }
 
 TEST(LogTicks, ShortRangeUsesOneTwoFive) {
@@ -88,8 +97,17 @@ TEST(LogTicks, WideRangeLabelsEveryOtherDecadeWithPowers) {
   EXPECT_DOUBLE_EQ(t.min, 1e-4);
   EXPECT_DOUBLE_EQ(t.max, 1e8);
   ASSERT_EQ(t.major.size(), 7U);
+  // One style on the whole axis: every label a power of ten, 10^0 included.
   EXPECT_EQ(t.labels.front(), "10\u207b\u2074");  // 10^-4 in superscript digits
-  EXPECT_EQ(t.labels[2], "1");
+  EXPECT_EQ(t.labels[2], "10\u2070");
   EXPECT_EQ(t.labels.back(), "10\u2078");
+  EXPECT_EQ(t.minor.size(), 6U);  // the unlabelled decades only: no 2..9 ticks over 12 decades
   EXPECT_THROW((void)tr::log_ticks(0, 10), std::invalid_argument);
+}
+
+TEST(LogTicks, ShortRangeOfLargeNumbersWritesMantissaTimesPower) {
+  const auto t = tr::log_ticks(1.5e5, 4e6);
+  expect_ticks(t, {1e5, 2e5, 5e5, 1e6, 2e6, 5e6});
+  EXPECT_EQ(t.labels[1], "2\u00d710\u2075");
+  EXPECT_EQ(t.labels[3], "10\u2076");
 }

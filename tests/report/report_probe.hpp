@@ -42,7 +42,8 @@ def svg_summary(root):
                 out.setdefault("bad_images", []).append(href[:40])
                 continue
             im = Image.open(io.BytesIO(base64.b64decode(href.split(',', 1)[1])))
-            out["images"].append([im.width, im.height])
+            out["images"].append([im.width, im.height] +
+                                 [float(el.get(k)) for k in ('x', 'y', 'width', 'height')])
         if tag == 'clipPath':
             r = el[0]
             out["clip"] = [float(r.get(k)) for k in ('x', 'y', 'width', 'height')]

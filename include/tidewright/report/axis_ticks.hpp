@@ -3,8 +3,8 @@
 // Linear axes use the "loose labelling" of Heckbert (1990), "Nice numbers for graph labels",
 // in Graphics Gems (ed. Glassner), pp. 61-63: a tick step of 1, 2 or 5 times a power of ten,
 // with the axis widened to whole steps so that its ends carry labels. Log axes (return
-// periods, amplification factors) put labels on decades, or on 1-2-5 within a decade when
-// the range spans less than about two decades.
+// periods, amplification factors) put labels on 1-2-5 steps when the range spans up to three
+// decades (return periods 1 to 1000 years: 1, 2, 5, 10, 20, ...), else on decades.
 #pragma once
 
 #include <string>

@@ -31,18 +31,18 @@ enum class TextAnchor { start, middle, end };
 
 // A polyline or polygon; no stroke when stroke_width_px is 0, no fill when fill is empty.
 struct PathItem {
-  std::vector<Point> points;
+  std::vector<Point> points{};
   bool closed = false;
   Colour stroke{};
   double stroke_width_px = 1.0;
-  std::vector<double> dash_px;  // on/off lengths; empty = solid
-  std::optional<Colour> fill;
+  std::vector<double> dash_px{};  // on/off lengths; empty = solid
+  std::optional<Colour> fill{};
   bool clipped = false;  // clipped to the canvas's clip rectangle (the plot area)
-  std::string role;      // written as the SVG class, for tests and styling ("grid", "series")
+  std::string role{};      // written as the SVG class, for tests and styling ("grid", "series")
 };
 
 struct MarkerItem {
-  Point centre;
+  Point centre{};
   double size_px = 6;  // width of the shape
   MarkerShape shape = MarkerShape::circle;
   Colour fill{};
@@ -54,14 +54,14 @@ struct MarkerItem {
 
 // `position` is the baseline point of the text; rotation in degrees, clockwise (SVG sense).
 struct TextItem {
-  Point position;
-  std::string text;  // UTF-8, unescaped
+  Point position{};
+  std::string text{};  // UTF-8, unescaped
   double size_px = 12;
   TextAnchor anchor = TextAnchor::start;
   double rotation_deg = 0;
   bool bold = false;
   Colour colour{};
-  std::string role;
+  std::string role{};
 };
 
 // An RGBA raster (row-major, 4 bytes a pixel, not premultiplied) stretched over a rectangle
@@ -69,7 +69,7 @@ struct TextItem {
 struct ImageItem {
   double x = 0, y = 0, width_px = 0, height_px = 0;
   int columns = 0, rows = 0;
-  std::vector<std::uint8_t> rgba;
+  std::vector<std::uint8_t> rgba{};
 };
 
 // The font every chart uses: DejaVu Sans is in Debian's fonts-dejavu-core (installed with
@@ -107,9 +107,9 @@ class Canvas {
 
  private:
   int width_, height_;
-  std::string title_;
-  std::optional<std::vector<double>> clip_;  // x, y, w, h
-  std::vector<std::variant<PathItem, MarkerItem, TextItem, ImageItem>> items_;  // drawing order
+  std::string title_{};
+  std::optional<std::vector<double>> clip_{};  // x, y, w, h
+  std::vector<std::variant<PathItem, MarkerItem, TextItem, ImageItem>> items_{};  // drawing order
 };
 
 // PNG bytes of an RGBA raster (through cairo), and base64 of any bytes (RFC 4648), for

@@ -14,9 +14,9 @@
 namespace tidewright::report {
 
 struct AxisSpec {
-  std::string label;  // with units (and datum for levels), e.g. "Still-water level (m above CD)"
+  std::string label{};  // with units (and datum for levels), e.g. "Still-water level (m above CD)"
   bool log = false;
-  std::optional<double> min, max;  // fixed limits; otherwise from the data, widened to ticks
+  std::optional<double> min{}, max{};  // fixed limits; otherwise from the data, widened to ticks
   bool include_zero = false;        // linear axes: keep 0 in range
   bool tight = false;  // linear axes: the range is the data's, ticks fall inside (year axes)
   int target_ticks = 6;
@@ -26,14 +26,14 @@ struct AxisSpec {
 enum class SeriesStyle { line, markers, band };
 
 struct Series {
-  std::string name;  // legend entry; empty = not in the legend
+  std::string name{};  // legend entry; empty = not in the legend
   SeriesStyle style = SeriesStyle::line;
-  std::vector<double> x;
-  std::vector<double> y;        // line and markers; for a band its lower edge
-  std::vector<double> y_upper;  // band only: upper edge
+  std::vector<double> x{};
+  std::vector<double> y{};        // line and markers; for a band its lower edge
+  std::vector<double> y_upper{};  // band only: upper edge
   Colour colour{};
   double line_width_px = 2.0;
-  std::vector<double> dash_px;
+  std::vector<double> dash_px{};
   MarkerShape marker = MarkerShape::circle;
   double marker_size_px = 7.0;
   double band_alpha = 0.25;  // fill opacity of a band
@@ -42,17 +42,17 @@ struct Series {
 struct ReferenceLine {
   bool horizontal = true;  // y = value; otherwise x = value
   double value = 0;
-  std::string label;  // written along the line, inside the plot area
+  std::string label{};  // written along the line, inside the plot area
   Colour colour{0x55, 0x55, 0x55};
   std::vector<double> dash_px{6, 4};
 };
 
 struct ChartSpec {
-  std::string title;
-  AxisSpec x;
-  AxisSpec y;
-  std::vector<Series> series;
-  std::vector<ReferenceLine> reference_lines;
+  std::string title{};
+  AxisSpec x{};
+  AxisSpec y{};
+  std::vector<Series> series{};
+  std::vector<ReferenceLine> reference_lines{};
   int width_px = 720;
   int height_px = 450;
 };

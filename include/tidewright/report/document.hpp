@@ -18,66 +18,66 @@
 namespace tidewright::report {
 
 struct TableColumn {
-  std::string title;  // e.g. "Design height"
-  std::string unit;   // with the datum for levels, e.g. "m above CD"; empty if dimensionless
+  std::string title{};  // e.g. "Design height"
+  std::string unit{};   // with the datum for levels, e.g. "m above CD"; empty if dimensionless
   [[nodiscard]] std::string header() const;  // "Design height (m above CD)"
 };
 
 struct Table {
-  std::string name;     // file stem of its CSV, e.g. "design_heights" (letters, digits, - and _)
-  std::string caption;  // one sentence saying what the rows are
-  std::vector<TableColumn> columns;
-  std::vector<std::vector<std::string>> rows;  // cell text (format numbers with fixed())
+  std::string name{};     // file stem of its CSV, e.g. "design_heights" (letters, digits, - and _)
+  std::string caption{};  // one sentence saying what the rows are
+  std::vector<TableColumn> columns{};
+  std::vector<std::vector<std::string>> rows{};  // cell text (format numbers with fixed())
 
   // Throws InputError when the row's width differs from the columns'.
   void add_row(std::vector<std::string> cells);
 };
 
 struct Figure {
-  std::string name;     // file stem of its SVG and PNG, e.g. "return_levels"
-  std::string caption;  // what the figure shows, with its data source
+  std::string name{};     // file stem of its SVG and PNG, e.g. "return_levels"
+  std::string caption{};  // what the figure shows, with its data source
   Canvas canvas;
 };
 
 struct Paragraph {
-  std::string text;
+  std::string text{};
 };
 struct BulletList {
-  std::vector<std::string> items;
+  std::vector<std::string> items{};
 };
 struct Subheading {
-  std::string text;
+  std::string text{};
 };
 
 using Block = std::variant<Paragraph, BulletList, Subheading, Table, Figure>;
 
 struct Section {
-  std::string heading;
-  std::vector<Block> blocks;
+  std::string heading{};
+  std::vector<Block> blocks{};
 };
 
 struct InputItem {
-  std::string name;   // e.g. "Record"
-  std::string value;  // e.g. "demo_coast/gauge.csv, hourly, 1975-2024"
+  std::string name{};   // e.g. "Record"
+  std::string value{};  // e.g. "demo_coast/gauge.csv, hourly, 1975-2024"
 };
 
 struct MethodReference {
-  std::string method;       // e.g. "Generalised extreme value fit"
-  std::string description;  // how the tool uses it
-  std::string reference;    // the published source
+  std::string method{};       // e.g. "Generalised extreme value fit"
+  std::string description{};  // how the tool uses it
+  std::string reference{};    // the published source
 };
 
 struct ReportDocument {
   std::string title = "Sea-level planning report";
-  std::string site_name;
-  std::string date;          // passed in by the caller (ISO 8601), so output is reproducible
-  std::string tool_version;  // e.g. "tidewright 0.1.0"
-  std::string summary;       // optional lead paragraph
-  std::vector<Section> sections;
-  std::vector<InputItem> inputs;
-  std::vector<std::string> assumptions;
-  std::vector<MethodReference> methods;
-  std::vector<std::string> extra_cautions;  // site-specific, after the standard cautions
+  std::string site_name{};
+  std::string date{};          // passed in by the caller (ISO 8601), so output is reproducible
+  std::string tool_version{};  // e.g. "tidewright 0.1.0"
+  std::string summary{};       // optional lead paragraph
+  std::vector<Section> sections{};
+  std::vector<InputItem> inputs{};
+  std::vector<std::string> assumptions{};
+  std::vector<MethodReference> methods{};
+  std::vector<std::string> extra_cautions{};  // site-specific, after the standard cautions
 };
 
 // Escapes & < > " ' for HTML text and attribute values.

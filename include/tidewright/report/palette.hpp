@@ -3,9 +3,9 @@
 // - series colours: the eight-colour set of Okabe & Ito (2008), "Color Universal Design (CUD):
 //   how to make figures and presentations that are friendly to colorblind people"
 //   (jfly.uni-koeln.de/color/), in an order of the project's own;
-// - continuous rasters: the viridis ramp of van der Walt & Smith (2015, matplotlib), as nine
-//   anchors (viridis at 0, 1/8, ..., 1, checked against Debian's python3-matplotlib), linearly
-//   interpolated in sRGB between them.
+// - continuous rasters: the viridis ramp of van der Walt & Smith (2015, matplotlib; released
+//   CC0), as 17 anchors (viridis at 0, 1/16, ..., 1), linearly interpolated in sRGB between
+//   them; a test compares it with Debian's python3-matplotlib.
 #pragma once
 
 #include <cstddef>

@@ -14,8 +14,8 @@
 namespace tidewright::report {
 
 struct NamedSeries {
-  std::string name;            // legend entry (a scenario, a component, a level)
-  std::vector<double> values;  // one per x value of the plot
+  std::string name{};            // legend entry (a scenario, a component, a level)
+  std::vector<double> values{};  // one per x value of the plot
 };
 
 // --- return levels ------------------------------------------------------------------------
@@ -27,12 +27,12 @@ struct NamedSeries {
 
 struct ReturnLevelPlotInput {
   std::string title = "Return levels of still water";
-  std::string datum;                     // e.g. "CD": the y label reads "(m above CD)"
-  std::vector<double> annual_maxima_m;   // any order; NaN entries are skipped
-  std::vector<double> return_period_yr;  // the fitted curve ...
-  std::vector<double> level_m;           // ... its return levels
-  std::vector<double> lower_m;           // 95% interval, lower (may be empty)
-  std::vector<double> upper_m;           // 95% interval, upper (may be empty)
+  std::string datum{};                     // e.g. "CD": the y label reads "(m above CD)"
+  std::vector<double> annual_maxima_m{};   // any order; NaN entries are skipped
+  std::vector<double> return_period_yr{};  // the fitted curve ...
+  std::vector<double> level_m{};           // ... its return levels
+  std::vector<double> lower_m{};           // 95% interval, lower (may be empty)
+  std::vector<double> upper_m{};           // 95% interval, upper (may be empty)
   std::string model_name = "Fitted model";
 };
 // Markers: the annual maxima at their Gringorten return periods; line: the fitted curve;
@@ -43,11 +43,11 @@ struct ReturnLevelPlotInput {
 
 struct FanChartInput {
   std::string title = "Projected relative sea-level rise";
-  std::string baseline;  // e.g. "since 2020": the y label reads "... since 2020 (m)"
-  std::vector<double> years;
+  std::string baseline{};  // e.g. "since 2020": the y label reads "... since 2020 (m)"
+  std::vector<double> years{};
   // Quantiles of total relative rise per year (m): 5, 17, 50, 83, 95%.
-  std::vector<double> q05_m, q17_m, q50_m, q83_m, q95_m;
-  std::vector<NamedSeries> component_medians_m;  // optional, drawn as thinner dashed lines
+  std::vector<double> q05_m, q17_m, q50_m, q83_m, q95_m{};
+  std::vector<NamedSeries> component_medians_m{};  // optional, drawn as thinner dashed lines
 };
 [[nodiscard]] Canvas projection_fan_chart(const FanChartInput& in);
 
@@ -85,33 +85,35 @@ struct FanChartInput {
 struct RasterView {
   int columns = 0;
   int rows = 0;
-  std::vector<float> values;
+  std::vector<float> values{};
   double cell_size_m = 0;  // square cells
-  std::optional<float> nodata;
+  std::optional<float> nodata{};
 };
 
 struct ContinuousMapInput {
-  std::string title;
-  RasterView raster;
-  std::string value_label;  // with units, e.g. "Flood depth (m)" or "Annual exceedance probability"
-  std::optional<double> min, max;  // colour-ramp limits; from the data when not given
+  std::string title{};
+  RasterView raster{};
+  std::string value_label{};  // with units, e.g. "Flood depth (m)" or "Annual exceedance probability"
+  std::optional<double> min{}, max{};  // colour-ramp limits; from the data when not given
   double label_scale = 1.0;        // legend labels show value * label_scale (100 for percent)
+  std::string blank_label = "No value";  // legend text of blank (nodata) cells; empty = none
 };
+// Maps are 720 px wide, and as tall as the raster's shape needs (300 to 560 px).
 // Viridis colour ramp with a labelled colour bar, a scale bar and a north arrow.
 [[nodiscard]] Canvas continuous_map(const ContinuousMapInput& in);
 
 struct MapCategory {
   int code = 0;  // raster value (rounded)
-  std::string label;
-  Colour colour;
+  std::string label{};
+  Colour colour{};
 };
 // The extent classes: 0 dry, 1 flooded and connected to the sea, 2 low-lying but not
 // connected (below the level, cut off by higher ground or defences).
 [[nodiscard]] std::vector<MapCategory> extent_categories();
 
 struct CategoricalMapInput {
-  std::string title;
-  RasterView raster;
+  std::string title{};
+  RasterView raster{};
   std::vector<MapCategory> categories = extent_categories();
   std::string legend_title = "Extent";
 };
