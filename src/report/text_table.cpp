@@ -68,7 +68,10 @@ std::string significant(double value, int digits) {
   // Rounding to `digits` can carry into the next power of ten (9.996 -> 10.0).
   const double scale = std::pow(10.0, digits - 1 - exponent);
   if (std::round(a * scale) >= std::pow(10.0, digits)) ++exponent;
-  if (exponent < 6) return sign + fixed(a, std::max(0, digits - 1 - exponent));
+  if (exponent < 6) {
+    const double step = std::pow(10.0, exponent + 1 - digits);  // value of the last digit kept
+    return sign + fixed(std::round(a / step) * step, std::max(0, digits - 1 - exponent));
+  }
   static const char* const superscripts[] = {"⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹"};
   std::string power;
   for (char c : std::to_string(exponent)) power += superscripts[c - '0'];
