@@ -57,4 +57,25 @@ std::string fixed(double value, int decimals) {
   return buf;
 }
 
+std::string significant(double value, int digits) {
+  if (std::isnan(value)) return "—";
+  if (std::isinf(value)) return value > 0 ? "∞" : "−∞";
+  if (value == 0) return "0";
+  digits = std::max(1, digits);
+  const std::string sign = value < 0 ? "−" : "";
+  const double a = std::abs(value);
+  int exponent = static_cast<int>(std::floor(std::log10(a)));
+  // Rounding to `digits` can carry into the next power of ten (9.996 -> 10.0).
+  const double scale = std::pow(10.0, digits - 1 - exponent);
+  if (std::round(a * scale) >= std::pow(10.0, digits)) ++exponent;
+  if (exponent < 6) {
+    const double step = std::pow(10.0, exponent + 1 - digits);  // value of the last digit kept
+    return sign + fixed(std::round(a / step) * step, std::max(0, digits - 1 - exponent));
+  }
+  static const char* const superscripts[] = {"⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹"};
+  std::string power;
+  for (char c : std::to_string(exponent)) power += superscripts[c - '0'];
+  return sign + fixed(a / std::pow(10.0, exponent), digits - 1) + " × 10" + power;
+}
+
 }  // namespace tidewright::report

@@ -19,5 +19,9 @@ class TextTable {
 
 // Fixed-point text of a number with `decimals` digits ("—" for NaN).
 [[nodiscard]] std::string fixed(double value, int decimals);
+// A number with `digits` significant digits for tables of widely ranging values (amplification
+// factors, return periods): plain below one million ("0.0123", "4250"), else "3.64 × 10⁶";
+// "—" for NaN, "∞" / "−∞" for infinities.
+[[nodiscard]] std::string significant(double value, int digits);
 
 }  // namespace tidewright::report

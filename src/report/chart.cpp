@@ -1,0 +1,338 @@
+#include "tidewright/report/chart.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "tidewright/common/error.hpp"
+#include "tidewright/report/axis_ticks.hpp"
+#include "tidewright/report/palette.hpp"
+
+namespace tidewright::report {
+namespace {
+
+// Type sizes in px at report size (720 x 450); layout distances below follow from them.
+// Common practice for screen charts: 12 px is the smallest comfortable size.
+constexpr double title_px = 16;
+constexpr double axis_label_px = 13;
+constexpr double tick_px = 12;
+constexpr double legend_px = 12;
+constexpr double tick_length_px = 5;
+
+struct Scale {
+  double lo = 0, hi = 1;
+  bool log = false;
+  double p0 = 0, p1 = 1;  // pixel positions of lo and hi
+  [[nodiscard]] double f(double v) const { return log ? std::log10(v) : v; }
+  [[nodiscard]] double operator()(double v) const {
+    return p0 + (f(v) - f(lo)) / (f(hi) - f(lo)) * (p1 - p0);
+  }
+  [[nodiscard]] bool valid(double v) const { return std::isfinite(v) && (!log || v > 0); }
+};
+
+AxisTicks ticks_for(const AxisSpec& axis, double lo, double hi) {
+  if (axis.log) return log_ticks(lo, hi);
+  const double s = axis.label_scale;
+  AxisTicks t = linear_ticks(lo * s, hi * s, axis.target_ticks);
+  t.min /= s;
+  t.max /= s;
+  for (double& v : t.major) v /= s;
+  return t;
+}
+
+AxisTicks axis_ticks(const AxisSpec& axis, std::vector<double> values, const std::string& what) {
+  double lo = std::numeric_limits<double>::infinity(), hi = -lo;
+  for (double v : values) {
+    if (!std::isfinite(v) || (axis.log && v <= 0)) continue;
+    lo = std::min(lo, v);
+    hi = std::max(hi, v);
+  }
+  if (axis.min) lo = *axis.min;
+  if (axis.max) hi = *axis.max;
+  if (!std::isfinite(lo) || !std::isfinite(hi)) {
+    throw InputError("plot '" + what + "'", "no finite value to plot on the " + axis.label + " axis",
+                     axis.log ? "a log axis needs positive values" : "check the plotted series");
+  }
+  if (!axis.log && axis.include_zero) {
+    lo = std::min(lo, 0.0);
+    hi = std::max(hi, 0.0);
+  }
+  AxisTicks t = ticks_for(axis, lo, hi);
+  // Fixed (or tight) limits are kept exactly; ticks outside them are dropped.
+  const bool tight = axis.tight && !axis.log && hi > lo;
+  if (axis.min || axis.max || tight) {
+    if (axis.min || tight) t.min = lo;
+    if (axis.max || tight) t.max = hi;
+    AxisTicks kept;
+    kept.min = t.min;
+    kept.max = t.max;
+    const double eps = 1e-9 * std::max(std::abs(t.min), std::abs(t.max));
+    for (std::size_t i = 0; i < t.major.size(); ++i) {
+      if (t.major[i] >= t.min - eps && t.major[i] <= t.max + eps) {
+        kept.major.push_back(t.major[i]);
+        kept.labels.push_back(t.labels[i]);
+      }
+    }
+    for (double v : t.minor) {
+      if (v > t.min && v < t.max) kept.minor.push_back(v);
+    }
+    t = kept;
+  }
+  return t;
+}
+
+// Largest size, from `size` down to 10 px, at which `text` fits in `room` px.
+double fitted_size(const std::string& text, double size, double room, bool bold = false) {
+  while (size > 10 && Canvas::text_width_px(text, size, bold) > room) size -= 0.5;
+  return size;
+}
+
+std::vector<std::vector<Point>> runs(const Series& s, const std::vector<double>& ys, const Scale& sx,
+                                     const Scale& sy) {
+  std::vector<std::vector<Point>> out(1);
+  for (std::size_t i = 0; i < s.x.size(); ++i) {
+    if (sx.valid(s.x[i]) && sy.valid(ys[i])) {
+      out.back().push_back({sx(s.x[i]), sy(ys[i])});
+    } else if (!out.back().empty()) {
+      out.emplace_back();
+    }
+  }
+  if (out.back().empty()) out.pop_back();
+  return out;
+}
+
+struct LegendEntry {
+  const Series* series;
+};
+
+}  // namespace
+
+Canvas render_chart(const ChartSpec& spec) {
+  const std::string& what = spec.title;
+  std::vector<double> xs, ys;
+  for (const auto& s : spec.series) {
+    const bool band = s.style == SeriesStyle::band;
+    if (s.x.size() != s.y.size() || (band && s.y_upper.size() != s.x.size())) {
+      throw InputError("plot '" + what + "'", "series '" + s.name + "' has x and y of different lengths",
+                       "give one y value (and one upper value for a band) per x value");
+    }
+    xs.insert(xs.end(), s.x.begin(), s.x.end());
+    ys.insert(ys.end(), s.y.begin(), s.y.end());
+    ys.insert(ys.end(), s.y_upper.begin(), s.y_upper.end());
+  }
+  for (const auto& r : spec.reference_lines) (r.horizontal ? ys : xs).push_back(r.value);
+  const AxisTicks xt = axis_ticks(spec.x, xs, what);
+  const AxisTicks yt = axis_ticks(spec.y, ys, what);
+
+  const double W = spec.width_px, H = spec.height_px;
+  Canvas canvas(spec.width_px, spec.height_px, spec.title);
+
+  // --- layout ------------------------------------------------------------------------------
+  double ytick_w = 0;
+  for (const auto& l : yt.labels) ytick_w = std::max(ytick_w, Canvas::text_width_px(l, tick_px));
+  const double left = 12 + axis_label_px + 10 + ytick_w + tick_length_px + 4;
+  const double top = spec.title.empty() ? 16 : 44;
+  double right = W - 16;
+  if (!xt.labels.empty()) {
+    right = std::min(right, W - 6 - Canvas::text_width_px(xt.labels.back(), tick_px) / 2);
+  }
+  const double bottom = H - (tick_length_px + 4 + tick_px + 12 + axis_label_px + 8);
+  const double pw = right - left, ph = bottom - top;
+  const Scale sx{xt.min, xt.max, spec.x.log, left, right};
+  const Scale sy{yt.min, yt.max, spec.y.log, bottom, top};
+  canvas.set_clip(left, top, pw, ph);
+
+  // --- grid --------------------------------------------------------------------------------
+  auto vline = [&](double x, const Colour& c, const std::string& role) {
+    canvas.add(PathItem{{{x, top}, {x, bottom}}, false, c, 1.0, {}, std::nullopt, false, role});
+  };
+  auto hline = [&](double y, const Colour& c, const std::string& role) {
+    canvas.add(PathItem{{{left, y}, {right, y}}, false, c, 1.0, {}, std::nullopt, false, role});
+  };
+  for (double v : xt.minor) vline(sx(v), minor_grid_grey, "grid-minor");
+  for (double v : yt.minor) hline(sy(v), minor_grid_grey, "grid-minor");
+  for (double v : xt.major) vline(sx(v), grid_grey, "grid");
+  for (double v : yt.major) hline(sy(v), grid_grey, "grid");
+
+  // --- data: bands, then lines, then markers ----------------------------------------------
+  for (const auto& s : spec.series) {
+    if (s.style != SeriesStyle::band) continue;
+    Colour fill = s.colour;
+    fill.alpha = s.band_alpha;
+    std::vector<Point> poly_hi, poly_lo;
+    auto flush = [&] {
+      if (poly_hi.size() >= 2) {
+        std::vector<Point> pts = poly_hi;
+        pts.insert(pts.end(), poly_lo.rbegin(), poly_lo.rend());
+        canvas.add(PathItem{pts, true, s.colour, 0.0, {}, fill, true, "band"});
+      }
+      poly_hi.clear();
+      poly_lo.clear();
+    };
+    for (std::size_t i = 0; i < s.x.size(); ++i) {
+      if (sx.valid(s.x[i]) && sy.valid(s.y[i]) && sy.valid(s.y_upper[i])) {
+        poly_hi.push_back({sx(s.x[i]), sy(s.y_upper[i])});
+        poly_lo.push_back({sx(s.x[i]), sy(s.y[i])});
+      } else {
+        flush();
+      }
+    }
+    flush();
+  }
+  for (const auto& s : spec.series) {
+    if (s.style != SeriesStyle::line) continue;
+    for (auto& run : runs(s, s.y, sx, sy)) {
+      canvas.add(PathItem{std::move(run), false, s.colour, s.line_width_px, s.dash_px, std::nullopt,
+                          true, "series"});
+    }
+  }
+  for (const auto& s : spec.series) {
+    if (s.style != SeriesStyle::markers) continue;
+    Colour fill = s.colour;
+    fill.alpha = 0.55;
+    for (std::size_t i = 0; i < s.x.size(); ++i) {
+      if (!sx.valid(s.x[i]) || !sy.valid(s.y[i])) continue;
+      canvas.add(MarkerItem{{sx(s.x[i]), sy(s.y[i])}, s.marker_size_px, s.marker, fill, s.colour,
+                            1.0, true, "marker"});
+    }
+  }
+  for (const auto& r : spec.reference_lines) {
+    const Scale& sc = r.horizontal ? sy : sx;
+    if (!sc.valid(r.value)) continue;
+    const double p = sc(r.value);
+    std::vector<Point> pts = r.horizontal ? std::vector<Point>{{left, p}, {right, p}}
+                                          : std::vector<Point>{{p, top}, {p, bottom}};
+    canvas.add(PathItem{pts, false, r.colour, 1.5, r.dash_px, std::nullopt, true, "reference"});
+    if (!r.label.empty()) {
+      if (r.horizontal) {
+        canvas.add(TextItem{{right - 6, p - 5}, r.label, 11, TextAnchor::end, 0, false, r.colour,
+                            "reference-label"});
+      } else {
+        canvas.add(TextItem{{p - 5, top + 6}, r.label, 11, TextAnchor::end, -90, false, r.colour,
+                            "reference-label"});
+      }
+    }
+  }
+
+  // --- axes, ticks and labels ---------------------------------------------------------------
+  canvas.add(PathItem{{{left, top}, {left, bottom}, {right, bottom}}, false, axis_grey, 1.2, {},
+                      std::nullopt, false, "axis"});
+  double last_label_right = -1e9;
+  for (std::size_t i = 0; i < xt.major.size(); ++i) {
+    const double x = sx(xt.major[i]);
+    canvas.add(PathItem{{{x, bottom}, {x, bottom + tick_length_px}}, false, axis_grey, 1.0, {},
+                        std::nullopt, false, "tick"});
+    const double w = Canvas::text_width_px(xt.labels[i], tick_px);
+    if (x - w / 2 < last_label_right + 8) continue;  // would overlap its left neighbour
+    canvas.add(TextItem{{x, bottom + tick_length_px + 4 + tick_px}, xt.labels[i], tick_px,
+                        TextAnchor::middle, 0, false, ink, "tick-label"});
+    last_label_right = x + w / 2;
+  }
+  for (std::size_t i = 0; i < yt.major.size(); ++i) {
+    const double y = sy(yt.major[i]);
+    canvas.add(PathItem{{{left - tick_length_px, y}, {left, y}}, false, axis_grey, 1.0, {},
+                        std::nullopt, false, "tick"});
+    canvas.add(TextItem{{left - tick_length_px - 4, y + tick_px * 0.35}, yt.labels[i], tick_px,
+                        TextAnchor::end, 0, false, ink, "tick-label"});
+  }
+  if (!spec.x.label.empty()) {
+    const double size = fitted_size(spec.x.label, axis_label_px, pw);
+    canvas.add(TextItem{{left + pw / 2, H - 10}, spec.x.label, size, TextAnchor::middle, 0, false,
+                        ink, "axis-label"});
+  }
+  if (!spec.y.label.empty()) {
+    const double size = fitted_size(spec.y.label, axis_label_px, ph + top - 8);
+    canvas.add(TextItem{{12 + axis_label_px, top + ph / 2}, spec.y.label, size, TextAnchor::middle,
+                        -90, false, ink, "axis-label"});
+  }
+  if (!spec.title.empty()) {
+    const double size = fitted_size(spec.title, title_px, W - 24, true);
+    canvas.add(TextItem{{left, 26}, spec.title, size, TextAnchor::start, 0, true, ink, "title"});
+  }
+
+  // --- legend: in the corner of the plot area that hides the fewest data points -----------
+  std::vector<const Series*> entries;
+  for (const auto& s : spec.series) {
+    if (!s.name.empty()) entries.push_back(&s);
+  }
+  if (!entries.empty()) {
+    constexpr double pad = 8, row = 18, swatch = 26, gap = 6, inset = 8;
+    double text_w = 0;
+    for (const auto* s : entries) text_w = std::max(text_w, Canvas::text_width_px(s->name, legend_px));
+    const double box_w = std::min(pad + swatch + gap + text_w + pad, pw - 2 * inset);
+    const double box_h = pad + row * static_cast<double>(entries.size()) + pad - 4;
+    // Sample points of everything drawn: vertices, points along segments, band edges.
+    std::vector<Point> samples;
+    for (const auto& s : spec.series) {
+      auto add_run = [&](const std::vector<Point>& run) {
+        for (std::size_t i = 0; i < run.size(); ++i) {
+          samples.push_back(run[i]);
+          if (i + 1 < run.size()) {
+            for (int k = 1; k < 8; ++k) {
+              const double f = k / 8.0;
+              samples.push_back({run[i].x + (run[i + 1].x - run[i].x) * f,
+                                 run[i].y + (run[i + 1].y - run[i].y) * f});
+            }
+          }
+        }
+      };
+      for (const auto& run : runs(s, s.y, sx, sy)) add_run(run);
+      if (s.style == SeriesStyle::band) {
+        for (const auto& run : runs(s, s.y_upper, sx, sy)) add_run(run);
+      }
+    }
+    struct Corner {
+      double x, y;
+    };
+    const Corner corners[] = {{left + inset, top + inset},
+                              {right - inset - box_w, top + inset},
+                              {right - inset - box_w, bottom - inset - box_h},
+                              {left + inset, bottom - inset - box_h}};
+    std::size_t best = 0, best_count = std::numeric_limits<std::size_t>::max();
+    for (std::size_t c = 0; c < 4; ++c) {
+      const auto count = static_cast<std::size_t>(
+          std::count_if(samples.begin(), samples.end(), [&](const Point& p) {
+            return p.x >= corners[c].x - 4 && p.x <= corners[c].x + box_w + 4 &&
+                   p.y >= corners[c].y - 4 && p.y <= corners[c].y + box_h + 4;
+          }));
+      if (count < best_count) {
+        best = c;
+        best_count = count;
+      }
+    }
+    const double bx = corners[best].x, by = corners[best].y;
+    canvas.add(PathItem{{{bx, by}, {bx + box_w, by}, {bx + box_w, by + box_h}, {bx, by + box_h}},
+                        true, Colour{0xbb, 0xbb, 0xbb}, 1.0, {}, Colour{0xff, 0xff, 0xff, 0.9},
+                        false, "legend"});
+    for (std::size_t i = 0; i < entries.size(); ++i) {
+      const Series& s = *entries[i];
+      const double cy = by + pad + row * static_cast<double>(i) + row / 2 - 2;
+      const double sx0 = bx + pad;
+      switch (s.style) {
+        case SeriesStyle::line:
+          canvas.add(PathItem{{{sx0, cy}, {sx0 + swatch, cy}}, false, s.colour, s.line_width_px,
+                              s.dash_px, std::nullopt, false, "legend-swatch"});
+          break;
+        case SeriesStyle::markers: {
+          Colour fill = s.colour;
+          fill.alpha = 0.55;
+          canvas.add(MarkerItem{{sx0 + swatch / 2, cy}, s.marker_size_px, s.marker, fill, s.colour,
+                                1.0, false, "legend-marker"});
+          break;
+        }
+        case SeriesStyle::band: {
+          Colour fill = s.colour;
+          fill.alpha = s.band_alpha;
+          canvas.add(PathItem{{{sx0, cy - 6}, {sx0 + swatch, cy - 6}, {sx0 + swatch, cy + 6}, {sx0, cy + 6}},
+                              true, s.colour, 0.0, {}, fill, false, "legend-swatch"});
+          break;
+        }
+      }
+      canvas.add(TextItem{{sx0 + swatch + gap, cy + legend_px * 0.35}, s.name, legend_px,
+                          TextAnchor::start, 0, false, ink, "legend-label"});
+    }
+  }
+  return canvas;
+}
+
+}  // namespace tidewright::report
