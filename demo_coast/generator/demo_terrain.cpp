@@ -235,6 +235,7 @@ std::vector<Landmark> terrain_landmarks() {
       {"Tamsel floodplain", river_x_m(y_fp) + 200.0, y_fp, 0.0},
       {"Tamsel channel", river_x_m(y_fp), y_fp, 0.0},
       {"town centre", 2100.0, coast_y_m(2100.0) + 450.0, 0.0},
+      {"town seafront (behind the seawall)", 2000.0, coast_y_m(2000.0) + 150.0, 0.0},
       {"open sea", 3000.0, 400.0, 0.0},
       {"hills", 3000.0, 4300.0, 0.0},
   };
@@ -325,19 +326,23 @@ void write_terrain_geotiff(const Terrain& terrain, const std::filesystem::path& 
 }
 
 std::vector<DefenceLine> defence_lines() {
+  // Each line ties into ground above its crest at its ends (or the other line), so that water
+  // cannot walk round it below the crest.
   const TerrainLevels lv = terrain_levels();
-  const double yh = harbour_y_m();
-  DefenceLine wall{"Quillhaven town seawall (invented)", "seawall", lv.seawall_crest_m, {}};
-  for (double x = 1850.0; x < 2290.0; x += 55.0) wall.points_m.push_back({x, coast_y_m(x) + 100.0});
-  wall.points_m.push_back({2290.0, coast_y_m(2290.0) + 100.0});
-  wall.points_m.push_back({2290.0, yh + 320.0});
-  wall.points_m.push_back({3310.0, yh + 320.0});
-  for (double x = 3310.0; x <= 3550.0; x += 40.0)
-    wall.points_m.push_back({x, coast_y_m(x) + 100.0});
+  const auto at = [](double x, double d) { return std::array<double, 2>{x, coast_y_m(x) + d}; };
   DefenceLine bank{"Tamsel east embankment (invented)", "embankment", lv.embankment_crest_m, {}};
-  for (double d = 100.0; d <= 500.0; d += 100.0)
-    bank.points_m.push_back({1850.0, coast_y_m(1850.0) + d});
-  return {wall, bank};
+  for (double d = 320.0; d >= 100.0; d -= 55.0) bank.points_m.push_back(at(1900.0, d));
+  bank.points_m.push_back(at(1900.0, 100.0));
+  DefenceLine west{
+      "Quillhaven seawall, west of the harbour (invented)", "seawall", lv.seawall_crest_m, {}};
+  for (double x = 1900.0; x < 2290.0; x += 65.0) west.points_m.push_back(at(x, 100.0));
+  west.points_m.push_back(at(2290.0, 100.0));
+  west.points_m.push_back(at(2290.0, 250.0));
+  DefenceLine east{
+      "Quillhaven seawall, east of the harbour (invented)", "seawall", lv.seawall_crest_m, {}};
+  east.points_m.push_back(at(3310.0, 250.0));
+  for (double x = 3310.0; x <= 3650.0; x += 68.0) east.points_m.push_back(at(x, 100.0));
+  return {bank, west, east};
 }
 
 std::vector<std::array<double, 2>> sea_polygon_m(const TerrainDesign& design) {

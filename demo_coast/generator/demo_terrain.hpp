@@ -52,8 +52,8 @@ struct TerrainLevels {
 
 [[nodiscard]] TerrainLevels terrain_levels();
 [[nodiscard]] double coast_y_m(double x_m);
-// Landmarks: harbour basin, west quay, breakwater crest, low district, saddle, floodplain, town,
-// hills, open sea.
+// Landmarks: harbour basin, west quay, breakwater crest, outer harbour, low district, saddle,
+// ridge crest, floodplain, river channel, town centre, town seafront, open sea, hills.
 [[nodiscard]] std::vector<Landmark> terrain_landmarks();
 
 struct Terrain {
