@@ -332,7 +332,6 @@ std::vector<DefenceLine> defence_lines() {
   const auto at = [](double x, double d) { return std::array<double, 2>{x, coast_y_m(x) + d}; };
   DefenceLine bank{"Tamsel east embankment (invented)", "embankment", lv.embankment_crest_m, {}};
   for (double d = 320.0; d >= 100.0; d -= 55.0) bank.points_m.push_back(at(1900.0, d));
-  bank.points_m.push_back(at(1900.0, 100.0));
   DefenceLine west{
       "Quillhaven seawall, west of the harbour (invented)", "seawall", lv.seawall_crest_m, {}};
   for (double x = 1900.0; x < 2290.0; x += 65.0) west.points_m.push_back(at(x, 100.0));
