@@ -197,7 +197,7 @@ TideRecord generate_tide_record(const TideRecordDesign& design, unsigned long lo
   // Inter-annual anomaly: an AR(1) value η_y at the middle of each year from first−1 to last+1,
   // linearly interpolated between them (stationary AR(1): innovation sd = sd·sqrt(1 − φ²)).
   Draws draw_year(split_seed(seed, s_interannual));
-  const auto n_anchor = static_cast<std::size_t>(design.last_year - design.first_year + 3);
+  const auto n_anchor = static_cast<std::size_t>(design.last_year - design.first_year) + 3U;
   std::vector<double> anchor_m(n_anchor);
   const double phi_y = design.interannual_ar1;
   anchor_m[0] = design.interannual_sd_m * draw_year.normal();

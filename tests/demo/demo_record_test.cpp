@@ -121,7 +121,7 @@ TrendFit annual_mean_trend(const demo::TideRecord& rec) {
         ++n;
       }
     }
-    if (static_cast<double>(n) >= 0.9 * static_cast<double>((b - a) / 3600)) {
+    if (static_cast<double>(n) >= 0.9 * static_cast<double>(b - a) / 3600.0) {
       years.push_back(y + 0.5);
       means.push_back(sum / static_cast<double>(n));
     }
@@ -213,7 +213,7 @@ TEST(DemoRecord, CsvReadsThroughTheProjectReaderWithOnlyDocumentedFaults) {
               7)
         << row.cells[tc];
     ASSERT_EQ(z, 'Z');
-    ASSERT_EQ(unix_s(y, mo, d) + h * 3600 + mi * 60 + s, rec.time_s[i]);
+    ASSERT_EQ(unix_s(y, mo, d) + h * 3600LL + mi * 60LL + s, rec.time_s[i]);
     const auto v = table.number(row, lc, missing);  // throws on anything undocumented
     if (!v) {
       ++missing_cells;
