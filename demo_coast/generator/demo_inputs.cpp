@@ -31,9 +31,10 @@ TideRecordDesign demo_record_design(bool small) {
   return small ? TideRecordDesign::standard_years(1995, 2024) : TideRecordDesign::standard();
 }
 
-TerrainDesign demo_terrain_design(bool small) {
+TerrainDesign demo_terrain_design(bool small, double cell_size_m) {
   TerrainDesign d;
   if (small) d.cell_size_m = 20.0;
+  if (cell_size_m > 0.0) d.cell_size_m = cell_size_m;
   return d;
 }
 
@@ -77,7 +78,11 @@ DemoInputs write_demo_inputs(const std::filesystem::path& folder, unsigned long 
     check_output_path(*p, options.force);
   }
 
+  // Generate both in memory first, so that a bad design is refused before any file is written.
   const TideRecord record = generate_tide_record(demo_record_design(options.small), seed);
+  const TerrainDesign td = demo_terrain_design(options.small, options.dem_cell_size_m);
+  const Terrain terrain = generate_terrain(td, seed);
+
   write_tide_record_csv(record, in.record_csv, options.force);
   in.first_year = record.design.first_year;
   in.last_year = record.design.last_year;
@@ -89,8 +94,6 @@ DemoInputs write_demo_inputs(const std::filesystem::path& folder, unsigned long 
   in.rows_sentinel = record.count(RowState::sentinel);
   in.surge_events = record.surges.size();
 
-  const TerrainDesign td = demo_terrain_design(options.small);
-  const Terrain terrain = generate_terrain(td, seed);
   write_terrain_geotiff(terrain, in.dem_tif, options.force);
   write_defences_geojson(td, in.defences_geojson, options.force);
   write_sea_geojson(td, in.sea_geojson, options.force);

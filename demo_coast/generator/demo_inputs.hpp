@@ -20,6 +20,8 @@ struct DemoOptions {
   // instead of 1975–2024 and 5 m cells (1,200 x 900). Same place, same features.
   bool small = false;
   bool force = false;  // replace files that already exist in the folder
+  // DEM cell size; 0 keeps the variant's (5 m full, 20 m small). 2.5 m gives 2,400 x 1,800 cells.
+  double dem_cell_size_m = 0.0;
 };
 
 struct DemoInputs {
@@ -52,7 +54,7 @@ struct DemoInputs {
 
 // The study's record and terrain designs for the given variant.
 [[nodiscard]] TideRecordDesign demo_record_design(bool small);
-[[nodiscard]] TerrainDesign demo_terrain_design(bool small);
+[[nodiscard]] TerrainDesign demo_terrain_design(bool small, double cell_size_m = 0.0);
 
 // Creates `folder` if needed and writes the five files into it, each atomically. Refuses (with
 // an InputError, before writing anything) when one of them exists and !options.force.

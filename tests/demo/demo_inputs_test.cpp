@@ -108,3 +108,11 @@ TEST(DemoInputs, CommittedSiteFileIsTheGeneratorsText) {
       read_all(std::filesystem::path(TIDEWRIGHT_SOURCE_DIR) / "demo_coast" / "site.toml");
   EXPECT_EQ(committed, demo::demo_site_toml(demo::demo_default_seed, false));
 }
+
+TEST(DemoInputs, BadCellSizeIsRefusedBeforeAnyFileIsWritten) {
+  TempDir dir;
+  demo::DemoOptions options{true, false};
+  options.dem_cell_size_m = 0.1;
+  EXPECT_THROW((void)demo::write_demo_inputs(dir.path(), 1, options), tidewright::InputError);
+  EXPECT_TRUE(std::filesystem::is_empty(dir.path()));
+}
