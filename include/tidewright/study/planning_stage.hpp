@@ -1,0 +1,60 @@
+// The planning stage as the commands and the study use it: a present-day model (from a fit)
+// and local rise members (from a projection), made consistent with each other (datum, the
+// record's epoch against the projection's reference), then allowances, amplification
+// factors, emergence years and design-life risk from planning's one N_t(z).
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "tidewright/local/rise_ensemble.hpp"
+#include "tidewright/planning/allowance.hpp"
+#include "tidewright/planning/amplification.hpp"
+#include "tidewright/planning/design_life_risk.hpp"
+#include "tidewright/planning/future_exceedance.hpp"
+#include "tidewright/planning/parameter_range.hpp"
+#include "tidewright/study/stage_files.hpp"
+
+namespace tidewright::study {
+
+struct PlanningInputs {
+  FitSummary fit;
+  local::RiseEnsemble rise;  // re-referenced to the record's epoch where needed
+  planning::StorminessChange storminess;
+  std::vector<std::string> notes;  // how the two were joined; printed and kept in the JSON
+};
+
+// Joins a fit and a projection. With a fit epoch E: if E lies inside the projected years,
+// every member is re-referenced to its own rise in E; if E lies inside the projection's
+// reference period, the rise at E is taken as zero (it is by construction, to within the
+// reference period's own change); otherwise `epoch_offset_m` (the rise from E to the
+// projection's reference) must be given, or this throws InputError.
+[[nodiscard]] PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
+                                                     std::optional<double> epoch_offset_m,
+                                                     const planning::StorminessChange& storminess = {});
+
+struct AllowanceRow {
+  planning::Allowance allowance;
+  std::optional<planning::ParameterRange> range;  // over the fit's parameter uncertainty
+};
+
+// Allowances for each year and return period (Hunter 2012), with ranges over `draws`
+// parameter draws from the fit's covariance when draws > 0.
+[[nodiscard]] std::vector<AllowanceRow> allowance_table(const PlanningInputs& in, const std::vector<int>& years,
+                                                        const std::vector<double>& return_periods_yr,
+                                                        int draws, unsigned long long seed);
+
+// Models drawn from the fit's normal approximation N(theta_hat, covariance) (Coles 2001,
+// §2.6.4); draws outside the parameter space are redrawn.
+[[nodiscard]] std::vector<extremes::StillWaterModel> parameter_draws(const FitSummary& fit, int draws,
+                                                                     unsigned long long seed);
+
+[[nodiscard]] std::vector<planning::YearConditions> year_span(const PlanningInputs& in, int first, int last);
+
+[[nodiscard]] nlohmann::ordered_json planning_context_json(const PlanningInputs& in);
+[[nodiscard]] nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows);
+
+}  // namespace tidewright::study

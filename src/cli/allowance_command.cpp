@@ -1,0 +1,131 @@
+// tidewright allowance: how much to raise an asset so that it is exceeded no more often than
+// today (Hunter 2012), and the design-life risk of given heights.
+#include <iostream>
+#include <sstream>
+
+#include "command.hpp"
+#include "planning_options.hpp"
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/error.hpp"
+#include "tidewright/report/text_table.hpp"
+
+namespace tidewright::cli {
+namespace {
+
+struct AllowanceArgs {
+  PlanningArgs planning;
+  std::vector<int> years{2050, 2100};
+  std::vector<double> periods{10, 100};
+  std::string design_life;
+  std::vector<double> heights;
+  std::optional<double> target_risk;
+  int draws = 0;
+  unsigned long long seed = default_seed;
+  std::string json, csv;
+};
+
+void configure(CLI::App& app, CommonOptions& common) {
+  auto a = std::make_shared<AllowanceArgs>();
+  add_planning_options(app, a->planning);
+  app.add_option("--years", a->years, "Design years")->delimiter(',')->default_str("2050,2100");
+  app.add_option("--return-periods", a->periods, "Return periods of today's levels, years")
+      ->delimiter(',')
+      ->default_str("10,100");
+  app.add_option("--design-life", a->design_life, "Span of years, e.g. 2030-2100: design-life allowance and risk");
+  app.add_option("--heights", a->heights, "Design-life risk of these heights (m above the datum)")->delimiter(',');
+  app.add_option("--target-risk", a->target_risk, "Height whose design-life exceedance probability is this")
+      ->check(CLI::Range(1e-9, 1.0 - 1e-9));
+  app.add_option("--parameter-draws", a->draws,
+                 "Draws from the fit's covariance for a range over parameter uncertainty (0: none)")
+      ->check(CLI::Range(0, 100000));
+  add_seed_option(app, a->seed);
+  add_json_option(app, a->json);
+  add_csv_option(app, a->csv);
+  add_force_flag(app, common);
+  add_quiet_flag(app, common);
+
+  app.callback([a, &common] {
+    if (!a->json.empty()) check_output_path(a->json, common.force, "--json");
+    if (!a->csv.empty()) check_output_path(a->csv, common.force, "--csv");
+    if ((!a->heights.empty() || a->target_risk) && a->design_life.empty()) {
+      throw InputError("--heights/--target-risk", "need a design life", "add --design-life FIRST-LAST");
+    }
+    const auto in = load_planning_inputs(a->planning);
+    const auto rows = study::allowance_table(in, a->years, a->periods, a->draws, a->seed);
+    auto j = study::allowance_json(in, rows);
+    std::ostringstream o;
+    const std::string datum = in.fit.datum.empty() ? "datum" : in.fit.datum;
+    o << "tidewright allowance: scenario '" << in.rise.scenario << "'" << (in.rise.illustrative ? " (illustrative)" : "")
+      << ", " << in.rise.member_count() << " members; levels in m above " << datum << "\n";
+    std::vector<std::string> head{"year", "return period (yr)", "today's level (m)", "allowance (m)",
+                                  "design level (m)", "mean rise (m)", "sd rise (m)"};
+    if (a->draws > 0) head.emplace_back("allowance 5-95% over parameters (m)");
+    report::TextTable t(head);
+    std::ostringstream csv;
+    csv << "year,return_period_yr,present_level_m,allowance_m,design_level_m,mean_rise_m,sd_rise_m,method\n";
+    for (const auto& r : rows) {
+      const auto& al = r.allowance;
+      std::vector<std::string> row{std::to_string(al.first_year), report::fixed(al.return_period_yr, 0),
+                                   report::fixed(al.present_level_m, 3), report::fixed(al.allowance_m, 3),
+                                   report::fixed(al.present_level_m + al.allowance_m, 3),
+                                   report::fixed(al.mean_rise_m, 3), report::fixed(al.sd_rise_m, 3)};
+      if (r.range) row.push_back(report::fixed(r.range->lower, 3) + " to " + report::fixed(r.range->upper, 3));
+      t.add_row(row);
+      csv << al.first_year << ',' << al.return_period_yr << ',' << report::fixed(al.present_level_m, 4) << ','
+          << report::fixed(al.allowance_m, 4) << ',' << report::fixed(al.present_level_m + al.allowance_m, 4) << ','
+          << report::fixed(al.mean_rise_m, 4) << ',' << report::fixed(al.sd_rise_m, 4) << ',' << al.method << '\n';
+    }
+    o << t.render();
+    if (!a->design_life.empty()) {
+      const auto [first, last] = parse_year_span(a->design_life, "--design-life");
+      const auto span = study::year_span(in, first, last);
+      nlohmann::ordered_json life;
+      life["first_year"] = first;
+      life["last_year"] = last;
+      nlohmann::ordered_json dl = nlohmann::ordered_json::array();
+      o << "\nDesign life " << first << "-" << last << ":\n";
+      report::TextTable d({"return period (yr)", "today's level (m)", "design-life allowance (m)"});
+      for (double period : a->periods) {
+        const auto al = planning::design_life_allowance(in.fit.model, span, period);
+        d.add_row({report::fixed(period, 0), report::fixed(al.present_level_m, 3), report::fixed(al.allowance_m, 3)});
+        dl.push_back({{"return_period", period}, {"present_level_m", al.present_level_m},
+                      {"allowance_m", al.allowance_m}, {"method", al.method}});
+      }
+      o << d.render();
+      life["allowances"] = dl;
+      nlohmann::ordered_json risks = nlohmann::ordered_json::array();
+      if (!a->heights.empty()) {
+        report::TextTable rt({"height (m)", "P(at least one exceedance)", "expected exceedances"});
+        for (double h : a->heights) {
+          const auto r = planning::design_life_risk(in.fit.model, span, h);
+          rt.add_row({report::fixed(h, 3), r.rounds_to_one ? "> 1 - " + report::fixed(r.probability_none, 12)
+                                                           : report::fixed(r.probability, 4),
+                      report::fixed(r.expected_exceedances, 3)});
+          risks.push_back({{"height_m", h}, {"probability", r.probability}, {"probability_none", r.probability_none},
+                           {"expected_exceedances", r.expected_exceedances}, {"rounds_to_one", r.rounds_to_one}});
+        }
+        o << rt.render();
+      }
+      life["risks"] = risks;
+      if (a->target_risk) {
+        const auto h = planning::level_for_design_life_risk(in.fit.model, span, *a->target_risk);
+        o << "Height with a " << report::fixed(*a->target_risk * 100, 1) << "% chance of at least one exceedance in "
+          << first << "-" << last << ": " << report::fixed(h.level_m, 3) << " m\n";
+        life["target"] = {{"probability", *a->target_risk}, {"height_m", h.level_m}};
+      }
+      j["design_life"] = life;
+    }
+    for (const auto& n : in.notes) o << "note: " << n << "\n";
+    o << "Planning estimates of still water only; a licensed coastal engineer must review them against local codes "
+         "and datums.\n";
+    if (!a->json.empty()) write_json_file(a->json, j, common.force, "--json");
+    if (!a->csv.empty()) write_text_file(a->csv, csv.str(), common.force, "--csv");
+    if (!common.quiet) std::cout << o.str();
+  });
+}
+
+const bool registered = register_command(
+    {"allowance", "Sea-level allowances (Hunter 2012) and design-life exceedance risk", 30, configure});
+
+}  // namespace
+}  // namespace tidewright::cli

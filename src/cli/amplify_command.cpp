@@ -1,0 +1,127 @@
+// tidewright amplify: how much more often today's levels will be exceeded, their future
+// return periods, and the year in which they are reached once a year (or at a given rate).
+#include <iostream>
+#include <sstream>
+
+#include "command.hpp"
+#include "planning_options.hpp"
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/error.hpp"
+#include "tidewright/report/cautions.hpp"
+#include "tidewright/report/text_table.hpp"
+
+namespace tidewright::cli {
+namespace {
+
+struct AmplifyArgs {
+  PlanningArgs planning;
+  std::vector<int> years{2050, 2100};
+  std::vector<double> periods;
+  std::vector<double> levels;
+  double frequency = 1.0;
+  std::string json, csv;
+};
+
+std::string period_text(double t) {
+  if (!std::isfinite(t)) return "never";
+  if (t >= 1e6) return "> 1,000,000";
+  return t >= 100 ? report::fixed(t, 0) : report::fixed(t, 2);
+}
+
+nlohmann::ordered_json finite_or_null(double v) {
+  return std::isfinite(v) ? nlohmann::ordered_json(v) : nlohmann::ordered_json(nullptr);
+}
+
+void configure(CLI::App& app, CommonOptions& common) {
+  auto a = std::make_shared<AmplifyArgs>();
+  add_planning_options(app, a->planning);
+  app.add_option("--years", a->years, "Years")->delimiter(',')->default_str("2050,2100");
+  app.add_option("--return-periods", a->periods, "Today's T-year levels to follow, years")->delimiter(',');
+  app.add_option("--levels", a->levels, "Levels to follow, m above the datum")->delimiter(',');
+  app.add_option("--frequency", a->frequency, "Emergence: the year a level is exceeded this often per year")
+      ->default_val(1.0)
+      ->check(CLI::PositiveNumber);
+  add_json_option(app, a->json);
+  add_csv_option(app, a->csv);
+  add_force_flag(app, common);
+  add_quiet_flag(app, common);
+
+  app.callback([a, &common] {
+    if (!a->json.empty()) check_output_path(a->json, common.force, "--json");
+    if (!a->csv.empty()) check_output_path(a->csv, common.force, "--csv");
+    std::vector<double> periods = a->periods;
+    if (periods.empty() && a->levels.empty()) periods = {10.0, 100.0};
+    for (double t : periods) {
+      if (!(t > 1.0)) {
+        throw InputError("--return-periods", "holds " + report::fixed(t, 3) + ", a return period of 1 year or less",
+                         "give return periods above 1 year");
+      }
+    }
+    const auto in = load_planning_inputs(a->planning);
+    struct Target {
+      double level_m;
+      double period_yr;  // 0 when given as a level
+    };
+    std::vector<Target> targets;
+    for (double t : periods) targets.push_back({planning::present_return_level(in.fit.model, t), t});
+    for (double z : a->levels) targets.push_back({z, 0.0});
+
+    nlohmann::ordered_json j = study::planning_context_json(in);
+    nlohmann::ordered_json rows = nlohmann::ordered_json::array();
+    std::ostringstream csv;
+    csv << "year,level_m,present_return_period_yr,future_return_period_yr,amplification_factor\n";
+    const std::string datum = in.fit.datum.empty() ? "datum" : in.fit.datum;
+    report::TextTable t({"year", "level (m, " + datum + ")", "today's return period (yr)",
+                         "future return period (yr)", "amplification factor"});
+    for (int y : a->years) {
+      const auto cond = planning::conditions_in_year(in.rise, y, in.storminess);
+      for (const auto& target : targets) {
+        const auto am = planning::amplification(in.fit.model, cond, target.level_m);
+        t.add_row({std::to_string(y), report::fixed(target.level_m, 3), period_text(am.present_return_period_yr),
+                   period_text(am.future_return_period_yr),
+                   am.present_rate_is_zero ? "not finite (level above today's upper end point)"
+                                           : report::fixed(am.amplification_factor, 1)});
+        rows.push_back({{"year", y},
+                        {"level", target.level_m},
+                        {"present_return_period", finite_or_null(am.present_return_period_yr)},
+                        {"future_return_period", finite_or_null(am.future_return_period_yr)},
+                        {"amplification_factor", finite_or_null(am.amplification_factor)},
+                        {"present_rate_is_zero", am.present_rate_is_zero}});
+        csv << y << ',' << report::fixed(target.level_m, 4) << ',' << am.present_return_period_yr << ','
+            << am.future_return_period_yr << ',' << am.amplification_factor << '\n';
+      }
+    }
+    j["rows"] = rows;
+    const auto span = study::year_span(in, in.rise.years.front(), in.rise.years.back());
+    nlohmann::ordered_json em = nlohmann::ordered_json::array();
+    report::TextTable e({"level (m)", "today's return period (yr)", "first year exceeded " +
+                                                                          report::fixed(a->frequency, 2) + " times a year"});
+    for (const auto& target : targets) {
+      const auto r = planning::emergence_year(in.fit.model, span, target.level_m, a->frequency);
+      e.add_row({report::fixed(target.level_m, 3), period_text(1.0 / in.fit.model.annual_exceedance_rate(target.level_m)),
+                 r.year ? std::to_string(*r.year) : "not by " + std::to_string(in.rise.years.back())});
+      em.push_back({{"level", target.level_m},
+                    {"frequency_per_yr", a->frequency},
+                    {"year", r.year ? nlohmann::ordered_json(*r.year) : nlohmann::ordered_json(nullptr)}});
+    }
+    j["emergence"] = em;
+    j["cautions"] = report::safety_cautions();
+    std::ostringstream o;
+    o << "tidewright amplify: scenario '" << in.rise.scenario << "'" << (in.rise.illustrative ? " (illustrative)" : "")
+      << ", " << in.rise.member_count() << " members\n"
+      << t.render() << "\nEmergence:\n"
+      << e.render();
+    for (const auto& n : in.notes) o << "note: " << n << "\n";
+    o << "Planning estimates of still water only; a licensed coastal engineer must review them against local codes "
+         "and datums.\n";
+    if (!a->json.empty()) write_json_file(a->json, j, common.force, "--json");
+    if (!a->csv.empty()) write_text_file(a->csv, csv.str(), common.force, "--csv");
+    if (!common.quiet) std::cout << o.str();
+  });
+}
+
+const bool registered = register_command(
+    {"amplify", "Amplification factors, future return periods and emergence years of today's levels", 40, configure});
+
+}  // namespace
+}  // namespace tidewright::cli

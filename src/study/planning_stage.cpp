@@ -1,0 +1,181 @@
+#include "tidewright/study/planning_stage.hpp"
+
+#include <cmath>
+#include <cstdio>
+#include <random>
+
+#include "tidewright/common/error.hpp"
+#include "tidewright/report/cautions.hpp"
+
+namespace tidewright::study {
+namespace {
+
+std::optional<std::pair<int, int>> reference_period(const std::string& label) {
+  int a = 0, b = 0;
+  if (std::sscanf(label.c_str(), "%d-%d", &a, &b) == 2 && b >= a) return std::pair{a, b};
+  if (std::sscanf(label.c_str(), "%d", &a) == 1) return std::pair{a, a};
+  return std::nullopt;
+}
+
+std::string num(double v, int decimals = 2) {
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
+  return buf;
+}
+
+}  // namespace
+
+PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise, std::optional<double> epoch_offset_m,
+                                       const planning::StorminessChange& storminess) {
+  PlanningInputs in;
+  in.storminess = storminess;
+  if (rise.years.empty() || rise.rise_m.rows() == 0) {
+    throw InputError("projection", "holds no members", "give the --members output of 'tidewright project'");
+  }
+  if (epoch_offset_m) {
+    rise.rise_m.array() += *epoch_offset_m;
+    in.notes.push_back("rise shifted by " + num(*epoch_offset_m, 3) +
+                       " m, the stated rise from the record's epoch to the projection's reference");
+  } else if (fit.reference_epoch) {
+    const double e = *fit.reference_epoch;
+    const auto period = reference_period(rise.reference);
+    if (e >= rise.years.front() && e <= rise.years.back()) {
+      const int year = static_cast<int>(std::lround(e));
+      const Eigen::VectorXd at_epoch = rise.rise_in(std::clamp(year, rise.years.front(), rise.years.back()));
+      rise.rise_m.colwise() -= at_epoch;
+      rise.reference = "record epoch " + num(e, 1) + " (re-referenced member by member)";
+      in.notes.push_back("each member's rise is measured from the record's epoch " + num(e, 1) +
+                         " (its rise in " + std::to_string(year) + " subtracted)");
+    } else if (period && e >= period->first - 0.5 && e <= period->second + 1.0) {
+      in.notes.push_back("the record's epoch " + num(e, 1) + " lies in the projection's reference period " +
+                         rise.reference + "; the rise at the epoch is taken as zero");
+    } else {
+      throw InputError("projection reference '" + rise.reference + "'",
+                       "does not fit the record's epoch " + num(e, 1) +
+                           ", which lies neither in the projected years nor in the reference period",
+                       "project from a first year at or before the epoch, or state the rise from the epoch to the "
+                       "reference with --epoch-offset");
+    }
+  } else {
+    in.notes.push_back("the record's levels were not referred to an epoch (no trend removed); they are taken to "
+                       "refer to the projection's reference " + rise.reference);
+  }
+  in.fit = std::move(fit);
+  in.rise = std::move(rise);
+  return in;
+}
+
+std::vector<planning::YearConditions> year_span(const PlanningInputs& in, int first, int last) {
+  return planning::conditions_over_years(in.rise, first, last, in.storminess);
+}
+
+std::vector<extremes::StillWaterModel> parameter_draws(const FitSummary& fit, int draws, unsigned long long seed) {
+  if (draws <= 0) return {};
+  if (!fit.covariance || fit.estimates.empty()) {
+    throw InputError(fit.source, "holds no covariance, so there is no parameter uncertainty to draw from",
+                     "use the JSON of a fit with standard errors, or ask for no parameter range");
+  }
+  const auto n = static_cast<Eigen::Index>(fit.estimates.size());
+  Eigen::VectorXd mean(n);
+  for (Eigen::Index i = 0; i < n; ++i) mean(i) = fit.estimates[static_cast<std::size_t>(i)];
+  Eigen::LLT<Eigen::MatrixXd> llt(*fit.covariance);
+  if (llt.info() != Eigen::Success) {
+    throw ComputationError(fit.source, "the fit's covariance is not positive definite",
+                           "refit; a covariance that is not positive definite means the fit is not trustworthy");
+  }
+  const Eigen::MatrixXd l = llt.matrixL();
+  std::mt19937_64 rng(seed);
+  std::normal_distribution<double> z01;
+  std::vector<extremes::StillWaterModel> out;
+  int attempts = 0;
+  while (static_cast<int>(out.size()) < draws) {
+    if (++attempts > 100 * draws) {
+      throw ComputationError(fit.source, "parameter draws keep falling outside the parameter space",
+                             "the fit is too uncertain for a parameter range; use a longer record");
+    }
+    Eigen::VectorXd z(n);
+    for (Eigen::Index i = 0; i < n; ++i) z(i) = z01(rng);
+    const Eigen::VectorXd theta = mean + l * z;
+    extremes::StillWaterModel m = fit.model;
+    for (std::size_t i = 0; i < fit.parameter_names.size(); ++i) {
+      const auto& name = fit.parameter_names[i];
+      const double v = theta(static_cast<Eigen::Index>(i));
+      if (name == "location") m.location_m = v;
+      else if (name == "scale") m.scale_m = v;
+      else if (name == "shape") m.shape = v;
+    }
+    if (!(m.scale_m > 0.0) || m.shape <= -1.0) continue;
+    out.push_back(m);
+  }
+  return out;
+}
+
+std::vector<AllowanceRow> allowance_table(const PlanningInputs& in, const std::vector<int>& years,
+                                          const std::vector<double>& return_periods_yr, int draws,
+                                          unsigned long long seed) {
+  for (double t : return_periods_yr) {
+    if (!(t > 1.0)) {
+      throw InputError("--return-periods", "holds " + num(t, 3) + ", a return period of 1 year or less",
+                       "give return periods above 1 year");
+    }
+  }
+  const auto models = parameter_draws(in.fit, draws, seed);
+  std::vector<AllowanceRow> rows;
+  for (int y : years) {
+    const auto cond = planning::conditions_in_year(in.rise, y, in.storminess);
+    for (double t : return_periods_yr) {
+      AllowanceRow row;
+      row.allowance = planning::allowance(in.fit.model, cond, t);
+      if (!models.empty()) {
+        row.range = planning::range_over_parameters(
+            in.fit.model, models,
+            [&](const extremes::StillWaterModel& m) { return planning::allowance(m, cond, t).allowance_m; });
+      }
+      rows.push_back(std::move(row));
+    }
+  }
+  return rows;
+}
+
+nlohmann::ordered_json planning_context_json(const PlanningInputs& in) {
+  nlohmann::ordered_json j;
+  j["datum"] = in.fit.datum;
+  j["record_epoch"] = in.fit.reference_epoch ? nlohmann::ordered_json(*in.fit.reference_epoch) : nlohmann::ordered_json(nullptr);
+  j["projection_reference"] = in.rise.reference;
+  j["scenario"] = in.rise.scenario;
+  j["illustrative"] = in.rise.illustrative;
+  j["members"] = in.rise.member_count();
+  j["present_day_model"] = still_water_model_json(in.fit.model);
+  j["storminess"] = {{"location_m_per_yr", in.storminess.location_m_per_yr},
+                     {"scale_fraction_per_yr", in.storminess.scale_fraction_per_yr},
+                     {"reference_year", in.storminess.reference_year}};
+  j["notes"] = in.notes;
+  return j;
+}
+
+nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows) {
+  nlohmann::ordered_json j = planning_context_json(in);
+  nlohmann::ordered_json list = nlohmann::ordered_json::array();
+  for (const auto& r : rows) {
+    nlohmann::ordered_json a;
+    a["year"] = r.allowance.first_year;
+    a["return_period"] = r.allowance.return_period_yr;
+    a["present_level_m"] = r.allowance.present_level_m;
+    a["allowance_m"] = r.allowance.allowance_m;
+    a["design_level_m"] = r.allowance.present_level_m + r.allowance.allowance_m;
+    a["mean_rise_m"] = r.allowance.mean_rise_m;
+    a["sd_rise_m"] = r.allowance.sd_rise_m;
+    a["method"] = r.allowance.method;
+    if (r.range) {
+      a["parameter_range"] = {{"lower_m", r.range->lower}, {"upper_m", r.range->upper},
+                              {"coverage", r.range->coverage}, {"draws", r.range->draws_used},
+                              {"failed_draws", r.range->draws_failed}, {"label", r.range->label}};
+    }
+    list.push_back(a);
+  }
+  j["allowances"] = list;
+  j["cautions"] = report::safety_cautions();
+  return j;
+}
+
+}  // namespace tidewright::study

@@ -1,0 +1,225 @@
+#include "tidewright/study/projection_stage.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <sstream>
+
+#include "tidewright/climate/scenario.hpp"
+#include "tidewright/common/csv.hpp"
+#include "tidewright/common/error.hpp"
+#include "tidewright/local/quantile_table.hpp"
+#include "tidewright/record/peaks_over_threshold.hpp"
+#include "tidewright/report/cautions.hpp"
+
+namespace tidewright::study {
+namespace {
+
+struct Columns {
+  std::vector<int> years;
+  std::vector<std::vector<double>> values;  // one vector per requested column
+};
+
+// Reads a year column and named value columns; optional columns may be absent (empty vector).
+Columns read_year_columns(const std::filesystem::path& path, const std::vector<std::string>& required,
+                          const std::vector<std::string>& optional) {
+  const CsvTable t = CsvTable::read(path);
+  Columns out;
+  const std::size_t year_col = t.column("year");
+  std::vector<std::optional<std::size_t>> cols;
+  for (const auto& name : required) cols.emplace_back(t.column(name));
+  for (const auto& name : optional) cols.push_back(t.find_column(name));
+  out.values.resize(cols.size());
+  MissingValues none;
+  none.markers = {};
+  for (const auto& row : t.rows()) {
+    const auto y = t.number(row, year_col, none);
+    if (!y || *y != std::floor(*y)) {
+      throw InputError(t.where(row), "the year '" + row.cells[year_col] + "' is not a whole number",
+                       "give whole years");
+    }
+    out.years.push_back(static_cast<int>(*y));
+    for (std::size_t c = 0; c < cols.size(); ++c) {
+      if (!cols[c]) continue;
+      const auto v = t.number(row, *cols[c], none);
+      if (!v) throw InputError(t.where(row), "an empty value in column '" + t.header()[*cols[c]] + "'", "fill every year");
+      out.values[c].push_back(*v);
+    }
+  }
+  if (out.years.empty()) throw InputError(path.string(), "has no rows", "give one row per year");
+  for (std::size_t i = 1; i < out.years.size(); ++i) {
+    if (out.years[i] <= out.years[i - 1]) {
+      throw InputError(t.where(t.rows()[i]), "year " + std::to_string(out.years[i]) + " does not follow " +
+                                                 std::to_string(out.years[i - 1]),
+                       "sort the years ascending without repeats");
+    }
+    if (out.years[i] != out.years[i - 1] + 1) {
+      throw InputError(t.where(t.rows()[i]), "years jump from " + std::to_string(out.years[i - 1]) + " to " +
+                                                 std::to_string(out.years[i]),
+                       "give every year (annual steps, no gaps)");
+    }
+  }
+  return out;
+}
+
+climate::Scenario load_scenario(const ProjectionRequest& r, const std::string& label) {
+  const std::string where = r.path.string();
+  switch (r.source) {
+    case ScenarioSource::pathway: {
+      auto s = climate::builtin_pathway(r.pathway, std::max(2100, r.last_year));
+      if (!r.label.empty()) s.label = r.label;
+      return s;
+    }
+    case ScenarioSource::forcing_csv: {
+      auto c = read_year_columns(r.path, {"forcing_w_m2"}, {});
+      return climate::forcing_scenario(label, c.years, c.values[0], where);
+    }
+    case ScenarioSource::co2_csv: {
+      auto c = read_year_columns(r.path, {"co2_ppm"}, {"non_co2_forcing_w_m2"});
+      return climate::co2_scenario(label, c.years, c.values[0], c.values[1], r.co2_formula, where);
+    }
+    case ScenarioSource::temperature_csv: {
+      auto c = read_year_columns(r.path, {"warming_k"}, {});
+      return climate::surface_warming_scenario(label, c.years, c.values[0], where);
+    }
+    case ScenarioSource::table: break;
+  }
+  throw InputError(where, "is not a scenario file", "use a pathway, forcing, CO2 or warming CSV");
+}
+
+std::string p_key(double p) {
+  char buf[8];
+  std::snprintf(buf, sizeof buf, "p%02d", static_cast<int>(std::lround(p * 100)));
+  return buf;
+}
+
+nlohmann::ordered_json quantile_block(const Eigen::MatrixXd& m, const std::vector<double>& ps) {
+  nlohmann::ordered_json j;
+  for (double p : ps) j[p_key(p)] = year_quantiles(m, p);
+  return j;
+}
+
+}  // namespace
+
+std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p) {
+  std::vector<double> out;
+  out.reserve(static_cast<std::size_t>(members_by_year.cols()));
+  std::vector<double> column(static_cast<std::size_t>(members_by_year.rows()));
+  for (Eigen::Index c = 0; c < members_by_year.cols(); ++c) {
+    for (Eigen::Index r = 0; r < members_by_year.rows(); ++r) column[static_cast<std::size_t>(r)] = members_by_year(r, c);
+    out.push_back(record::sample_quantile(column, p));
+  }
+  return out;
+}
+
+ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
+  if (r.members <= 0) {
+    throw InputError("--samples", "is " + std::to_string(r.members) + ", not a positive count",
+                     "give the number of Monte Carlo members, e.g. 2000");
+  }
+  if (r.last_year <= r.first_year) {
+    throw InputError("--years", "the last year is not after the first", "give a span such as 2020-2150");
+  }
+  ProjectionStageResult out;
+  const std::string label = !r.label.empty() ? r.label
+                            : r.source == ScenarioSource::pathway ? r.pathway
+                                                                  : r.path.stem().string();
+  if (r.source == ScenarioSource::table) {
+    if (r.local_terms_given) {
+      throw InputError(r.path.string(),
+                       "a published projection table is taken as local relative rise; fingerprints, land motion "
+                       "and ocean-dynamic terms apply only to a physics projection",
+                       "drop the local options, or use a scenario instead of a table");
+    }
+    auto table = local::read_quantile_table(r.path);
+    if (table.reference.empty()) table.reference = "as published in " + r.path.filename().string();
+    local::TableSampling sampling;
+    sampling.members = r.members;
+    sampling.seed = r.seed;
+    for (int y = r.first_year; y <= r.last_year; ++y) {
+      if (y >= table.years.front() && y <= table.years.back()) sampling.years.push_back(y);
+    }
+    if (sampling.years.empty()) {
+      throw InputError(r.path.string(), "covers none of the years asked for", "ask for years inside the table");
+    }
+    out.local.total = local::sample_quantile_table(table, sampling);
+    out.local.total.scenario = label;
+    out.local.component_names = {};
+    out.cautions.push_back("rise sampled from the published quantiles of " + r.path.filename().string() +
+                           " (tails beyond the outer quantiles extrapolated; see docs/methods-local.md)");
+    return out;
+  }
+  const climate::Scenario scenario = load_scenario(r, label);
+  climate::ProjectionOptions options;
+  options.first_year = r.first_year;
+  options.last_year = r.last_year;
+  options.member_count = r.members;
+  options.seed = r.seed;
+  options.reference = r.reference;
+  climate::validate(scenario, options);
+  out.global = climate::project_global_components(scenario, options);
+  local::LocalTerms terms = r.local;
+  terms.seed = r.seed;
+  out.local = local::local_relative_rise(*out.global, terms);
+  out.cautions = out.local.cautions;
+  if (scenario.illustrative) {
+    out.cautions.insert(out.cautions.begin(),
+                        "scenario '" + scenario.label + "' is a built-in illustrative pathway, not official scenario data");
+  }
+  return out;
+}
+
+nlohmann::ordered_json projection_json(const ProjectionStageResult& r) {
+  const auto& total = r.local.total;
+  nlohmann::ordered_json j;
+  j["scenario"] = total.scenario;
+  j["illustrative"] = total.illustrative;
+  j["reference"] = total.reference;
+  j["members"] = total.member_count();
+  if (r.global) j["seed"] = r.global->seed;
+  j["years"] = total.years;
+  j["units"] = "m";
+  j["total"] = quantile_block(total.rise_m, summary_probabilities);
+  nlohmann::ordered_json comps = nlohmann::ordered_json::object();
+  for (std::size_t c = 0; c < r.local.component_names.size(); ++c) {
+    comps[r.local.component_names[c]] = quantile_block(r.local.contribution_m[c], {0.05, 0.5, 0.95});
+  }
+  j["components"] = comps;
+  if (!r.local.fingerprint_used.empty()) j["fingerprints"] = r.local.fingerprint_used;
+  if (r.global) {
+    j["global_surface_temperature_K"] = quantile_block(r.global->surface_warming_k, {0.05, 0.5, 0.95});
+    j["ocean_heat_content_change_YJ"] = quantile_block(r.global->ocean_heat_content_change_yj, {0.05, 0.5, 0.95});
+    j["global_mean_total"] = quantile_block(r.global->total_m(), {0.05, 0.17, 0.5, 0.83, 0.95});
+  }
+  j["notes"] = r.cautions;
+  j["cautions"] = report::safety_cautions();
+  return j;
+}
+
+std::string projection_csv(const ProjectionStageResult& r) {
+  const auto& total = r.local.total;
+  std::vector<std::vector<double>> cols;
+  std::ostringstream o;
+  o << "year";
+  for (double p : summary_probabilities) {
+    o << ",total_" << p_key(p) << "_m";
+    cols.push_back(year_quantiles(total.rise_m, p));
+  }
+  for (std::size_t c = 0; c < r.local.component_names.size(); ++c) {
+    o << ',' << r.local.component_names[c] << "_p50_m";
+    cols.push_back(year_quantiles(r.local.contribution_m[c], 0.5));
+  }
+  o << '\n';
+  for (std::size_t y = 0; y < total.years.size(); ++y) {
+    o << total.years[y];
+    for (const auto& col : cols) {
+      char buf[32];
+      std::snprintf(buf, sizeof buf, ",%.4f", col[y]);
+      o << buf;
+    }
+    o << '\n';
+  }
+  return o.str();
+}
+
+}  // namespace tidewright::study
