@@ -1,8 +1,9 @@
 #!/usr/bin/python3
 """Peer for tests/benchmarks/terrain_bench.cpp: the flood threshold of the same DEM by
 scikit-image's morphological reconstruction by erosion, seeded from the sea (the DEM's edge
-cells at or below 0 m), 8-connectivity. Prints the seconds spent in reconstruction alone
-(reading the file is excluded) and a checksum of the result.
+cells at or below 0 m), 8-connectivity. Prints the CPU seconds and the wall-clock seconds spent
+in reconstruction alone (reading the file is excluded; the machine is shared, so CPU time is
+the fairer figure) and a checksum of the result.
 
 usage: terrain_peer_reconstruction.py DEM.tif
 """
@@ -27,7 +28,9 @@ mask = z.copy()
 mask[sea] = low
 marker = np.full(z.shape, z.max() + 1.0)
 marker[sea] = low
-start = time.perf_counter()
+start_cpu = time.process_time()
+start_wall = time.perf_counter()
 filled = reconstruction(marker, mask, method="erosion", footprint=np.ones((3, 3)))
-seconds = time.perf_counter() - start
-print(f"{seconds:.6f} {float(filled[~sea].sum()):.6e}")
+cpu = time.process_time() - start_cpu
+wall = time.perf_counter() - start_wall
+print(f"{cpu:.6f} {wall:.6f} {float(filled[~sea].sum()):.6e}")
