@@ -390,3 +390,32 @@ TEST(TerrainMap, BadInputLeavesNoOutput) {
   for ([[maybe_unused]] const auto& e : std::filesystem::directory_iterator(tmp.path())) ++entries;
   EXPECT_EQ(entries, 1U);  // the DEM only
 }
+
+TEST(TerrainMap, GeographicDemAreasAreGeodesic) {
+  // 3 x 2 cells of 0.01 degree at 50.02..50.00 N in WGS 84; sea in column 0, land at 0 m in
+  // columns 1-2, level 0.5 m: the flooded area is two cells of each row, whose areas follow the
+  // ellipsoidal zone formula (Snyder 1987, USGS PP 1395, eq. 3-12; see the areas test above).
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 3, 2, {10.0, 0.01, 0.0, 50.02, 0.0, -0.01}, 4326, {-1, 0, 0, -1, 0, 0});
+  tw::MapRequest req;
+  req.dem = same_datum(dem_path);
+  req.sea.edge_at_or_below_m = -0.5;
+  req.levels = {{0.5, {}, ""}};
+  req.out_dir = tmp / "out";
+  const auto s = tw::make_flood_maps(req);
+  const double a = 6378137.0;
+  const double f = 1.0 / 298.257223563;
+  const double e2 = f * (2.0 - f);
+  const double e = std::sqrt(e2);
+  const auto q = [&](double phi_deg) {
+    const double sn = std::sin(phi_deg * M_PI / 180.0);
+    return (1.0 - e2) * (sn / (1.0 - e2 * sn * sn) - std::log((1.0 - e * sn) / (1.0 + e * sn)) / (2.0 * e));
+  };
+  const double dlon = 0.01 * M_PI / 180.0;
+  const double want = 2.0 * a * a / 2.0 * (q(50.02) - q(50.0)) * dlon;
+  ASSERT_EQ(s.levels.size(), 1U);
+  EXPECT_EQ(s.levels[0].connected_cells, 4U);
+  EXPECT_NEAR(s.levels[0].flooded_area_m2 / want, 1.0, 1e-9);
+  EXPECT_NE(s.area_method.find("geodesic"), std::string::npos);
+}
