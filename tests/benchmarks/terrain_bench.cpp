@@ -6,7 +6,8 @@
 // The DEM: TIDEWRIGHT_BENCH_DEM_SIZE x the same cells (default 4000), float32, 10 m cells in
 // UTM 33N, seeded multi-octave value noise (6 octaves, amplitude halving; chosen here) on a
 // seaward slope from -8 m to +12 m; sea = edge cells at or below 0 m.
-// Run: build/ci/tidewright_bench --benchmark_filter=Terrain (figures: docs/performance.md).
+// Run: build/ci/tidewright_bench --benchmark_filter=Terrain (figures: docs/performance.md);
+// TIDEWRIGHT_BENCH_KEEP_DEM=FILE keeps the DEM for timing the command line on it.
 #include <benchmark/benchmark.h>
 #include <gdal_priv.h>
 #include <ogr_spatialref.h>
@@ -48,6 +49,11 @@ struct FolderRemover {
   FolderRemover& operator=(const FolderRemover&) = delete;
   ~FolderRemover() {
     std::error_code ec;
+    // TIDEWRIGHT_BENCH_KEEP_DEM=FILE keeps a copy of the DEM, to time the CLI on it.
+    if (const char* keep = std::getenv("TIDEWRIGHT_BENCH_KEEP_DEM"); keep != nullptr && !folder.empty()) {
+      std::filesystem::copy_file(folder / "dem.tif", keep,
+                                 std::filesystem::copy_options::overwrite_existing, ec);
+    }
     if (!folder.empty()) std::filesystem::remove_all(folder, ec);
   }
 };
