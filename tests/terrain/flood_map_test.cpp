@@ -42,6 +42,23 @@ std::string input_error(F&& f) {
   return "";
 }
 
+// Area (m^2) of the WGS 84 cell between the parallels phi1 < phi2 and meridians dlon degrees
+// apart: (a^2 / 2) (q(phi2) - q(phi1)) dlon, with q(phi) = (1 - e^2) [sin phi / (1 - e^2 sin^2
+// phi) - 1/(2e) ln((1 - e sin phi) / (1 + e sin phi))] (Snyder 1987, "Map Projections: A Working
+// Manual", USGS PP 1395, eq. 3-12). WGS 84: a = 6378137 m, 1/f = 298.257223563 (EPSG:7030).
+constexpr double wgs84_a_m = 6378137.0;
+constexpr double wgs84_inv_f = 298.257223563;
+double zone_area_m2(double phi1_deg, double phi2_deg, double dlon_deg) {
+  const double f = 1.0 / wgs84_inv_f;
+  const double e2 = f * (2.0 - f);
+  const double e = std::sqrt(e2);
+  const auto q = [&](double phi_deg) {
+    const double s = std::sin(phi_deg * M_PI / 180.0);
+    return (1.0 - e2) * (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
+  };
+  return wgs84_a_m * wgs84_a_m / 2.0 * (q(phi2_deg) - q(phi1_deg)) * (dlon_deg * M_PI / 180.0);
+}
+
 }  // namespace
 
 TEST(TerrainDem, KeepsNegativeElevationsAndOnlyDeclaredNodata) {
@@ -273,19 +290,7 @@ TEST(TerrainDefences, CrestAttributeMustExistAndBeSet) {
 }
 
 TEST(TerrainAreas, GeographicCellsMatchTheEllipsoidalZoneFormula) {
-  // Area of the cell between parallels phi1, phi2 and meridians 1 degree x dlon apart on an
-  // ellipsoid: (a^2 / 2) (q(phi2) - q(phi1)) dlon, with q(phi) = (1 - e^2) [sin phi / (1 -
-  // e^2 sin^2 phi) - 1/(2e) ln((1 - e sin phi) / (1 + e sin phi))] (Snyder 1987, "Map
-  // Projections: A Working Manual", USGS PP 1395, eq. 3-12). WGS 84: a = 6378137 m,
-  // 1/f = 298.257223563 (EPSG:7030).
-  const double a = 6378137.0;
-  const double f = 1.0 / 298.257223563;
-  const double e2 = f * (2.0 - f);
-  const double e = std::sqrt(e2);
-  const auto q = [&](double phi_deg) {
-    const double s = std::sin(phi_deg * M_PI / 180.0);
-    return (1.0 - e2) * (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
-  };
+  // PROJ's geodesic area of the densified cell outline against the closed form (zone_area_m2).
   tw::GeoGrid grid;
   grid.shape = {3, 4};
   grid.geotransform = {10.0, 0.01, 0.0, 50.04, 0.0, -0.01};
@@ -299,12 +304,12 @@ TEST(TerrainAreas, GeographicCellsMatchTheEllipsoidalZoneFormula) {
   ASSERT_TRUE(areas.geodesic);
   for (std::size_t r = 0; r < 4; ++r) {
     const double top = 50.04 - 0.01 * static_cast<double>(r);
-    const double want = a * a / 2.0 * (q(top) - q(top - 0.01)) * (0.01 * M_PI / 180.0);
+    const double want = zone_area_m2(top - 0.01, top, 0.01);
     EXPECT_NEAR(areas.row_area_m2[r] / want, 1.0, 1e-9) << "row " << r << " area " << want;
   }
   // A one-degree cell, the header's stated limit.
-  const double one = tw::geodesic_cell_area_m2(0.0, 1.0, 50.0, 51.0, a, 1.0 / f);
-  EXPECT_NEAR(one / (a * a / 2.0 * (q(51.0) - q(50.0)) * (M_PI / 180.0)), 1.0, 1e-9);
+  const double one = tw::geodesic_cell_area_m2(0.0, 1.0, 50.0, 51.0, wgs84_a_m, wgs84_inv_f);
+  EXPECT_NEAR(one / zone_area_m2(50.0, 51.0, 1.0), 1.0, 1e-9);
 }
 
 TEST(TerrainAreas, ProjectedCellsArePlanar) {
@@ -394,7 +399,7 @@ TEST(TerrainMap, BadInputLeavesNoOutput) {
 TEST(TerrainMap, GeographicDemAreasAreGeodesic) {
   // 3 x 2 cells of 0.01 degree at 50.02..50.00 N in WGS 84; sea in column 0, land at 0 m in
   // columns 1-2, level 0.5 m: the flooded area is two cells of each row, whose areas follow the
-  // ellipsoidal zone formula (Snyder 1987, USGS PP 1395, eq. 3-12; see the areas test above).
+  // ellipsoidal zone formula (zone_area_m2, Snyder 1987 eq. 3-12).
   TempDir tmp;
   const auto dem_path = (tmp / "dem.tif").string();
   write_raster(dem_path, 3, 2, {10.0, 0.01, 0.0, 50.02, 0.0, -0.01}, 4326, {-1, 0, 0, -1, 0, 0});
@@ -404,16 +409,7 @@ TEST(TerrainMap, GeographicDemAreasAreGeodesic) {
   req.levels = {{0.5, {}, ""}};
   req.out_dir = tmp / "out";
   const auto s = tw::make_flood_maps(req);
-  const double a = 6378137.0;
-  const double f = 1.0 / 298.257223563;
-  const double e2 = f * (2.0 - f);
-  const double e = std::sqrt(e2);
-  const auto q = [&](double phi_deg) {
-    const double sn = std::sin(phi_deg * M_PI / 180.0);
-    return (1.0 - e2) * (sn / (1.0 - e2 * sn * sn) - std::log((1.0 - e * sn) / (1.0 + e * sn)) / (2.0 * e));
-  };
-  const double dlon = 0.01 * M_PI / 180.0;
-  const double want = 2.0 * a * a / 2.0 * (q(50.02) - q(50.0)) * dlon;
+  const double want = 2.0 * zone_area_m2(50.0, 50.02, 0.01);
   ASSERT_EQ(s.levels.size(), 1U);
   EXPECT_EQ(s.levels[0].connected_cells, 4U);
   EXPECT_NEAR(s.levels[0].flooded_area_m2 / want, 1.0, 1e-9);
