@@ -31,6 +31,7 @@ std::vector<float> resample_to_grid(const std::string& path, const GeoGrid& grid
   // (GDAL's default approximates it to 1/8 pixel).
   std::vector<std::string> args{"-r", resampling, "-et", "0", "-wo", "INIT_DEST=NO_DATA"};
   std::vector<char*> argv;
+  argv.reserve(args.size() + 1);
   for (auto& a : args) argv.push_back(a.data());
   argv.push_back(nullptr);
   GDALWarpAppOptions* options = GDALWarpAppOptionsNew(argv.data(), nullptr);

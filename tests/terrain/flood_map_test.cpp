@@ -415,3 +415,52 @@ TEST(TerrainMap, GeographicDemAreasAreGeodesic) {
   EXPECT_NEAR(s.levels[0].flooded_area_m2 / want, 1.0, 1e-9);
   EXPECT_NE(s.area_method.find("geodesic"), std::string::npos);
 }
+
+TEST(TerrainSea, RasterMaskNonZeroCellsAreSea) {
+  // A byte mask on the DEM's grid with 1 in column 0 and 0 elsewhere, and a second mask in
+  // WGS 84 that misses the DEM entirely (nearest resampling leaves it all nodata).
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 3, 2, utm_10m, 32633, {0, 1, 2, 0, 1, 2});
+  const auto mask_path = (tmp / "mask.tif").string();
+  write_raster(mask_path, 3, 2, utm_10m, 32633, {1, 0, 0, 1, 0, 0}, {}, GDT_Byte);
+  const auto dem = tw::read_dem(same_datum(dem_path));
+  tw::SeaSource src;
+  src.mask_path = mask_path;
+  const auto sea = tw::find_sea_cells(dem, src, tw::Connectivity::four);
+  EXPECT_EQ(sea.is_sea, (std::vector<std::uint8_t>{1, 0, 0, 1, 0, 0}));
+  const auto far_path = (tmp / "far.tif").string();
+  write_raster(far_path, 2, 2, {100.0, 0.1, 0.0, -10.0, 0.0, -0.1}, 4326, {1, 1, 1, 1}, 0.0, GDT_Byte);
+  src.mask_path = far_path;
+  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); })
+                .find("covers no cell of the DEM"),
+            std::string::npos);
+}
+
+TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
+  // --cog: GDAL's COG driver marks its files LAYOUT=COG; ZSTD shows as the compression.
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 4, 3, utm_10m, 32633, {0, 1, 2, 3, 0, 1, 2, 3, 0, 1, 2, 3});
+  tw::MapRequest req;
+  req.dem = same_datum(dem_path);
+  req.sea.edge_at_or_below_m = 0.0;
+  req.levels = {{1.5, {}, ""}};
+  req.format = {tw::Compression::zstd, true};
+  req.out_dir = tmp / "out";
+  (void)tw::make_flood_maps(req);
+  for (const char* f : {"threshold.tif", "extent.tif", "depth.tif"}) {
+    GDALDatasetUniquePtr ds(GDALDataset::Open((tmp / "out" / f).c_str(), GDAL_OF_RASTER));
+    ASSERT_TRUE(ds) << f;
+    const char* layout = ds->GetMetadataItem("LAYOUT", "IMAGE_STRUCTURE");
+    const char* compression = ds->GetMetadataItem("COMPRESSION", "IMAGE_STRUCTURE");
+    EXPECT_STREQ(layout, "COG") << f;
+    EXPECT_STREQ(compression, "ZSTD") << f;
+    EXPECT_NE(std::string(ds->GetMetadataItem("TIDEWRIGHT_METHOD")).find("Barnes"), std::string::npos);
+  }
+  std::size_t side_files = 0;
+  for (const auto& e : std::filesystem::directory_iterator(tmp / "out")) {
+    side_files += e.path().string().find(".tiled.tif") != std::string::npos;
+  }
+  EXPECT_EQ(side_files, 0U);
+}
