@@ -3,6 +3,7 @@
 
 #include <gdal_utils.h>
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 
@@ -30,6 +31,7 @@ std::vector<float> resample_to_grid(const std::string& path, const GeoGrid& grid
   // (GDAL's default approximates it to 1/8 pixel).
   std::vector<std::string> args{"-r", resampling, "-et", "0", "-wo", "INIT_DEST=NO_DATA"};
   std::vector<char*> argv;
+  argv.reserve(args.size() + 1);
   for (auto& a : args) argv.push_back(a.data());
   argv.push_back(nullptr);
   GDALWarpAppOptions* options = GDALWarpAppOptionsNew(argv.data(), nullptr);
@@ -104,11 +106,20 @@ Dem read_dem(const DemSource& source) {
   GDALRasterBand* band = ds->GetRasterBand(source.band);
   const std::size_t n = dem.grid.shape.cells();
   dem.elevation_m.resize(n);
-  if (band->RasterIO(GF_Read, 0, 0, ds->GetRasterXSize(), ds->GetRasterYSize(),
-                     dem.elevation_m.data(), ds->GetRasterXSize(), ds->GetRasterYSize(),
-                     GDT_Float32, 0, 0, nullptr) != CE_None) {
-    throw InputError(source.path, "reading the DEM failed (" + gdal::last_error() + ")",
-                     "check the file with gdalinfo -checksum");
+  // Read a block of rows at a time and drop GDAL's cached copy of it, so reading does not hold
+  // the DEM twice (our grid plus GDAL's block cache).
+  const int cols = ds->GetRasterXSize();
+  const int rows = ds->GetRasterYSize();
+  constexpr int rows_per_read = 256;
+  for (int r0 = 0; r0 < rows; r0 += rows_per_read) {
+    const int h = std::min(rows_per_read, rows - r0);
+    float* dest = dem.elevation_m.data() + static_cast<std::size_t>(r0) * static_cast<std::size_t>(cols);
+    if (band->RasterIO(GF_Read, 0, r0, cols, h, dest, cols, h, GDT_Float32, 0, 0, nullptr) !=
+        CE_None) {
+      throw InputError(source.path, "reading the DEM failed (" + gdal::last_error() + ")",
+                       "check the file with gdalinfo -checksum");
+    }
+    band->FlushCache(false);
   }
   int has_nodata = 0;
   const double file_nodata = band->GetNoDataValue(&has_nodata);

@@ -89,7 +89,7 @@ float AepLookup::operator()(float threshold_m) const noexcept {
   return static_cast<float>(-std::expm1(-rate_per_yr(static_cast<double>(threshold_m))));
 }
 
-FirstPassingYear::FirstPassingYear(std::vector<YearlyRate> years, double aep, double lowest_m,
+FirstPassingYear::FirstPassingYear(const std::vector<YearlyRate>& years, double aep, double lowest_m,
                                    double highest_m) {
   check_range(lowest_m, highest_m, "first-year raster");
   if (!(aep > 0.0 && aep < 1.0)) {

@@ -88,6 +88,9 @@ void GeoTiffWriter::write_rows(std::size_t band, std::size_t first_row, std::siz
     throw InputError(impl_->path.string(), "writing failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
+  // A block of rows completes one row of tiles of this band: write it out now rather than let
+  // GDAL's block cache (5% of RAM by default) fill with every band's tiles.
+  b->FlushCache(false);
 }
 
 void GeoTiffWriter::finish() {

@@ -3,7 +3,9 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <cmath>
 #include <filesystem>
+#include <fstream>
 
 #include "support/run_cli.hpp"
 #include "terrain/terrain_fixtures.hpp"
@@ -158,4 +160,43 @@ TEST(MapCommand, BadInputsAreOneLineExitTwoAndLeaveNothing) {
                      "more than one datum relation", out);
   expect_input_error(run_cli(good + " --sea-edge-below 0 --rise 2050=0.3" + tail),
                      "needs a present-day still-water model", out);
+}
+
+TEST(MapCommand, ModelJsonGivesTheSameAepAsTheOptions) {
+  // The JSON form of the interim present-day model (docs/map.md) against --gumbel with the
+  // same parameters: band 1 of aep.tif must agree cell for cell; a bad family is refused.
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const auto json = tmp / "model.json";
+  {
+    std::ofstream out(json);
+    out << R"({"family": "gumbel", "location_m": 1.0, "scale_m": 0.5})";
+  }
+  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --quiet";
+  ASSERT_EQ(run_cli(base + " --model-json " + shell_quote(json.string()) + " --out " +
+                    shell_quote((tmp / "a").string()))
+                .exit_code,
+            0);
+  ASSERT_EQ(run_cli(base + " --gumbel 1.0,0.5 --out " + shell_quote((tmp / "b").string())).exit_code, 0);
+  const auto band = [](const std::filesystem::path& p) {
+    GDALDatasetUniquePtr ds(GDALDataset::Open(p.c_str(), GDAL_OF_RASTER));
+    std::vector<float> v(15);
+    if (!ds || ds->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, v.data(), 5, 3, GDT_Float32, 0, 0,
+                                              nullptr) != CE_None) {
+      v.clear();
+    }
+    return v;
+  };
+  const auto a = band(tmp / "a" / "aep.tif");
+  const auto b = band(tmp / "b" / "aep.tif");
+  ASSERT_EQ(a.size(), 15U);
+  for (std::size_t i = 1; i < 5; ++i) EXPECT_EQ(a[i], b[i]) << i;
+  EXPECT_NEAR(a[1], -std::expm1(-std::exp(-(0.5 - 1.0) / 0.5)), 1e-6);  // beach, T = 0.5 m
+  {
+    std::ofstream out(json);
+    out << R"({"family": "weibull", "scale_m": 0.5})";
+  }
+  expect_input_error(run_cli(base + " --model-json " + shell_quote(json.string()) + " --out " +
+                             shell_quote((tmp / "c").string())),
+                     "is not gumbel, gev or gpd", tmp / "c");
 }

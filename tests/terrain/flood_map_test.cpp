@@ -42,6 +42,23 @@ std::string input_error(F&& f) {
   return "";
 }
 
+// Area (m^2) of the WGS 84 cell between the parallels phi1 < phi2 and meridians dlon degrees
+// apart: (a^2 / 2) (q(phi2) - q(phi1)) dlon, with q(phi) = (1 - e^2) [sin phi / (1 - e^2 sin^2
+// phi) - 1/(2e) ln((1 - e sin phi) / (1 + e sin phi))] (Snyder 1987, "Map Projections: A Working
+// Manual", USGS PP 1395, eq. 3-12). WGS 84: a = 6378137 m, 1/f = 298.257223563 (EPSG:7030).
+constexpr double wgs84_a_m = 6378137.0;
+constexpr double wgs84_inv_f = 298.257223563;
+double zone_area_m2(double phi1_deg, double phi2_deg, double dlon_deg) {
+  const double f = 1.0 / wgs84_inv_f;
+  const double e2 = f * (2.0 - f);
+  const double e = std::sqrt(e2);
+  const auto q = [&](double phi_deg) {
+    const double s = std::sin(phi_deg * M_PI / 180.0);
+    return (1.0 - e2) * (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
+  };
+  return wgs84_a_m * wgs84_a_m / 2.0 * (q(phi2_deg) - q(phi1_deg)) * (dlon_deg * M_PI / 180.0);
+}
+
 }  // namespace
 
 TEST(TerrainDem, KeepsNegativeElevationsAndOnlyDeclaredNodata) {
@@ -273,19 +290,7 @@ TEST(TerrainDefences, CrestAttributeMustExistAndBeSet) {
 }
 
 TEST(TerrainAreas, GeographicCellsMatchTheEllipsoidalZoneFormula) {
-  // Area of the cell between parallels phi1, phi2 and meridians 1 degree x dlon apart on an
-  // ellipsoid: (a^2 / 2) (q(phi2) - q(phi1)) dlon, with q(phi) = (1 - e^2) [sin phi / (1 -
-  // e^2 sin^2 phi) - 1/(2e) ln((1 - e sin phi) / (1 + e sin phi))] (Snyder 1987, "Map
-  // Projections: A Working Manual", USGS PP 1395, eq. 3-12). WGS 84: a = 6378137 m,
-  // 1/f = 298.257223563 (EPSG:7030).
-  const double a = 6378137.0;
-  const double f = 1.0 / 298.257223563;
-  const double e2 = f * (2.0 - f);
-  const double e = std::sqrt(e2);
-  const auto q = [&](double phi_deg) {
-    const double s = std::sin(phi_deg * M_PI / 180.0);
-    return (1.0 - e2) * (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
-  };
+  // PROJ's geodesic area of the densified cell outline against the closed form (zone_area_m2).
   tw::GeoGrid grid;
   grid.shape = {3, 4};
   grid.geotransform = {10.0, 0.01, 0.0, 50.04, 0.0, -0.01};
@@ -299,12 +304,12 @@ TEST(TerrainAreas, GeographicCellsMatchTheEllipsoidalZoneFormula) {
   ASSERT_TRUE(areas.geodesic);
   for (std::size_t r = 0; r < 4; ++r) {
     const double top = 50.04 - 0.01 * static_cast<double>(r);
-    const double want = a * a / 2.0 * (q(top) - q(top - 0.01)) * (0.01 * M_PI / 180.0);
+    const double want = zone_area_m2(top - 0.01, top, 0.01);
     EXPECT_NEAR(areas.row_area_m2[r] / want, 1.0, 1e-9) << "row " << r << " area " << want;
   }
   // A one-degree cell, the header's stated limit.
-  const double one = tw::geodesic_cell_area_m2(0.0, 1.0, 50.0, 51.0, a, 1.0 / f);
-  EXPECT_NEAR(one / (a * a / 2.0 * (q(51.0) - q(50.0)) * (M_PI / 180.0)), 1.0, 1e-9);
+  const double one = tw::geodesic_cell_area_m2(0.0, 1.0, 50.0, 51.0, wgs84_a_m, wgs84_inv_f);
+  EXPECT_NEAR(one / zone_area_m2(50.0, 51.0, 1.0), 1.0, 1e-9);
 }
 
 TEST(TerrainAreas, ProjectedCellsArePlanar) {
@@ -389,4 +394,73 @@ TEST(TerrainMap, BadInputLeavesNoOutput) {
   std::size_t entries = 0;
   for ([[maybe_unused]] const auto& e : std::filesystem::directory_iterator(tmp.path())) ++entries;
   EXPECT_EQ(entries, 1U);  // the DEM only
+}
+
+TEST(TerrainMap, GeographicDemAreasAreGeodesic) {
+  // 3 x 2 cells of 0.01 degree at 50.02..50.00 N in WGS 84; sea in column 0, land at 0 m in
+  // columns 1-2, level 0.5 m: the flooded area is two cells of each row, whose areas follow the
+  // ellipsoidal zone formula (zone_area_m2, Snyder 1987 eq. 3-12).
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 3, 2, {10.0, 0.01, 0.0, 50.02, 0.0, -0.01}, 4326, {-1, 0, 0, -1, 0, 0});
+  tw::MapRequest req;
+  req.dem = same_datum(dem_path);
+  req.sea.edge_at_or_below_m = -0.5;
+  req.levels = {{0.5, {}, ""}};
+  req.out_dir = tmp / "out";
+  const auto s = tw::make_flood_maps(req);
+  const double want = 2.0 * zone_area_m2(50.0, 50.02, 0.01);
+  ASSERT_EQ(s.levels.size(), 1U);
+  EXPECT_EQ(s.levels[0].connected_cells, 4U);
+  EXPECT_NEAR(s.levels[0].flooded_area_m2 / want, 1.0, 1e-9);
+  EXPECT_NE(s.area_method.find("geodesic"), std::string::npos);
+}
+
+TEST(TerrainSea, RasterMaskNonZeroCellsAreSea) {
+  // A byte mask on the DEM's grid with 1 in column 0 and 0 elsewhere, and a second mask in
+  // WGS 84 that misses the DEM entirely (nearest resampling leaves it all nodata).
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 3, 2, utm_10m, 32633, {0, 1, 2, 0, 1, 2});
+  const auto mask_path = (tmp / "mask.tif").string();
+  write_raster(mask_path, 3, 2, utm_10m, 32633, {1, 0, 0, 1, 0, 0}, {}, GDT_Byte);
+  const auto dem = tw::read_dem(same_datum(dem_path));
+  tw::SeaSource src;
+  src.mask_path = mask_path;
+  const auto sea = tw::find_sea_cells(dem, src, tw::Connectivity::four);
+  EXPECT_EQ(sea.is_sea, (std::vector<std::uint8_t>{1, 0, 0, 1, 0, 0}));
+  const auto far_path = (tmp / "far.tif").string();
+  write_raster(far_path, 2, 2, {100.0, 0.1, 0.0, -10.0, 0.0, -0.1}, 4326, {1, 1, 1, 1}, 0.0, GDT_Byte);
+  src.mask_path = far_path;
+  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); })
+                .find("covers no cell of the DEM"),
+            std::string::npos);
+}
+
+TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
+  // --cog: GDAL's COG driver marks its files LAYOUT=COG; ZSTD shows as the compression.
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 4, 3, utm_10m, 32633, {0, 1, 2, 3, 0, 1, 2, 3, 0, 1, 2, 3});
+  tw::MapRequest req;
+  req.dem = same_datum(dem_path);
+  req.sea.edge_at_or_below_m = 0.0;
+  req.levels = {{1.5, {}, ""}};
+  req.format = {tw::Compression::zstd, true};
+  req.out_dir = tmp / "out";
+  (void)tw::make_flood_maps(req);
+  for (const char* f : {"threshold.tif", "extent.tif", "depth.tif"}) {
+    GDALDatasetUniquePtr ds(GDALDataset::Open((tmp / "out" / f).c_str(), GDAL_OF_RASTER));
+    ASSERT_TRUE(ds) << f;
+    const char* layout = ds->GetMetadataItem("LAYOUT", "IMAGE_STRUCTURE");
+    const char* compression = ds->GetMetadataItem("COMPRESSION", "IMAGE_STRUCTURE");
+    EXPECT_STREQ(layout, "COG") << f;
+    EXPECT_STREQ(compression, "ZSTD") << f;
+    EXPECT_NE(std::string(ds->GetMetadataItem("TIDEWRIGHT_METHOD")).find("Barnes"), std::string::npos);
+  }
+  std::size_t side_files = 0;
+  for (const auto& e : std::filesystem::directory_iterator(tmp / "out")) {
+    side_files += e.path().string().find(".tiled.tif") != std::string::npos;
+  }
+  EXPECT_EQ(side_files, 0U);
 }

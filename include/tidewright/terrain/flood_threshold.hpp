@@ -15,9 +15,9 @@
 //   - a sea cell has T = -inf: it is water at every level, whatever the DEM says there;
 //   - a nodata cell (NaN elevation) that is not sea is a barrier and has T = NaN;
 //   - a valid cell that no path of valid cells joins to the sea has T = +inf.
-// Memory: the caller's elevation (4 bytes/cell) + the threshold (4 bytes/cell) + one state
-// byte per cell + the priority queue (16 bytes per queued cell, at most the number of cells
-// on the flood front) + the FIFO (4 bytes per queued cell).
+// Memory: the caller's elevation (4 bytes/cell) + the padded threshold (4 bytes/cell) + one open
+// bit per cell + the priority queue (a radix heap, 16 bytes per queued cell, at most the
+// number of cells on the flood front) + the FIFO (4 bytes per queued cell).
 #pragma once
 
 #include <cstddef>

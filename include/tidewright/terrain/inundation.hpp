@@ -71,7 +71,8 @@ class FirstPassingYear {
  public:
   static constexpr std::int16_t nodata = -32768;  // sea and nodata cells
   static constexpr std::int16_t never = 0;        // land that does not reach p* in the years given
-  FirstPassingYear(std::vector<YearlyRate> years, double aep, double lowest_m, double highest_m);
+  FirstPassingYear(const std::vector<YearlyRate>& years, double aep, double lowest_m,
+                   double highest_m);
   [[nodiscard]] std::int16_t operator()(float threshold_m) const noexcept;
   // c_t per year: -inf when no land in range reaches p*, +inf when all of it does.
   [[nodiscard]] const std::vector<double>& critical_levels_m() const noexcept { return critical_m_; }

@@ -42,6 +42,8 @@ class GeoTiffWriter {
   ~GeoTiffWriter();
 
   // `rows` full rows starting at `first_row` of band `band` (0-based), values of the cell type.
+  // The rows are flushed to the file at once, so memory stays at one block of rows whatever the
+  // size of the raster and the number of bands.
   void write_rows(std::size_t band, std::size_t first_row, std::size_t rows, const void* values);
   // Flushes and closes the file (and converts it to COG); throws InputError on a write failure.
   void finish();

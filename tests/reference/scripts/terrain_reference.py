@@ -54,8 +54,12 @@ def generate(path, seed, rows, cols):
 
 
 def read(path, band=1):
+    # ReadRaster + frombuffer rather than ReadAsArray: on this Debian build ReadAsArray of a
+    # megapixel band crashes once SciPy is loaded (seen with python3-gdal 3.6.2).
     ds = gdal.Open(path)
-    return ds.GetRasterBand(band).ReadAsArray()
+    b = ds.GetRasterBand(band)
+    dtype = {gdal.GDT_Byte: np.uint8, gdal.GDT_Int16: np.int16, gdal.GDT_Float32: np.float32}[b.DataType]
+    return np.frombuffer(b.ReadRaster(), dtype=dtype).reshape(ds.RasterYSize, ds.RasterXSize).copy()
 
 
 def check(dem_path, out_dir, connectivity, levels):
