@@ -102,6 +102,18 @@ std::string csv_field(const std::string& s) {
   return out + "\"";
 }
 
+// Every block of type T in document order.
+template <class T>
+std::vector<const T*> blocks_of(const ReportDocument& doc) {
+  std::vector<const T*> out;
+  for (const auto& s : doc.sections) {
+    for (const auto& b : s.blocks) {
+      if (const auto* t = std::get_if<T>(&b)) out.push_back(t);
+    }
+  }
+  return out;
+}
+
 }  // namespace
 
 std::string TableColumn::header() const { return unit.empty() ? title : title + " (" + unit + ")"; }
@@ -118,25 +130,8 @@ void Table::add_row(std::vector<std::string> cells) {
 
 std::string html_escape(std::string_view text) { return xml_escape(text); }
 
-std::vector<const Table*> tables_of(const ReportDocument& doc) {
-  std::vector<const Table*> out;
-  for (const auto& s : doc.sections) {
-    for (const auto& b : s.blocks) {
-      if (const auto* t = std::get_if<Table>(&b)) out.push_back(t);
-    }
-  }
-  return out;
-}
-
-std::vector<const Figure*> figures_of(const ReportDocument& doc) {
-  std::vector<const Figure*> out;
-  for (const auto& s : doc.sections) {
-    for (const auto& b : s.blocks) {
-      if (const auto* f = std::get_if<Figure>(&b)) out.push_back(f);
-    }
-  }
-  return out;
-}
+std::vector<const Table*> tables_of(const ReportDocument& doc) { return blocks_of<Table>(doc); }
+std::vector<const Figure*> figures_of(const ReportDocument& doc) { return blocks_of<Figure>(doc); }
 
 std::string render_html(const ReportDocument& doc) {
   const auto e = [](std::string_view s) { return html_escape(s); };
