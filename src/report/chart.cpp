@@ -103,9 +103,30 @@ std::vector<std::vector<Point>> runs(const Series& s, const std::vector<double>&
   return out;
 }
 
-struct LegendEntry {
-  const Series* series;
-};
+// Points along everything the series draw (vertices, seven points along each segment, both
+// edges of bands), for finding where a legend would hide data.
+std::vector<Point> drawn_points(const std::vector<Series>& series, const Scale& sx,
+                                const Scale& sy) {
+  std::vector<Point> samples;
+  auto add_run = [&](const std::vector<Point>& run) {
+    for (std::size_t i = 0; i < run.size(); ++i) {
+      samples.push_back(run[i]);
+      if (i + 1 == run.size()) continue;
+      for (int k = 1; k < 8; ++k) {
+        const double f = k / 8.0;
+        samples.push_back(
+            {run[i].x + (run[i + 1].x - run[i].x) * f, run[i].y + (run[i + 1].y - run[i].y) * f});
+      }
+    }
+  };
+  for (const auto& s : series) {
+    for (const auto& run : runs(s, s.y, sx, sy)) add_run(run);
+    if (s.style == SeriesStyle::band) {
+      for (const auto& run : runs(s, s.y_upper, sx, sy)) add_run(run);
+    }
+  }
+  return samples;
+}
 
 }  // namespace
 
@@ -140,9 +161,55 @@ Canvas render_chart(const ChartSpec& spec) {
     right = std::min(right, W - 6 - Canvas::text_width_px(xt.labels.back(), tick_px) / 2);
   }
   const double bottom = H - (tick_length_px + 4 + tick_px + 12 + axis_label_px + 8);
-  const double pw = right - left, ph = bottom - top;
-  const Scale sx{xt.min, xt.max, spec.x.log, left, right};
+  const double ph = bottom - top;
+  Scale sx{xt.min, xt.max, spec.x.log, left, right};
   const Scale sy{yt.min, yt.max, spec.y.log, bottom, top};
+
+  // --- legend: in the corner of the plot area that hides no data, else right of it ----------
+  std::vector<const Series*> entries;
+  for (const auto& s : spec.series) {
+    if (!s.name.empty()) entries.push_back(&s);
+  }
+  constexpr double pad = 8, row = 18, swatch = 26, gap = 6, inset = 8;
+  double text_w = 0;
+  for (const auto* s : entries)
+    text_w = std::max(text_w, Canvas::text_width_px(s->name, legend_px));
+  const double box_w = pad + swatch + gap + text_w + pad;
+  const double box_h = pad + row * static_cast<double>(entries.size()) + pad - 4;
+  double bx = 0, by = 0;
+  if (!entries.empty()) {
+    const std::vector<Point> samples = drawn_points(spec.series, sx, sy);
+    const Point corners[] = {{left + inset, top + inset},
+                             {right - inset - box_w, top + inset},
+                             {right - inset - box_w, bottom - inset - box_h},
+                             {left + inset, bottom - inset - box_h}};
+    std::size_t best = 0, best_count = std::numeric_limits<std::size_t>::max();
+    for (std::size_t c = 0; c < 4; ++c) {
+      const auto count = static_cast<std::size_t>(
+          std::count_if(samples.begin(), samples.end(), [&](const Point& p) {
+            return p.x >= corners[c].x - 4 && p.x <= corners[c].x + box_w + 4 &&
+                   p.y >= corners[c].y - 4 && p.y <= corners[c].y + box_h + 4;
+          }));
+      if (count < best_count) {
+        best = c;
+        best_count = count;
+      }
+    }
+    const bool fits_inside = box_w <= (right - left) / 2 - inset && box_h <= ph / 2;
+    if (best_count == 0 && fits_inside) {
+      bx = corners[best].x;
+      by = corners[best].y;
+    } else {
+      // Every corner would hide data: narrow the plot and put the legend beside it.
+      const double half_last_label =
+          xt.labels.empty() ? 0 : Canvas::text_width_px(xt.labels.back(), tick_px) / 2;
+      right = W - 12 - box_w - std::max(12.0, half_last_label + 6);
+      sx = Scale{xt.min, xt.max, spec.x.log, left, right};
+      bx = right + 12;
+      by = top;
+    }
+  }
+  const double pw = right - left;
   canvas.set_clip(left, top, pw, ph);
 
   // --- grid --------------------------------------------------------------------------------
@@ -247,58 +314,7 @@ Canvas render_chart(const ChartSpec& spec) {
     canvas.text({left, 26}, spec.title, size, TextAnchor::start, ink, "title", 0, true);
   }
 
-  // --- legend: in the corner of the plot area that hides the fewest data points -----------
-  std::vector<const Series*> entries;
-  for (const auto& s : spec.series) {
-    if (!s.name.empty()) entries.push_back(&s);
-  }
   if (!entries.empty()) {
-    constexpr double pad = 8, row = 18, swatch = 26, gap = 6, inset = 8;
-    double text_w = 0;
-    for (const auto* s : entries)
-      text_w = std::max(text_w, Canvas::text_width_px(s->name, legend_px));
-    const double box_w = std::min(pad + swatch + gap + text_w + pad, pw - 2 * inset);
-    const double box_h = pad + row * static_cast<double>(entries.size()) + pad - 4;
-    // Sample points of everything drawn: vertices, points along segments, band edges.
-    std::vector<Point> samples;
-    for (const auto& s : spec.series) {
-      auto add_run = [&](const std::vector<Point>& run) {
-        for (std::size_t i = 0; i < run.size(); ++i) {
-          samples.push_back(run[i]);
-          if (i + 1 < run.size()) {
-            for (int k = 1; k < 8; ++k) {
-              const double f = k / 8.0;
-              samples.push_back({run[i].x + (run[i + 1].x - run[i].x) * f,
-                                 run[i].y + (run[i + 1].y - run[i].y) * f});
-            }
-          }
-        }
-      };
-      for (const auto& run : runs(s, s.y, sx, sy)) add_run(run);
-      if (s.style == SeriesStyle::band) {
-        for (const auto& run : runs(s, s.y_upper, sx, sy)) add_run(run);
-      }
-    }
-    struct Corner {
-      double x, y;
-    };
-    const Corner corners[] = {{left + inset, top + inset},
-                              {right - inset - box_w, top + inset},
-                              {right - inset - box_w, bottom - inset - box_h},
-                              {left + inset, bottom - inset - box_h}};
-    std::size_t best = 0, best_count = std::numeric_limits<std::size_t>::max();
-    for (std::size_t c = 0; c < 4; ++c) {
-      const auto count = static_cast<std::size_t>(
-          std::count_if(samples.begin(), samples.end(), [&](const Point& p) {
-            return p.x >= corners[c].x - 4 && p.x <= corners[c].x + box_w + 4 &&
-                   p.y >= corners[c].y - 4 && p.y <= corners[c].y + box_h + 4;
-          }));
-      if (count < best_count) {
-        best = c;
-        best_count = count;
-      }
-    }
-    const double bx = corners[best].x, by = corners[best].y;
     canvas.polygon({{bx, by}, {bx + box_w, by}, {bx + box_w, by + box_h}, {bx, by + box_h}},
                    Colour{0xff, 0xff, 0xff, 0.9}, Colour{0xbb, 0xbb, 0xbb}, 1.0, "legend");
     for (std::size_t i = 0; i < entries.size(); ++i) {

@@ -150,6 +150,27 @@ TEST(Chart, LinearAxisMapsLimitsToThePlotEdges) {
   EXPECT_NEAR(cy[2].get<double>(), top, 0.01);                  // y = 10 at the top
 }
 
+TEST(Chart, LegendGoesInAnEmptyCornerOrBesideThePlot) {
+  tr::ChartSpec spec;
+  spec.x.label = "x";
+  spec.y.label = "y";
+  spec.x.min = spec.y.min = 0;
+  spec.x.max = spec.y.max = 1;
+  // Data only near the bottom right: the legend fits in the top left.
+  spec.series.push_back(
+      tr::Series{"points", tr::SeriesStyle::markers, {0.8, 0.9, 1.0}, {0.0, 0.1, 0.2}});
+  auto s = svg_summary(tr::render_chart(spec));
+  const double left = s["clip"][0].get<double>();
+  const double right = left + s["clip"][2].get<double>();
+  EXPECT_LT(s["legend_marker_cx"].get<double>(), left + (right - left) / 2);
+  // A zigzag through all four corners: the legend moves right of a narrower plot area.
+  spec.series.push_back(tr::Series{"zigzag", tr::SeriesStyle::line, {0, 1, 0, 1}, {0, 1, 1, 0}});
+  s = svg_summary(tr::render_chart(spec));
+  const double right2 = s["clip"][0].get<double>() + s["clip"][2].get<double>();
+  EXPECT_LT(right2, right);
+  EXPECT_GT(s["legend_marker_cx"].get<double>(), right2);
+}
+
 TEST(Chart, TextIsEscapedAndReadsBackUnchanged) {
   tr::ChartSpec spec;
   spec.title = "Levels <above> \"datum\" & 'chart'";

@@ -46,6 +46,8 @@ def svg_summary(root):
         if tag == 'clipPath':
             r = el[0]
             out["clip"] = [float(r.get(k)) for k in ('x', 'y', 'width', 'height')]
+        if tag == 'circle' and cls == 'legend-marker':
+            out["legend_marker_cx"] = float(el.get('cx'))
         if tag == 'circle' and cls == 'marker':
             out["marker_cx"].append(float(el.get('cx')))
             out["marker_cy"].append(float(el.get('cy')))
