@@ -48,7 +48,8 @@ double nice_number(double x, bool round) {
 }
 
 AxisTicks linear_ticks(double lo, double hi, int target_count) {
-  if (!std::isfinite(lo) || !std::isfinite(hi)) throw std::invalid_argument("axis range not finite");
+  if (!std::isfinite(lo) || !std::isfinite(hi))
+    throw std::invalid_argument("axis range not finite");
   if (lo > hi) std::swap(lo, hi);
   if (target_count < 2) target_count = 2;
   if (hi - lo <= 1e-12 * std::max(1.0, std::abs(hi))) {
@@ -132,9 +133,8 @@ AxisTicks log_ticks(double lo, double hi) {
     for (int m = 2; m <= 9; ++m) {
       const double v = m * std::pow(10.0, e);
       if (v <= t.min || v >= t.max) continue;
-      const bool is_major = std::any_of(t.major.begin(), t.major.end(), [&](double x) {
-        return std::abs(x - v) <= 1e-9 * v;
-      });
+      const bool is_major = std::any_of(t.major.begin(), t.major.end(),
+                                        [&](double x) { return std::abs(x - v) <= 1e-9 * v; });
       if (!is_major) t.minor.push_back(v);
     }
   }

@@ -69,8 +69,7 @@ cairo_status_t append_to_string(void* closure, const unsigned char* data, unsign
 
 std::string surface_png(cairo_surface_t* surface) {
   std::string out;
-  if (cairo_surface_write_to_png_stream(surface, append_to_string, &out) !=
-      CAIRO_STATUS_SUCCESS) {
+  if (cairo_surface_write_to_png_stream(surface, append_to_string, &out) != CAIRO_STATUS_SUCCESS) {
     throw ComputationError("PNG output", "cairo could not encode the image",
                            "check that the image is not empty");
   }
@@ -176,6 +175,28 @@ void Canvas::add(MarkerItem item) { items_.emplace_back(std::move(item)); }
 void Canvas::add(TextItem item) { items_.emplace_back(std::move(item)); }
 void Canvas::add(ImageItem item) { items_.emplace_back(std::move(item)); }
 
+void Canvas::line(std::vector<Point> points, const Colour& stroke, double width_px,
+                  std::string role, bool clipped, std::vector<double> dash_px) {
+  add(PathItem{std::move(points), false, stroke, width_px, std::move(dash_px), std::nullopt,
+               clipped, std::move(role)});
+}
+
+void Canvas::polygon(std::vector<Point> points, std::optional<Colour> fill, const Colour& stroke,
+                     double stroke_width_px, std::string role, bool clipped) {
+  add(PathItem{
+      std::move(points), true, stroke, stroke_width_px, {}, fill, clipped, std::move(role)});
+}
+
+void Canvas::text(Point at, std::string text, double size_px, TextAnchor anchor,
+                  const Colour& colour, std::string role, double rotation_deg, bool bold) {
+  add(TextItem{at, std::move(text), size_px, anchor, rotation_deg, bold, colour, std::move(role)});
+}
+
+void Canvas::marker(Point centre, double size_px, MarkerShape shape, const Colour& fill,
+                    const Colour& stroke, std::string role, bool clipped) {
+  add(MarkerItem{centre, size_px, shape, fill, stroke, 1.0, clipped, std::move(role)});
+}
+
 double Canvas::text_width_px(std::string_view text, double size_px, bool bold) {
   thread_local SurfacePtr surface(cairo_image_surface_create(CAIRO_FORMAT_ARGB32, 1, 1));
   thread_local ContextPtr cr(cairo_create(surface.get()));
@@ -218,11 +239,13 @@ std::string Canvas::to_svg(std::string_view id_prefix, bool standalone) const {
         o += " fill=\"none\"";
       }
       if (p->stroke_width_px > 0) {
-        o += " stroke=\"" + p->stroke.hex() + "\"" + opacity_attr("stroke-opacity", p->stroke.alpha) +
-             " stroke-width=\"" + num(p->stroke_width_px) + "\" stroke-linejoin=\"round\"";
+        o += " stroke=\"" + p->stroke.hex() + "\"" +
+             opacity_attr("stroke-opacity", p->stroke.alpha) + " stroke-width=\"" +
+             num(p->stroke_width_px) + "\" stroke-linejoin=\"round\"";
         if (!p->dash_px.empty()) {
           o += " stroke-dasharray=\"";
-          for (std::size_t i = 0; i < p->dash_px.size(); ++i) o += (i ? "," : "") + num(p->dash_px[i]);
+          for (std::size_t i = 0; i < p->dash_px.size(); ++i)
+            o += (i ? "," : "") + num(p->dash_px[i]);
           o += "\"";
         }
       }
@@ -259,8 +282,8 @@ std::string Canvas::to_svg(std::string_view id_prefix, bool standalone) const {
       }
       o += ">" + xml_escape(t->text) + "</text>\n";
     } else if (const auto* im = std::get_if<ImageItem>(&item)) {
-      o += "<image x=\"" + num(im->x) + "\" y=\"" + num(im->y) + "\" width=\"" +
-           num(im->width_px) + "\" height=\"" + num(im->height_px) +
+      o += "<image x=\"" + num(im->x) + "\" y=\"" + num(im->y) + "\" width=\"" + num(im->width_px) +
+           "\" height=\"" + num(im->height_px) +
            "\" preserveAspectRatio=\"none\" style=\"image-rendering:pixelated\" "
            "href=\"data:image/png;base64," +
            base64(encode_png(im->columns, im->rows, im->rgba)) + "\"/>\n";
@@ -295,7 +318,8 @@ std::string Canvas::to_png(double scale) const {
       begin_clip(p->clipped);
       cairo_new_path(cr);
       cairo_move_to(cr, p->points[0].x, p->points[0].y);
-      for (std::size_t i = 1; i < p->points.size(); ++i) cairo_line_to(cr, p->points[i].x, p->points[i].y);
+      for (std::size_t i = 1; i < p->points.size(); ++i)
+        cairo_line_to(cr, p->points[i].x, p->points[i].y);
       if (p->closed) cairo_close_path(cr);
       if (p->fill) {
         set_colour(cr, *p->fill);
@@ -323,7 +347,9 @@ std::string Canvas::to_png(double scale) const {
       cairo_save(cr);
       set_font(cr, t->size_px, t->bold);
       const double tw = text_width_px(t->text, t->size_px, t->bold);
-      const double dx = t->anchor == TextAnchor::start ? 0 : t->anchor == TextAnchor::middle ? -tw / 2 : -tw;
+      const double dx = t->anchor == TextAnchor::start    ? 0
+                        : t->anchor == TextAnchor::middle ? -tw / 2
+                                                          : -tw;
       cairo_translate(cr, t->position.x, t->position.y);
       cairo_rotate(cr, t->rotation_deg * std::numbers::pi / 180.0);
       cairo_move_to(cr, dx, 0);
@@ -369,7 +395,8 @@ std::string base64(std::string_view bytes) {
   out.reserve((bytes.size() + 2) / 3 * 4);
   for (std::size_t i = 0; i < bytes.size(); i += 3) {
     std::uint32_t v = static_cast<std::uint8_t>(bytes[i]) << 16;
-    if (i + 1 < bytes.size()) v |= static_cast<std::uint32_t>(static_cast<std::uint8_t>(bytes[i + 1])) << 8;
+    if (i + 1 < bytes.size())
+      v |= static_cast<std::uint32_t>(static_cast<std::uint8_t>(bytes[i + 1])) << 8;
     if (i + 2 < bytes.size()) v |= static_cast<std::uint8_t>(bytes[i + 2]);
     out += alphabet[(v >> 18) & 63];
     out += alphabet[(v >> 12) & 63];
@@ -384,12 +411,23 @@ std::string xml_escape(std::string_view text) {
   out.reserve(text.size());
   for (char c : text) {
     switch (c) {
-      case '&': out += "&amp;"; break;
-      case '<': out += "&lt;"; break;
-      case '>': out += "&gt;"; break;
-      case '"': out += "&quot;"; break;
-      case '\'': out += "&#39;"; break;
-      default: out += c;
+      case '&':
+        out += "&amp;";
+        break;
+      case '<':
+        out += "&lt;";
+        break;
+      case '>':
+        out += "&gt;";
+        break;
+      case '"':
+        out += "&quot;";
+        break;
+      case '\'':
+        out += "&#39;";
+        break;
+      default:
+        out += c;
     }
   }
   return out;

@@ -40,7 +40,8 @@ AxisTicks ticks_for(const AxisSpec& axis, double lo, double hi) {
   return t;
 }
 
-AxisTicks axis_ticks(const AxisSpec& axis, std::vector<double> values, const std::string& what) {
+AxisTicks axis_ticks(const AxisSpec& axis, const std::vector<double>& values,
+                     const std::string& what) {
   double lo = std::numeric_limits<double>::infinity(), hi = -lo;
   for (double v : values) {
     if (!std::isfinite(v) || (axis.log && v <= 0)) continue;
@@ -50,7 +51,8 @@ AxisTicks axis_ticks(const AxisSpec& axis, std::vector<double> values, const std
   if (axis.min) lo = *axis.min;
   if (axis.max) hi = *axis.max;
   if (!std::isfinite(lo) || !std::isfinite(hi)) {
-    throw InputError("plot '" + what + "'", "no finite value to plot on the " + axis.label + " axis",
+    throw InputError("plot '" + what + "'",
+                     "no finite value to plot on the " + axis.label + " axis",
                      axis.log ? "a log axis needs positive values" : "check the plotted series");
   }
   if (!axis.log && axis.include_zero) {
@@ -87,8 +89,8 @@ double fitted_size(const std::string& text, double size, double room, bool bold 
   return size;
 }
 
-std::vector<std::vector<Point>> runs(const Series& s, const std::vector<double>& ys, const Scale& sx,
-                                     const Scale& sy) {
+std::vector<std::vector<Point>> runs(const Series& s, const std::vector<double>& ys,
+                                     const Scale& sx, const Scale& sy) {
   std::vector<std::vector<Point>> out(1);
   for (std::size_t i = 0; i < s.x.size(); ++i) {
     if (sx.valid(s.x[i]) && sy.valid(ys[i])) {
@@ -101,9 +103,30 @@ std::vector<std::vector<Point>> runs(const Series& s, const std::vector<double>&
   return out;
 }
 
-struct LegendEntry {
-  const Series* series;
-};
+// Points along everything the series draw (vertices, seven points along each segment, both
+// edges of bands), for finding where a legend would hide data.
+std::vector<Point> drawn_points(const std::vector<Series>& series, const Scale& sx,
+                                const Scale& sy) {
+  std::vector<Point> samples;
+  auto add_run = [&](const std::vector<Point>& run) {
+    for (std::size_t i = 0; i < run.size(); ++i) {
+      samples.push_back(run[i]);
+      if (i + 1 == run.size()) continue;
+      for (int k = 1; k < 8; ++k) {
+        const double f = k / 8.0;
+        samples.push_back(
+            {run[i].x + (run[i + 1].x - run[i].x) * f, run[i].y + (run[i + 1].y - run[i].y) * f});
+      }
+    }
+  };
+  for (const auto& s : series) {
+    for (const auto& run : runs(s, s.y, sx, sy)) add_run(run);
+    if (s.style == SeriesStyle::band) {
+      for (const auto& run : runs(s, s.y_upper, sx, sy)) add_run(run);
+    }
+  }
+  return samples;
+}
 
 }  // namespace
 
@@ -113,7 +136,8 @@ Canvas render_chart(const ChartSpec& spec) {
   for (const auto& s : spec.series) {
     const bool band = s.style == SeriesStyle::band;
     if (s.x.size() != s.y.size() || (band && s.y_upper.size() != s.x.size())) {
-      throw InputError("plot '" + what + "'", "series '" + s.name + "' has x and y of different lengths",
+      throw InputError("plot '" + what + "'",
+                       "series '" + s.name + "' has x and y of different lengths",
                        "give one y value (and one upper value for a band) per x value");
     }
     xs.insert(xs.end(), s.x.begin(), s.x.end());
@@ -137,17 +161,63 @@ Canvas render_chart(const ChartSpec& spec) {
     right = std::min(right, W - 6 - Canvas::text_width_px(xt.labels.back(), tick_px) / 2);
   }
   const double bottom = H - (tick_length_px + 4 + tick_px + 12 + axis_label_px + 8);
-  const double pw = right - left, ph = bottom - top;
-  const Scale sx{xt.min, xt.max, spec.x.log, left, right};
+  const double ph = bottom - top;
+  Scale sx{xt.min, xt.max, spec.x.log, left, right};
   const Scale sy{yt.min, yt.max, spec.y.log, bottom, top};
+
+  // --- legend: in the corner of the plot area that hides no data, else right of it ----------
+  std::vector<const Series*> entries;
+  for (const auto& s : spec.series) {
+    if (!s.name.empty()) entries.push_back(&s);
+  }
+  constexpr double pad = 8, row = 18, swatch = 26, gap = 6, inset = 8;
+  double text_w = 0;
+  for (const auto* s : entries)
+    text_w = std::max(text_w, Canvas::text_width_px(s->name, legend_px));
+  const double box_w = pad + swatch + gap + text_w + pad;
+  const double box_h = pad + row * static_cast<double>(entries.size()) + pad - 4;
+  double bx = 0, by = 0;
+  if (!entries.empty()) {
+    const std::vector<Point> samples = drawn_points(spec.series, sx, sy);
+    const Point corners[] = {{left + inset, top + inset},
+                             {right - inset - box_w, top + inset},
+                             {right - inset - box_w, bottom - inset - box_h},
+                             {left + inset, bottom - inset - box_h}};
+    std::size_t best = 0, best_count = std::numeric_limits<std::size_t>::max();
+    for (std::size_t c = 0; c < 4; ++c) {
+      const auto count = static_cast<std::size_t>(
+          std::count_if(samples.begin(), samples.end(), [&](const Point& p) {
+            return p.x >= corners[c].x - 4 && p.x <= corners[c].x + box_w + 4 &&
+                   p.y >= corners[c].y - 4 && p.y <= corners[c].y + box_h + 4;
+          }));
+      if (count < best_count) {
+        best = c;
+        best_count = count;
+      }
+    }
+    const bool fits_inside = box_w <= (right - left) / 2 - inset && box_h <= ph / 2;
+    if (best_count == 0 && fits_inside) {
+      bx = corners[best].x;
+      by = corners[best].y;
+    } else {
+      // Every corner would hide data: narrow the plot and put the legend beside it.
+      const double half_last_label =
+          xt.labels.empty() ? 0 : Canvas::text_width_px(xt.labels.back(), tick_px) / 2;
+      right = W - 12 - box_w - std::max(12.0, half_last_label + 6);
+      sx = Scale{xt.min, xt.max, spec.x.log, left, right};
+      bx = right + 12;
+      by = top;
+    }
+  }
+  const double pw = right - left;
   canvas.set_clip(left, top, pw, ph);
 
   // --- grid --------------------------------------------------------------------------------
   auto vline = [&](double x, const Colour& c, const std::string& role) {
-    canvas.add(PathItem{{{x, top}, {x, bottom}}, false, c, 1.0, {}, std::nullopt, false, role});
+    canvas.line({{x, top}, {x, bottom}}, c, 1.0, role);
   };
   auto hline = [&](double y, const Colour& c, const std::string& role) {
-    canvas.add(PathItem{{{left, y}, {right, y}}, false, c, 1.0, {}, std::nullopt, false, role});
+    canvas.line({{left, y}, {right, y}}, c, 1.0, role);
   };
   for (double v : xt.minor) vline(sx(v), minor_grid_grey, "grid-minor");
   for (double v : yt.minor) hline(sy(v), minor_grid_grey, "grid-minor");
@@ -164,7 +234,7 @@ Canvas render_chart(const ChartSpec& spec) {
       if (poly_hi.size() >= 2) {
         std::vector<Point> pts = poly_hi;
         pts.insert(pts.end(), poly_lo.rbegin(), poly_lo.rend());
-        canvas.add(PathItem{pts, true, s.colour, 0.0, {}, fill, true, "band"});
+        canvas.polygon(pts, fill, s.colour, 0.0, "band", true);
       }
       poly_hi.clear();
       poly_lo.clear();
@@ -182,8 +252,7 @@ Canvas render_chart(const ChartSpec& spec) {
   for (const auto& s : spec.series) {
     if (s.style != SeriesStyle::line) continue;
     for (auto& run : runs(s, s.y, sx, sy)) {
-      canvas.add(PathItem{std::move(run), false, s.colour, s.line_width_px, s.dash_px, std::nullopt,
-                          true, "series"});
+      canvas.line(std::move(run), s.colour, s.line_width_px, "series", true, s.dash_px);
     }
   }
   for (const auto& s : spec.series) {
@@ -192,8 +261,8 @@ Canvas render_chart(const ChartSpec& spec) {
     fill.alpha = 0.55;
     for (std::size_t i = 0; i < s.x.size(); ++i) {
       if (!sx.valid(s.x[i]) || !sy.valid(s.y[i])) continue;
-      canvas.add(MarkerItem{{sx(s.x[i]), sy(s.y[i])}, s.marker_size_px, s.marker, fill, s.colour,
-                            1.0, true, "marker"});
+      canvas.marker({sx(s.x[i]), sy(s.y[i])}, s.marker_size_px, s.marker, fill, s.colour, "marker",
+                    true);
     }
   }
   for (const auto& r : spec.reference_lines) {
@@ -202,134 +271,79 @@ Canvas render_chart(const ChartSpec& spec) {
     const double p = sc(r.value);
     std::vector<Point> pts = r.horizontal ? std::vector<Point>{{left, p}, {right, p}}
                                           : std::vector<Point>{{p, top}, {p, bottom}};
-    canvas.add(PathItem{pts, false, r.colour, 1.5, r.dash_px, std::nullopt, true, "reference"});
+    canvas.line(pts, r.colour, 1.5, "reference", true, r.dash_px);
     if (!r.label.empty()) {
       if (r.horizontal) {
-        canvas.add(TextItem{{right - 6, p - 5}, r.label, 11, TextAnchor::end, 0, false, r.colour,
-                            "reference-label"});
+        canvas.text({right - 6, p - 5}, r.label, 11, TextAnchor::end, r.colour, "reference-label");
       } else {
-        canvas.add(TextItem{{p - 5, top + 6}, r.label, 11, TextAnchor::end, -90, false, r.colour,
-                            "reference-label"});
+        canvas.text({p - 5, top + 6}, r.label, 11, TextAnchor::end, r.colour, "reference-label",
+                    -90);
       }
     }
   }
 
   // --- axes, ticks and labels ---------------------------------------------------------------
-  canvas.add(PathItem{{{left, top}, {left, bottom}, {right, bottom}}, false, axis_grey, 1.2, {},
-                      std::nullopt, false, "axis"});
+  canvas.line({{left, top}, {left, bottom}, {right, bottom}}, axis_grey, 1.2, "axis");
   double last_label_right = -1e9;
   for (std::size_t i = 0; i < xt.major.size(); ++i) {
     const double x = sx(xt.major[i]);
-    canvas.add(PathItem{{{x, bottom}, {x, bottom + tick_length_px}}, false, axis_grey, 1.0, {},
-                        std::nullopt, false, "tick"});
+    canvas.line({{x, bottom}, {x, bottom + tick_length_px}}, axis_grey, 1.0, "tick");
     const double w = Canvas::text_width_px(xt.labels[i], tick_px);
     if (x - w / 2 < last_label_right + 8) continue;  // would overlap its left neighbour
-    canvas.add(TextItem{{x, bottom + tick_length_px + 4 + tick_px}, xt.labels[i], tick_px,
-                        TextAnchor::middle, 0, false, ink, "tick-label"});
+    canvas.text({x, bottom + tick_length_px + 4 + tick_px}, xt.labels[i], tick_px,
+                TextAnchor::middle, ink, "tick-label");
     last_label_right = x + w / 2;
   }
   for (std::size_t i = 0; i < yt.major.size(); ++i) {
     const double y = sy(yt.major[i]);
-    canvas.add(PathItem{{{left - tick_length_px, y}, {left, y}}, false, axis_grey, 1.0, {},
-                        std::nullopt, false, "tick"});
-    canvas.add(TextItem{{left - tick_length_px - 4, y + tick_px * 0.35}, yt.labels[i], tick_px,
-                        TextAnchor::end, 0, false, ink, "tick-label"});
+    canvas.line({{left - tick_length_px, y}, {left, y}}, axis_grey, 1.0, "tick");
+    canvas.text({left - tick_length_px - 4, y + tick_px * 0.35}, yt.labels[i], tick_px,
+                TextAnchor::end, ink, "tick-label");
   }
   if (!spec.x.label.empty()) {
     const double size = fitted_size(spec.x.label, axis_label_px, pw);
-    canvas.add(TextItem{{left + pw / 2, H - 10}, spec.x.label, size, TextAnchor::middle, 0, false,
-                        ink, "axis-label"});
+    canvas.text({left + pw / 2, H - 10}, spec.x.label, size, TextAnchor::middle, ink, "axis-label");
   }
   if (!spec.y.label.empty()) {
     const double size = fitted_size(spec.y.label, axis_label_px, ph + top - 8);
-    canvas.add(TextItem{{12 + axis_label_px, top + ph / 2}, spec.y.label, size, TextAnchor::middle,
-                        -90, false, ink, "axis-label"});
+    canvas.text({12 + axis_label_px, top + ph / 2}, spec.y.label, size, TextAnchor::middle, ink,
+                "axis-label", -90);
   }
   if (!spec.title.empty()) {
     const double size = fitted_size(spec.title, title_px, W - 24, true);
-    canvas.add(TextItem{{left, 26}, spec.title, size, TextAnchor::start, 0, true, ink, "title"});
+    canvas.text({left, 26}, spec.title, size, TextAnchor::start, ink, "title", 0, true);
   }
 
-  // --- legend: in the corner of the plot area that hides the fewest data points -----------
-  std::vector<const Series*> entries;
-  for (const auto& s : spec.series) {
-    if (!s.name.empty()) entries.push_back(&s);
-  }
   if (!entries.empty()) {
-    constexpr double pad = 8, row = 18, swatch = 26, gap = 6, inset = 8;
-    double text_w = 0;
-    for (const auto* s : entries) text_w = std::max(text_w, Canvas::text_width_px(s->name, legend_px));
-    const double box_w = std::min(pad + swatch + gap + text_w + pad, pw - 2 * inset);
-    const double box_h = pad + row * static_cast<double>(entries.size()) + pad - 4;
-    // Sample points of everything drawn: vertices, points along segments, band edges.
-    std::vector<Point> samples;
-    for (const auto& s : spec.series) {
-      auto add_run = [&](const std::vector<Point>& run) {
-        for (std::size_t i = 0; i < run.size(); ++i) {
-          samples.push_back(run[i]);
-          if (i + 1 < run.size()) {
-            for (int k = 1; k < 8; ++k) {
-              const double f = k / 8.0;
-              samples.push_back({run[i].x + (run[i + 1].x - run[i].x) * f,
-                                 run[i].y + (run[i + 1].y - run[i].y) * f});
-            }
-          }
-        }
-      };
-      for (const auto& run : runs(s, s.y, sx, sy)) add_run(run);
-      if (s.style == SeriesStyle::band) {
-        for (const auto& run : runs(s, s.y_upper, sx, sy)) add_run(run);
-      }
-    }
-    struct Corner {
-      double x, y;
-    };
-    const Corner corners[] = {{left + inset, top + inset},
-                              {right - inset - box_w, top + inset},
-                              {right - inset - box_w, bottom - inset - box_h},
-                              {left + inset, bottom - inset - box_h}};
-    std::size_t best = 0, best_count = std::numeric_limits<std::size_t>::max();
-    for (std::size_t c = 0; c < 4; ++c) {
-      const auto count = static_cast<std::size_t>(
-          std::count_if(samples.begin(), samples.end(), [&](const Point& p) {
-            return p.x >= corners[c].x - 4 && p.x <= corners[c].x + box_w + 4 &&
-                   p.y >= corners[c].y - 4 && p.y <= corners[c].y + box_h + 4;
-          }));
-      if (count < best_count) {
-        best = c;
-        best_count = count;
-      }
-    }
-    const double bx = corners[best].x, by = corners[best].y;
-    canvas.add(PathItem{{{bx, by}, {bx + box_w, by}, {bx + box_w, by + box_h}, {bx, by + box_h}},
-                        true, Colour{0xbb, 0xbb, 0xbb}, 1.0, {}, Colour{0xff, 0xff, 0xff, 0.9},
-                        false, "legend"});
+    canvas.polygon({{bx, by}, {bx + box_w, by}, {bx + box_w, by + box_h}, {bx, by + box_h}},
+                   Colour{0xff, 0xff, 0xff, 0.9}, Colour{0xbb, 0xbb, 0xbb}, 1.0, "legend");
     for (std::size_t i = 0; i < entries.size(); ++i) {
       const Series& s = *entries[i];
       const double cy = by + pad + row * static_cast<double>(i) + row / 2 - 2;
       const double sx0 = bx + pad;
       switch (s.style) {
         case SeriesStyle::line:
-          canvas.add(PathItem{{{sx0, cy}, {sx0 + swatch, cy}}, false, s.colour, s.line_width_px,
-                              s.dash_px, std::nullopt, false, "legend-swatch"});
+          canvas.line({{sx0, cy}, {sx0 + swatch, cy}}, s.colour, s.line_width_px, "legend-swatch",
+                      false, s.dash_px);
           break;
         case SeriesStyle::markers: {
           Colour fill = s.colour;
           fill.alpha = 0.55;
-          canvas.add(MarkerItem{{sx0 + swatch / 2, cy}, s.marker_size_px, s.marker, fill, s.colour,
-                                1.0, false, "legend-marker"});
+          canvas.marker({sx0 + swatch / 2, cy}, s.marker_size_px, s.marker, fill, s.colour,
+                        "legend-marker");
           break;
         }
         case SeriesStyle::band: {
           Colour fill = s.colour;
           fill.alpha = s.band_alpha;
-          canvas.add(PathItem{{{sx0, cy - 6}, {sx0 + swatch, cy - 6}, {sx0 + swatch, cy + 6}, {sx0, cy + 6}},
-                              true, s.colour, 0.0, {}, fill, false, "legend-swatch"});
+          canvas.polygon(
+              {{sx0, cy - 6}, {sx0 + swatch, cy - 6}, {sx0 + swatch, cy + 6}, {sx0, cy + 6}}, fill,
+              s.colour, 0.0, "legend-swatch");
           break;
         }
       }
-      canvas.add(TextItem{{sx0 + swatch + gap, cy + legend_px * 0.35}, s.name, legend_px,
-                          TextAnchor::start, 0, false, ink, "legend-label"});
+      canvas.text({sx0 + swatch + gap, cy + legend_px * 0.35}, s.name, legend_px, TextAnchor::start,
+                  ink, "legend-label");
     }
   }
   return canvas;

@@ -102,6 +102,18 @@ std::string csv_field(const std::string& s) {
   return out + "\"";
 }
 
+// Every block of type T in document order.
+template <class T>
+std::vector<const T*> blocks_of(const ReportDocument& doc) {
+  std::vector<const T*> out;
+  for (const auto& s : doc.sections) {
+    for (const auto& b : s.blocks) {
+      if (const auto* t = std::get_if<T>(&b)) out.push_back(t);
+    }
+  }
+  return out;
+}
+
 }  // namespace
 
 std::string TableColumn::header() const { return unit.empty() ? title : title + " (" + unit + ")"; }
@@ -118,25 +130,8 @@ void Table::add_row(std::vector<std::string> cells) {
 
 std::string html_escape(std::string_view text) { return xml_escape(text); }
 
-std::vector<const Table*> tables_of(const ReportDocument& doc) {
-  std::vector<const Table*> out;
-  for (const auto& s : doc.sections) {
-    for (const auto& b : s.blocks) {
-      if (const auto* t = std::get_if<Table>(&b)) out.push_back(t);
-    }
-  }
-  return out;
-}
-
-std::vector<const Figure*> figures_of(const ReportDocument& doc) {
-  std::vector<const Figure*> out;
-  for (const auto& s : doc.sections) {
-    for (const auto& b : s.blocks) {
-      if (const auto* f = std::get_if<Figure>(&b)) out.push_back(f);
-    }
-  }
-  return out;
-}
+std::vector<const Table*> tables_of(const ReportDocument& doc) { return blocks_of<Table>(doc); }
+std::vector<const Figure*> figures_of(const ReportDocument& doc) { return blocks_of<Figure>(doc); }
 
 std::string render_html(const ReportDocument& doc) {
   const auto e = [](std::string_view s) { return html_escape(s); };
@@ -150,8 +145,9 @@ std::string render_html(const ReportDocument& doc) {
   o += "<h1>" + e(doc.site_name.empty() ? doc.title : doc.site_name) + "</h1>\n<dl class=\"meta\">";
   if (!doc.date.empty()) o += "<dt>Date</dt><dd>" + e(doc.date) + "</dd>";
   if (!doc.tool_version.empty()) o += "<dt>Produced with</dt><dd>" + e(doc.tool_version) + "</dd>";
-  o += "</dl>\n<p class=\"note\">Planning estimates, not design certificates: read the "
-       "<a href=\"#cautions\">cautions</a> before using any number in this report.</p>\n</header>\n";
+  o +=
+      "</dl>\n<p class=\"note\">Planning estimates, not design certificates: read the "
+      "<a href=\"#cautions\">cautions</a> before using any number in this report.</p>\n</header>\n";
   if (!doc.summary.empty()) o += "<p class=\"lead\">" + e(doc.summary) + "</p>\n";
 
   o += "<nav class=\"contents\"><h2>Contents</h2><ol>\n";
@@ -178,14 +174,15 @@ std::string render_html(const ReportDocument& doc) {
         o += "<h3>" + e(h->text) + "</h3>\n";
       } else if (const auto* t = std::get_if<Table>(&b)) {
         ++table_no;
-        o += "<table id=\"table-" + e(t->name) + "\">\n<caption><b>Table " + std::to_string(table_no) +
-             ".</b> " + e(t->caption) + "</caption>\n<thead><tr>";
+        o += "<table id=\"table-" + e(t->name) + "\">\n<caption><b>Table " +
+             std::to_string(table_no) + ".</b> " + e(t->caption) + "</caption>\n<thead><tr>";
         for (const auto& c : t->columns) o += "<th scope=\"col\">" + e(c.header()) + "</th>";
         o += "</tr></thead>\n<tbody>\n";
         for (const auto& row : t->rows) {
           o += "<tr>";
           for (const auto& cell : row) {
-            o += std::string(looks_numeric(cell) ? "<td class=\"num\">" : "<td>") + e(cell) + "</td>";
+            o += std::string(looks_numeric(cell) ? "<td class=\"num\">" : "<td>") + e(cell) +
+                 "</td>";
           }
           o += "</tr>\n";
         }
@@ -203,8 +200,10 @@ std::string render_html(const ReportDocument& doc) {
 
   o += "<section id=\"inputs\">\n<h2>Inputs and assumptions</h2>\n";
   if (!doc.inputs.empty()) {
-    o += "<table>\n<thead><tr><th scope=\"col\">Input</th><th scope=\"col\">Value</th></tr></thead>\n<tbody>\n";
-    for (const auto& in : doc.inputs) o += "<tr><td>" + e(in.name) + "</td><td>" + e(in.value) + "</td></tr>\n";
+    o += "<table>\n<thead><tr><th scope=\"col\">Input</th><th "
+         "scope=\"col\">Value</th></tr></thead>\n<tbody>\n";
+    for (const auto& in : doc.inputs)
+      o += "<tr><td>" + e(in.name) + "</td><td>" + e(in.value) + "</td></tr>\n";
     o += "</tbody>\n</table>\n";
   }
   if (!doc.assumptions.empty()) {
@@ -232,7 +231,9 @@ std::string render_html(const ReportDocument& doc) {
 }
 
 std::string render_markdown(const ReportDocument& doc, std::string_view figure_dir) {
-  std::string o = "# " + md_escape(doc.site_name.empty() ? doc.title : doc.title + ": " + doc.site_name) + "\n\n";
+  std::string o = "# " +
+                  md_escape(doc.site_name.empty() ? doc.title : doc.title + ": " + doc.site_name) +
+                  "\n\n";
   if (!doc.date.empty()) o += "- Date: " + md_escape(doc.date) + "\n";
   if (!doc.tool_version.empty()) o += "- Produced with: " + md_escape(doc.tool_version) + "\n";
   o += "\n> Planning estimates, not design certificates: read the cautions at the end before "
@@ -263,13 +264,16 @@ std::string render_markdown(const ReportDocument& doc, std::string_view figure_d
         o += "\n";
       } else if (const auto* f = std::get_if<Figure>(&b)) {
         const std::string label = "Figure " + std::to_string(++figure_no) + ".";
-        o += "![" + label + " " + md_escape(f->caption) + "](" + std::string(figure_dir) + "/" +
-             f->name + ".svg)\n\n*" + label + "* " + md_escape(f->caption) + "\n\n";
+        const std::string caption = md_escape(f->caption);
+        o += "![" + label + " " + caption + "](";
+        o += std::string(figure_dir) + "/" + f->name + ".svg)\n\n*";
+        o += label + "* " + caption + "\n\n";
       }
     }
   }
   o += "## Inputs and assumptions\n\n";
-  for (const auto& in : doc.inputs) o += "- " + md_escape(in.name) + ": " + md_escape(in.value) + "\n";
+  for (const auto& in : doc.inputs)
+    o += "- " + md_escape(in.name) + ": " + md_escape(in.value) + "\n";
   if (!doc.assumptions.empty()) {
     o += "\n### Assumptions\n\n";
     for (const auto& a : doc.assumptions) o += "- " + md_escape(a) + "\n";

@@ -15,10 +15,14 @@ Colour series_colour(std::size_t i, double alpha) {
 
 std::vector<double> series_dash(std::size_t i) {
   switch (i % 4) {
-    case 0: return {};
-    case 1: return {9, 4};
-    case 2: return {4, 3};
-    default: return {9, 3, 2, 3};
+    case 0:
+      return {};
+    case 1:
+      return {9, 4};
+    case 2:
+      return {4, 3};
+    default:
+      return {9, 3, 2, 3};
   }
 }
 
@@ -27,8 +31,9 @@ Colour viridis(double t) {
   // rounded to 8 bits). Linear interpolation between them stays within 5.3/255 of matplotlib's
   // 256-entry table (measured on 2001 points; checked by tests/report/plots_test.cpp).
   static constexpr std::array<const char*, 17> anchors{
-      "#440154", "#48186a", "#472d7b", "#424086", "#3b528b", "#33638d", "#2c728e", "#26828e", "#21918c",
-      "#1fa088", "#28ae80", "#3fbc73", "#5ec962", "#84d44b", "#addc30", "#d8e219", "#fde725"};
+      "#440154", "#48186a", "#472d7b", "#424086", "#3b528b", "#33638d",
+      "#2c728e", "#26828e", "#21918c", "#1fa088", "#28ae80", "#3fbc73",
+      "#5ec962", "#84d44b", "#addc30", "#d8e219", "#fde725"};
   if (!std::isfinite(t)) t = 0;
   t = std::clamp(t, 0.0, 1.0) * 16.0;
   const auto k = std::min<std::size_t>(15, static_cast<std::size_t>(t));

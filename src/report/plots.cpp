@@ -66,7 +66,9 @@ std::vector<std::string> wrap(const std::string& text, double size, double room,
     std::size_t end = text.find(' ', pos);
     if (end == std::string::npos) end = text.size();
     const std::string word = text.substr(pos, end - pos);
-    const std::string trial = line.empty() ? word : line + " " + word;
+    std::string trial = line;
+    if (!trial.empty()) trial += ' ';
+    trial += word;
     if (!line.empty() && Canvas::text_width_px(trial, size, bold) > room) {
       lines.push_back(line);
       line = word;
@@ -87,8 +89,9 @@ void check_raster(const std::string& title, const RasterView& r) {
   const std::string where = "map '" + title + "'";
   if (r.columns <= 0 || r.rows <= 0 ||
       r.values.size() != static_cast<std::size_t>(r.columns) * static_cast<std::size_t>(r.rows)) {
-    throw InputError(where, "raster has " + std::to_string(r.values.size()) + " values for " +
-                                std::to_string(r.columns) + " x " + std::to_string(r.rows) + " cells",
+    throw InputError(where,
+                     "raster has " + std::to_string(r.values.size()) + " values for " +
+                         std::to_string(r.columns) + " x " + std::to_string(r.rows) + " cells",
                      "pass the values row-major, columns times rows");
   }
   if (!(r.cell_size_m > 0) || !std::isfinite(r.cell_size_m)) {
@@ -113,7 +116,8 @@ MapFrame fit_map(const RasterView& r, double legend_w, double legend_h) {
   const double room_h = 560 - top - bottom_margin;
   const double s = std::min(room_w / r.columns, room_h / r.rows);
   const double h = s * r.rows;
-  const double canvas_h = std::max({top + h + bottom_margin, top + legend_h + bottom_margin, 300.0});
+  const double canvas_h =
+      std::max({top + h + bottom_margin, top + legend_h + bottom_margin, 300.0});
   return {left, top, s * r.columns, h, s, static_cast<int>(std::ceil(canvas_h))};
 }
 
@@ -153,7 +157,7 @@ void add_title(Canvas& c, const std::string& title) {
   if (title.empty()) return;
   double size = 16;
   while (size > 11 && Canvas::text_width_px(title, size, true) > c.width_px() - 28) size -= 0.5;
-  c.add(TextItem{{14, 26}, title, size, TextAnchor::start, 0, true, ink, "title"});
+  c.text({14, 26}, title, size, TextAnchor::start, ink, "title", 0, true);
 }
 
 std::string length_text(double m) {
@@ -163,26 +167,26 @@ std::string length_text(double m) {
 
 // Frame, scale bar (bottom left) and north arrow (top right) over the map image.
 void add_map_furniture(Canvas& c, const RasterView& r, const MapFrame& f) {
-  c.add(PathItem{rect(f.x, f.y, f.w, f.h), true, axis_grey, 1.0, {}, std::nullopt, false, "map-frame"});
+  c.polygon(rect(f.x, f.y, f.w, f.h), std::nullopt, axis_grey, 1.0, "map-frame");
   const double map_width_m = r.columns * r.cell_size_m;
   const double bar_m = scale_bar_length_m(map_width_m / 4);
   const double bar_px = bar_m / r.cell_size_m * f.px_per_cell;
   const std::string label = length_text(bar_m);
   const double label_w = Canvas::text_width_px(label, 11);
   const double bx = f.x + 14, by = f.y + f.h - 14;
-  c.add(PathItem{rect(bx - 10, by - 20, bar_px + label_w / 2 + 20, 32), true, Colour{0xbb, 0xbb, 0xbb},
-                 0.8, {}, Colour{0xff, 0xff, 0xff, 0.85}, false, "scale-bar"});
-  c.add(PathItem{rect(bx, by, bar_px / 2, 6), true, ink, 1.0, {}, ink, false, "scale-bar"});
-  c.add(PathItem{rect(bx + bar_px / 2, by, bar_px / 2, 6), true, ink, 1.0, {}, white, false, "scale-bar"});
-  c.add(TextItem{{bx, by - 5}, "0", 11, TextAnchor::middle, 0, false, ink, "scale-label"});
-  c.add(TextItem{{bx + bar_px, by - 5}, label, 11, TextAnchor::middle, 0, false, ink, "scale-label"});
+  c.polygon(rect(bx - 10, by - 20, bar_px + label_w / 2 + 20, 32), Colour{0xff, 0xff, 0xff, 0.85},
+            Colour{0xbb, 0xbb, 0xbb}, 0.8, "scale-bar");
+  c.polygon(rect(bx, by, bar_px / 2, 6), ink, ink, 1.0, "scale-bar");
+  c.polygon(rect(bx + bar_px / 2, by, bar_px / 2, 6), white, ink, 1.0, "scale-bar");
+  c.text({bx, by - 5}, "0", 11, TextAnchor::middle, ink, "scale-label");
+  c.text({bx + bar_px, by - 5}, label, 11, TextAnchor::middle, ink, "scale-label");
   // North arrow: rows run north to south, so north is up the page.
   const double nx = f.x + f.w - 22, ny = f.y + 10;
-  c.add(PathItem{rect(nx - 12, ny - 2, 24, 42), true, Colour{0xbb, 0xbb, 0xbb}, 0.8, {},
-                 Colour{0xff, 0xff, 0xff, 0.85}, false, "north-arrow"});
-  c.add(PathItem{{{nx, ny + 2}, {nx + 7, ny + 22}, {nx, ny + 17}, {nx - 7, ny + 22}}, true, ink, 1.0,
-                 {}, ink, false, "north-arrow"});
-  c.add(TextItem{{nx, ny + 36}, "N", 12, TextAnchor::middle, 0, true, ink, "north-label"});
+  c.polygon(rect(nx - 12, ny - 2, 24, 42), Colour{0xff, 0xff, 0xff, 0.85}, Colour{0xbb, 0xbb, 0xbb},
+            0.8, "north-arrow");
+  c.polygon({{nx, ny + 2}, {nx + 7, ny + 22}, {nx, ny + 17}, {nx - 7, ny + 22}}, ink, ink, 1.0,
+            "north-arrow");
+  c.text({nx, ny + 36}, "N", 12, TextAnchor::middle, ink, "north-label", 0, true);
 }
 
 }  // namespace
@@ -202,7 +206,8 @@ Canvas return_level_plot(const ReturnLevelPlotInput& in) {
   const std::size_t n = in.return_period_yr.size();
   if (in.level_m.size() != n || (!in.lower_m.empty() && in.lower_m.size() != n) ||
       (!in.upper_m.empty() && in.upper_m.size() != n) || in.lower_m.empty() != in.upper_m.empty()) {
-    throw InputError(where, "the curve's return periods, levels and interval bounds differ in length",
+    throw InputError(where,
+                     "the curve's return periods, levels and interval bounds differ in length",
                      "give one level (and one lower and upper bound) per return period");
   }
   std::vector<double> maxima;
@@ -216,17 +221,43 @@ Canvas return_level_plot(const ReturnLevelPlotInput& in) {
   spec.x.log = true;
   spec.y.label = level_label("Still-water level", in.datum);
   if (!in.lower_m.empty()) {
-    spec.series.push_back(Series{"95% interval", SeriesStyle::band, in.return_period_yr, in.lower_m,
-                                 in.upper_m, series_colour(0), 0, {}, MarkerShape::circle, 0, 0.22});
+    spec.series.push_back(Series{"95% interval",
+                                 SeriesStyle::band,
+                                 in.return_period_yr,
+                                 in.lower_m,
+                                 in.upper_m,
+                                 series_colour(0),
+                                 0,
+                                 {},
+                                 MarkerShape::circle,
+                                 0,
+                                 0.22});
   }
   if (n > 0) {
-    spec.series.push_back(Series{in.model_name, SeriesStyle::line, in.return_period_yr, in.level_m, {},
-                                 series_colour(0), 2.4, {}, MarkerShape::circle, 0, 0});
+    spec.series.push_back(Series{in.model_name,
+                                 SeriesStyle::line,
+                                 in.return_period_yr,
+                                 in.level_m,
+                                 {},
+                                 series_colour(0),
+                                 2.4,
+                                 {},
+                                 MarkerShape::circle,
+                                 0,
+                                 0});
   }
   if (!maxima.empty()) {
-    spec.series.push_back(Series{"Annual maxima (Gringorten positions)", SeriesStyle::markers,
-                                 gringorten_return_periods_yr(maxima.size()), maxima, {},
-                                 series_colour(1), 0, {}, MarkerShape::circle, 7, 0});
+    spec.series.push_back(Series{"Annual maxima (Gringorten positions)",
+                                 SeriesStyle::markers,
+                                 gringorten_return_periods_yr(maxima.size()),
+                                 maxima,
+                                 {},
+                                 series_colour(1),
+                                 0,
+                                 {},
+                                 MarkerShape::circle,
+                                 7,
+                                 0});
   }
   return render_chart(spec);
 }
@@ -235,7 +266,8 @@ Canvas projection_fan_chart(const FanChartInput& in) {
   const std::size_t n = in.years.size();
   for (const auto* q : {&in.q05_m, &in.q17_m, &in.q50_m, &in.q83_m, &in.q95_m}) {
     if (q->size() != n) {
-      throw InputError("plot '" + in.title + "'", "a quantile series differs in length from the years",
+      throw InputError("plot '" + in.title + "'",
+                       "a quantile series differs in length from the years",
                        "give the 5, 17, 50, 83 and 95% quantiles for every year");
     }
   }
@@ -243,35 +275,72 @@ Canvas projection_fan_chart(const FanChartInput& in) {
   ChartSpec spec;
   spec.title = in.title;
   spec.x = year_axis();
-  spec.y.label = "Relative sea-level rise" + (in.baseline.empty() ? "" : " " + in.baseline) + " (m)";
+  spec.y.label =
+      "Relative sea-level rise" + (in.baseline.empty() ? "" : " " + in.baseline) + " (m)";
   spec.y.include_zero = true;
   const Colour c = series_colour(0);
-  spec.series.push_back(Series{"5\u201395% range", SeriesStyle::band, in.years, in.q05_m, in.q95_m, c, 0,
-                               {}, MarkerShape::circle, 0, 0.16});
-  spec.series.push_back(Series{"17\u201383% range", SeriesStyle::band, in.years, in.q17_m, in.q83_m, c, 0,
-                               {}, MarkerShape::circle, 0, 0.32});
-  spec.series.push_back(Series{"Median, total", SeriesStyle::line, in.years, in.q50_m, {}, c, 2.6, {},
-                               MarkerShape::circle, 0, 0});
+  spec.series.push_back(Series{"5\u201395% range",
+                               SeriesStyle::band,
+                               in.years,
+                               in.q05_m,
+                               in.q95_m,
+                               c,
+                               0,
+                               {},
+                               MarkerShape::circle,
+                               0,
+                               0.16});
+  spec.series.push_back(Series{"17\u201383% range",
+                               SeriesStyle::band,
+                               in.years,
+                               in.q17_m,
+                               in.q83_m,
+                               c,
+                               0,
+                               {},
+                               MarkerShape::circle,
+                               0,
+                               0.32});
+  spec.series.push_back(Series{"Median, total",
+                               SeriesStyle::line,
+                               in.years,
+                               in.q50_m,
+                               {},
+                               c,
+                               2.6,
+                               {},
+                               MarkerShape::circle,
+                               0,
+                               0});
   for (std::size_t i = 0; i < in.component_medians_m.size(); ++i) {
     const auto& comp = in.component_medians_m[i];
-    spec.series.push_back(Series{"Median, " + comp.name, SeriesStyle::line, in.years, comp.values, {},
-                                 series_colour(i + 1), 1.6, series_dash(i + 1), MarkerShape::circle,
-                                 0, 0});
+    spec.series.push_back(Series{"Median, " + comp.name,
+                                 SeriesStyle::line,
+                                 in.years,
+                                 comp.values,
+                                 {},
+                                 series_colour(i + 1),
+                                 1.6,
+                                 series_dash(i + 1),
+                                 MarkerShape::circle,
+                                 0,
+                                 0});
   }
   return render_chart(spec);
 }
 
-Canvas allowance_plot(const std::vector<double>& years, const std::vector<NamedSeries>& per_scenario_m,
-                      const std::string& title) {
+Canvas allowance_plot(const std::vector<double>& years,
+                      const std::vector<NamedSeries>& per_scenario_m, const std::string& title) {
   AxisSpec y;
   y.label = "Allowance (m)";
   y.include_zero = true;
   return lines_by_x(title, year_axis(), y, years, per_scenario_m);
 }
 
-Canvas design_height_plot(const std::vector<double>& years, const std::vector<NamedSeries>& per_scenario_m,
-                          const std::string& datum, std::optional<double> present_level_m,
-                          const std::string& present_label, const std::string& title) {
+Canvas design_height_plot(const std::vector<double>& years,
+                          const std::vector<NamedSeries>& per_scenario_m, const std::string& datum,
+                          std::optional<double> present_level_m, const std::string& present_label,
+                          const std::string& title) {
   AxisSpec y;
   y.label = level_label("Design height", datum);
   std::vector<ReferenceLine> refs;
@@ -296,13 +365,15 @@ Canvas design_life_risk_plot(const std::vector<double>& heights_m,
   x.tight = true;
   x.target_ticks = 9;
   AxisSpec y;
-  y.label = "Chance of one or more exceedances" + (design_life.empty() ? "" : ", " + design_life) + " (%)";
+  y.label = "Chance of one or more exceedances" + (design_life.empty() ? "" : ", " + design_life) +
+            " (%)";
   y.min = 0;
   y.max = 1;
   y.label_scale = 100;
   std::vector<ReferenceLine> refs;
   if (target_risk) {
-    refs.push_back(ReferenceLine{true, *target_risk, "target " + fixed(*target_risk * 100, 0) + "%"});
+    refs.push_back(
+        ReferenceLine{true, *target_risk, "target " + fixed(*target_risk * 100, 0) + "%"});
   }
   return lines_by_x(title, x, y, heights_m, probability_per_scenario, refs);
 }
@@ -330,7 +401,8 @@ Canvas continuous_map(const ContinuousMapInput& in) {
   if (in.min) lo = *in.min;
   if (in.max) hi = *in.max;
   if (!std::isfinite(lo) || !std::isfinite(hi)) {
-    throw InputError("map '" + in.title + "'", "every cell is nodata", "check the raster and its nodata value");
+    throw InputError("map '" + in.title + "'", "every cell is nodata",
+                     "check the raster and its nodata value");
   }
   if (hi <= lo) hi = lo + 1;
   constexpr double legend_w = 150;
@@ -348,7 +420,7 @@ Canvas continuous_map(const ContinuousMapInput& in) {
   const double lx = f.x + f.w + 24;
   double ly = f.y + 14;
   for (const auto& line : title_lines) {
-    c.add(TextItem{{lx, ly}, line, 12, TextAnchor::start, 0, true, ink, "legend-title"});
+    c.text({lx, ly}, line, 12, TextAnchor::start, ink, "legend-title", 0, true);
     ly += 16;
   }
   const double bar_top = ly + 4, bar_w = 18;
@@ -359,22 +431,19 @@ Canvas continuous_map(const ContinuousMapInput& in) {
     ramp.rgba.insert(ramp.rgba.end(), {col.r, col.g, col.b, 255});
   }
   c.add(std::move(ramp));
-  c.add(PathItem{rect(lx, bar_top, bar_w, bar_h), true, axis_grey, 0.8, {}, std::nullopt, false, "legend"});
+  c.polygon(rect(lx, bar_top, bar_w, bar_h), std::nullopt, axis_grey, 0.8, "legend");
   if (!in.blank_label.empty()) {
     const double sy = bar_top + bar_h + 16;
-    c.add(PathItem{rect(lx, sy, bar_w, 12), true, axis_grey, 0.8, {}, white, false, "legend-swatch"});
-    c.add(TextItem{{lx + bar_w + 7, sy + 10}, in.blank_label, 11, TextAnchor::start, 0, false, ink,
-                   "legend-label"});
+    c.polygon(rect(lx, sy, bar_w, 12), white, axis_grey, 0.8, "legend-swatch");
+    c.text({lx + bar_w + 7, sy + 10}, in.blank_label, 11, TextAnchor::start, ink, "legend-label");
   }
   const AxisTicks t = linear_ticks(lo * in.label_scale, hi * in.label_scale, 5);
   for (std::size_t i = 0; i < t.major.size(); ++i) {
     const double v = t.major[i] / in.label_scale;
     if (v < lo - 1e-9 * std::abs(hi - lo) || v > hi + 1e-9 * std::abs(hi - lo)) continue;
     const double y = bar_top + bar_h * (1 - (v - lo) / (hi - lo));
-    c.add(PathItem{{{lx + bar_w, y}, {lx + bar_w + 4, y}}, false, axis_grey, 1.0, {}, std::nullopt,
-                   false, "tick"});
-    c.add(TextItem{{lx + bar_w + 7, y + 4}, t.labels[i], 11, TextAnchor::start, 0, false, ink,
-                   "legend-label"});
+    c.line({{lx + bar_w, y}, {lx + bar_w + 4, y}}, axis_grey, 1.0, "tick");
+    c.text({lx + bar_w + 7, y + 4}, t.labels[i], 11, TextAnchor::start, ink, "legend-label");
   }
   return c;
 }
@@ -388,7 +457,8 @@ std::vector<MapCategory> extent_categories() {
 Canvas categorical_map(const CategoricalMapInput& in) {
   check_raster(in.title, in.raster);
   if (in.categories.empty()) {
-    throw InputError("map '" + in.title + "'", "no categories given", "pass the map's classes with labels");
+    throw InputError("map '" + in.title + "'", "no categories given",
+                     "pass the map's classes with labels");
   }
   const RasterView& r = in.raster;
   double legend_w = Canvas::text_width_px(in.legend_title, 12, true);
@@ -398,7 +468,8 @@ Canvas categorical_map(const CategoricalMapInput& in) {
   legend_w = std::min(legend_w, 220.0);
   double legend_h = 26;
   for (const auto& cat : in.categories) {
-    legend_h += std::max(22.0, 15.0 * static_cast<double>(wrap(cat.label, 12, legend_w - 22, false).size()) + 7);
+    legend_h += std::max(
+        22.0, 15.0 * static_cast<double>(wrap(cat.label, 12, legend_w - 22, false).size()) + 7);
   }
   const MapFrame f = fit_map(r, legend_w, legend_h);
   Canvas c(map_canvas_width_px, f.canvas_height_px, in.title);
@@ -414,14 +485,14 @@ Canvas categorical_map(const CategoricalMapInput& in) {
   add_title(c, in.title);
   const double lx = f.x + f.w + 24;
   double ly = f.y + 14;
-  c.add(TextItem{{lx, ly}, in.legend_title, 12, TextAnchor::start, 0, true, ink, "legend-title"});
+  c.text({lx, ly}, in.legend_title, 12, TextAnchor::start, ink, "legend-title", 0, true);
   ly += 12;
   for (const auto& cat : in.categories) {
     const auto lines = wrap(cat.label, 12, legend_w - 22, false);
-    c.add(PathItem{rect(lx, ly, 14, 14), true, axis_grey, 0.8, {}, cat.colour, false, "legend-swatch"});
+    c.polygon(rect(lx, ly, 14, 14), cat.colour, axis_grey, 0.8, "legend-swatch");
     double ty = ly + 11;
     for (const auto& line : lines) {
-      c.add(TextItem{{lx + 22, ty}, line, 12, TextAnchor::start, 0, false, ink, "legend-label"});
+      c.text({lx + 22, ty}, line, 12, TextAnchor::start, ink, "legend-label");
       ty += 15;
     }
     ly += std::max(22.0, 15.0 * static_cast<double>(lines.size()) + 7);

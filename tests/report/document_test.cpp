@@ -25,21 +25,25 @@ tr::ReportDocument small_document() {
   doc.date = "2026-12-01";
   doc.tool_version = "tidewright 0.1.0";
   doc.summary = "Levels are metres above CD.";
-  tr::Table t{"design_heights", "Design heights, a < b.", {{"Year", ""}, {"Design height", "m above CD"}}, {}};
+  tr::Table t{"design_heights",
+              "Design heights, a < b.",
+              {{"Year", ""}, {"Design height", "m above CD"}},
+              {}};
   t.add_row({"2050", "2.91"});
   t.add_row({"2100", "3.40"});
   tr::Table odd{"odd_cells", "Cells that need quoting.", {{"Note", ""}, {"Value", "m"}}, {}};
   odd.add_row({"a, \"b\"", "1.0"});
   odd.add_row({"x | y", "\u22120.2"});
-  tr::Section answers{"Answers", {tr::Paragraph{"First <b>answer</b> & more."}, std::move(t),
-                                  tr::BulletList{{"one", "two & three"}}}};
+  tr::Section answers{"Answers",
+                      {tr::Paragraph{"First <b>answer</b> & more."}, std::move(t),
+                       tr::BulletList{{"one", "two & three"}}}};
   tr::Section evidence{"Evidence", {tr::Subheading{"Fit"}, std::move(odd)}};
-  evidence.blocks.emplace_back(tr::Figure{
-      "allowance", "Allowance by year.",
-      tr::allowance_plot({2030, 2050, 2100}, {{"Scenario A", {0.1, 0.2, 0.5}}})});
-  evidence.blocks.emplace_back(tr::Figure{
-      "allowance_b", "Allowance again.",
-      tr::allowance_plot({2030, 2050, 2100}, {{"Scenario B", {0.2, 0.3, 0.6}}})});
+  evidence.blocks.emplace_back(
+      tr::Figure{"allowance", "Allowance by year.",
+                 tr::allowance_plot({2030, 2050, 2100}, {{"Scenario A", {0.1, 0.2, 0.5}}})});
+  evidence.blocks.emplace_back(
+      tr::Figure{"allowance_b", "Allowance again.",
+                 tr::allowance_plot({2030, 2050, 2100}, {{"Scenario B", {0.2, 0.3, 0.6}}})});
   doc.sections = {std::move(answers), std::move(evidence)};
   doc.inputs = {{"Record", "gauge.csv"}};
   doc.assumptions = {"Stationary storms."};
@@ -64,7 +68,8 @@ TEST(HtmlEscape, EscapesTheFiveSpecialCharacters) {
 
 TEST(HtmlReport, EscapesAllCallerText) {
   const std::string html = tr::render_html(small_document());
-  EXPECT_NE(html.find("Harbour &lt;North&gt; &amp; &quot;Quay&quot; &#39;B&#39;"), std::string::npos);
+  EXPECT_NE(html.find("Harbour &lt;North&gt; &amp; &quot;Quay&quot; &#39;B&#39;"),
+            std::string::npos);
   EXPECT_EQ(html.find("<North>"), std::string::npos);
   EXPECT_NE(html.find("First &lt;b&gt;answer&lt;/b&gt; &amp; more."), std::string::npos);
   EXPECT_NE(html.find("gaps &gt; 10%"), std::string::npos);
@@ -74,7 +79,8 @@ TEST(HtmlReport, IsSelfContained) {
   const std::string html = tr::render_html(small_document());
   // No network and no files: no URLs, no src attributes, no linked style sheets or scripts, no
   // CSS url() other than references to ids in the same page.
-  for (const char* bad : {"http:", "https:", "src=", "<link", "@import", "<script", "<img", "file:"}) {
+  for (const char* bad :
+       {"http:", "https:", "src=", "<link", "@import", "<script", "<img", "file:"}) {
     EXPECT_EQ(html.find(bad), std::string::npos) << bad;
   }
   const std::regex url_ref(R"(url\((?!#))");
@@ -97,7 +103,8 @@ TEST(HtmlReport, IsBalancedWithWellFormedInlineSvg) {
   EXPECT_EQ(count(html, "id=\"fig1-plot-area\""), 1U);
   EXPECT_EQ(count(html, "id=\"fig2-plot-area\""), 1U);
   // An existing report is not replaced without force.
-  EXPECT_THROW(tr::write_html(small_document(), tmp / "report.html", false), tidewright::InputError);
+  EXPECT_THROW(tr::write_html(small_document(), tmp / "report.html", false),
+               tidewright::InputError);
 }
 
 TEST(HtmlReport, CarriesEveryCautionInTheCautionsBox) {
@@ -114,8 +121,11 @@ TEST(HtmlReport, CarriesEveryCautionInTheCautionsBox) {
 
 TEST(HtmlReport, PartsComeInTheFixedOrder) {
   const std::string html = tr::render_html(small_document());
-  const std::vector<std::string> order{"class=\"title-block\"", "<h2>Answers</h2>", "<h2>Evidence</h2>",
-                                       "<h2>Inputs and assumptions</h2>", "<h2>Methods and references</h2>",
+  const std::vector<std::string> order{"class=\"title-block\"",
+                                       "<h2>Answers</h2>",
+                                       "<h2>Evidence</h2>",
+                                       "<h2>Inputs and assumptions</h2>",
+                                       "<h2>Methods and references</h2>",
                                        "<h2>Cautions</h2>"};
   std::size_t last = 0;
   for (const auto& part : order) {
@@ -141,7 +151,8 @@ TEST(HtmlReport, SameDocumentGivesIdenticalBytes) {
 TEST(MarkdownReport, HasTheSamePartsEscaped) {
   const std::string md = tr::render_markdown(small_document(), "plots");
   EXPECT_NE(md.find("## Answers\n"), std::string::npos);
-  EXPECT_NE(md.find("| Year | Design height (m above CD) |\n| --- | --- |\n| 2050 | 2.91 |"), std::string::npos);
+  EXPECT_NE(md.find("| Year | Design height (m above CD) |\n| --- | --- |\n| 2050 | 2.91 |"),
+            std::string::npos);
   EXPECT_NE(md.find("x \\| y"), std::string::npos);
   EXPECT_NE(md.find("](plots/allowance.svg)"), std::string::npos);
   EXPECT_NE(md.find("Harbour \\<North\\>"), std::string::npos);
@@ -164,7 +175,8 @@ TEST(TableCsv, WritesEveryTableAndRefusesBadNames) {
   const auto doc = small_document();
   const auto paths = tr::write_tables_csv(doc, tmp.path(), false);
   ASSERT_EQ(paths.size(), 2U);
-  EXPECT_EQ(tt::read_all(tmp / "design_heights.csv"), "Year,Design height (m above CD)\n2050,2.91\n2100,3.40\n");
+  EXPECT_EQ(tt::read_all(tmp / "design_heights.csv"),
+            "Year,Design height (m above CD)\n2050,2.91\n2100,3.40\n");
   EXPECT_THROW((void)tr::write_tables_csv(doc, tmp.path(), false), tidewright::InputError);
   EXPECT_NO_THROW((void)tr::write_tables_csv(doc, tmp.path(), true));
 

@@ -25,7 +25,8 @@ std::pair<int, int> png_size(const std::string& png) {
     return {-1, -1};
   }
   auto be32 = [&](std::size_t at) {
-    return (static_cast<unsigned char>(png[at]) << 24) | (static_cast<unsigned char>(png[at + 1]) << 16) |
+    return (static_cast<unsigned char>(png[at]) << 24) |
+           (static_cast<unsigned char>(png[at + 1]) << 16) |
            (static_cast<unsigned char>(png[at + 2]) << 8) | static_cast<unsigned char>(png[at + 3]);
   };
   return {static_cast<int>(be32(16)), static_cast<int>(be32(20))};
@@ -116,7 +117,8 @@ TEST(Chart, LogAxisPutsEachDecadeAnEqualDistanceApart) {
   spec.x.min = 1;
   spec.x.max = 100;
   spec.y.label = "y";
-  spec.series.push_back(tr::Series{"points", tr::SeriesStyle::markers, {1, 10, 100, 3.16227766}, {1, 2, 3, 4}});
+  spec.series.push_back(
+      tr::Series{"points", tr::SeriesStyle::markers, {1, 10, 100, 3.16227766}, {1, 2, 3, 4}});
   const auto s = svg_summary(tr::render_chart(spec));
   const auto& clip = s["clip"];
   ASSERT_EQ(clip.size(), 4U);
@@ -146,6 +148,27 @@ TEST(Chart, LinearAxisMapsLimitsToThePlotEdges) {
   EXPECT_NEAR(cy[0].get<double>(), top + height, 0.01);         // y = 0 at the bottom
   EXPECT_NEAR(cy[1].get<double>(), top + 0.75 * height, 0.01);  // y = 2.5
   EXPECT_NEAR(cy[2].get<double>(), top, 0.01);                  // y = 10 at the top
+}
+
+TEST(Chart, LegendGoesInAnEmptyCornerOrBesideThePlot) {
+  tr::ChartSpec spec;
+  spec.x.label = "x";
+  spec.y.label = "y";
+  spec.x.min = spec.y.min = 0;
+  spec.x.max = spec.y.max = 1;
+  // Data only near the bottom right: the legend fits in the top left.
+  spec.series.push_back(
+      tr::Series{"points", tr::SeriesStyle::markers, {0.8, 0.9, 1.0}, {0.0, 0.1, 0.2}});
+  auto s = svg_summary(tr::render_chart(spec));
+  const double left = s["clip"][0].get<double>();
+  const double right = left + s["clip"][2].get<double>();
+  EXPECT_LT(s["legend_marker_cx"].get<double>(), left + (right - left) / 2);
+  // A zigzag through all four corners: the legend moves right of a narrower plot area.
+  spec.series.push_back(tr::Series{"zigzag", tr::SeriesStyle::line, {0, 1, 0, 1}, {0, 1, 1, 0}});
+  s = svg_summary(tr::render_chart(spec));
+  const double right2 = s["clip"][0].get<double>() + s["clip"][2].get<double>();
+  EXPECT_LT(right2, right);
+  EXPECT_GT(s["legend_marker_cx"].get<double>(), right2);
 }
 
 TEST(Chart, TextIsEscapedAndReadsBackUnchanged) {
@@ -181,7 +204,8 @@ TEST(Plots, SameInputGivesByteIdenticalOutput) {
   EXPECT_EQ(a.to_svg(), b.to_svg());
   EXPECT_EQ(a.to_png(), b.to_png());
   tr::RasterView r{40, 30, std::vector<float>(1200, 0.5F), 10.0, std::nullopt};
-  for (std::size_t i = 0; i < r.values.size(); ++i) r.values[i] = static_cast<float>(i % 97) / 97.0F;
+  for (std::size_t i = 0; i < r.values.size(); ++i)
+    r.values[i] = static_cast<float>(i % 97) / 97.0F;
   const auto m1 = tr::continuous_map({"m", r, "Depth (m)"});
   const auto m2 = tr::continuous_map({"m", r, "Depth (m)"});
   EXPECT_EQ(m1.to_svg(), m2.to_svg());
@@ -216,8 +240,10 @@ TEST(FanChart, BandsMedianAndComponentsAreLabelled) {
 
 TEST(ByYearPlots, AxesCarryUnitsAndDatum) {
   const std::vector<double> years{2030, 2050, 2100};
-  const std::vector<tr::NamedSeries> s{{"Scenario A", {0.1, 0.2, 0.5}}, {"Scenario B", {0.2, 0.3, 0.8}}};
-  const auto design = svg_summary(tr::design_height_plot(years, s, "CD", 2.1, "present 100-year level"));
+  const std::vector<tr::NamedSeries> s{{"Scenario A", {0.1, 0.2, 0.5}},
+                                       {"Scenario B", {0.2, 0.3, 0.8}}};
+  const auto design =
+      svg_summary(tr::design_height_plot(years, s, "CD", 2.1, "present 100-year level"));
   EXPECT_TRUE(has_text(design, "Design height (m above CD)"));
   EXPECT_TRUE(has_text(design, "present 100-year level"));
   EXPECT_TRUE(has_text(design, "Scenario B"));
@@ -226,10 +252,11 @@ TEST(ByYearPlots, AxesCarryUnitsAndDatum) {
   const auto amp = svg_summary(tr::amplification_plot(years, {{"100-year level", {3, 20, 900}}}));
   EXPECT_TRUE(has_text(amp, "Amplification factor (times present frequency)"));
   // 3..900 spans under three decades: 1-2-5 labels from 2 (the nearest step below 3) to 1000.
-  for (const char* label : {"2", "5", "10", "100", "1000"}) EXPECT_TRUE(has_text(amp, label)) << label;
+  for (const char* label : {"2", "5", "10", "100", "1000"})
+    EXPECT_TRUE(has_text(amp, label)) << label;
   EXPECT_FALSE(has_text(amp, "1"));
-  const auto risk = svg_summary(tr::design_life_risk_plot({2.0, 2.5, 3.0}, {{"A", {0.9, 0.3, 0.05}}}, "CD",
-                                                          "2030\u20132080", 0.1));
+  const auto risk = svg_summary(tr::design_life_risk_plot(
+      {2.0, 2.5, 3.0}, {{"A", {0.9, 0.3, 0.05}}}, "CD", "2030\u20132080", 0.1));
   EXPECT_TRUE(has_text(risk, "Height (m above CD)"));
   EXPECT_TRUE(has_text(risk, "target 10%"));
   EXPECT_TRUE(has_text(risk, "100"));  // probability axis in percent
@@ -252,7 +279,8 @@ TEST(Maps, ContinuousMapIsDownsampledAndCarriesLegendScaleAndNorth) {
   r.values.resize(static_cast<std::size_t>(r.columns) * r.rows);
   for (int i = 0; i < r.rows; ++i) {
     for (int j = 0; j < r.columns; ++j) {
-      r.values[static_cast<std::size_t>(i) * r.columns + j] = j < 300 ? -9999.0F : static_cast<float>(j) / 1000.0F;
+      r.values[static_cast<std::size_t>(i) * r.columns + j] =
+          j < 300 ? -9999.0F : static_cast<float>(j) / 1000.0F;
     }
   }
   const tr::Canvas c = tr::continuous_map({"Depth map", r, "Flood depth (m)"});
@@ -277,7 +305,8 @@ TEST(Maps, CategoricalMapPaintsEachClassItsColour) {
   r.cell_size_m = 10.0;
   r.values.resize(5000);
   for (int i = 0; i < 50; ++i) {
-    for (int j = 0; j < 100; ++j) r.values[static_cast<std::size_t>(i) * 100 + j] = j < 50 ? 1.0F : 2.0F;
+    for (int j = 0; j < 100; ++j)
+      r.values[static_cast<std::size_t>(i) * 100 + j] = j < 50 ? 1.0F : 2.0F;
   }
   tr::CategoricalMapInput in;
   in.title = "Extent";
@@ -287,9 +316,11 @@ TEST(Maps, CategoricalMapPaintsEachClassItsColour) {
   for (const auto& cat : tr::extent_categories()) EXPECT_TRUE(has_text(s, cat.label)) << cat.label;
   ASSERT_EQ(s["images"].size(), 1U);
   const auto& im = s["images"][0];
-  const double x = im[2].get<double>(), y = im[3].get<double>(), w = im[4].get<double>(), h = im[5].get<double>();
+  const double x = im[2].get<double>(), y = im[3].get<double>(), w = im[4].get<double>(),
+               h = im[5].get<double>();
   const auto at = [&](double fx, double fy) {
-    return std::to_string(static_cast<int>(x + fx * w)) + " " + std::to_string(static_cast<int>(y + fy * h));
+    return std::to_string(static_cast<int>(x + fx * w)) + " " +
+           std::to_string(static_cast<int>(y + fy * h));
   };
   const auto left = png_summary(c, at(0.3, 0.4))["pixel"];
   const auto right = png_summary(c, at(0.7, 0.4))["pixel"];
@@ -301,8 +332,9 @@ TEST(Maps, CategoricalMapPaintsEachClassItsColour) {
 TEST(Palette, ViridisFollowsMatplotlib) {
   // Computed with Debian python3-matplotlib 3.6.3: round(255 * cm.viridis(t)[:3]).
   const std::vector<std::pair<double, std::array<int, 3>>> reference{
-      {0.0, {68, 1, 84}},      {0.03125, {71, 13, 96}},   {0.3, {53, 95, 141}}, {0.5, {33, 145, 140}},
-      {0.77, {105, 205, 91}}, {0.90625, {194, 223, 35}}, {1.0, {253, 231, 37}}};
+      {0.0, {68, 1, 84}},    {0.03125, {71, 13, 96}}, {0.3, {53, 95, 141}},
+      {0.5, {33, 145, 140}}, {0.77, {105, 205, 91}},  {0.90625, {194, 223, 35}},
+      {1.0, {253, 231, 37}}};
   for (const auto& [t, rgb] : reference) {
     const tr::Colour c = tr::viridis(t);
     // Interpolating 17 anchors: within 5.3/255 of the 256-entry table (measured; see palette.cpp).
@@ -310,7 +342,7 @@ TEST(Palette, ViridisFollowsMatplotlib) {
     EXPECT_NEAR(c.g, rgb[1], 6) << t;
     EXPECT_NEAR(c.b, rgb[2], 6) << t;
   }
-  EXPECT_EQ(tr::viridis(0.5).hex(), "#21918c");  // an anchor: exact
+  EXPECT_EQ(tr::viridis(0.5).hex(), "#21918c");      // an anchor: exact
   EXPECT_EQ(tr::series_colour(0).hex(), "#0072b2");  // Okabe & Ito (2008) blue
   EXPECT_EQ(tr::series_colour(8), tr::series_colour(0));
 }

@@ -7,9 +7,8 @@
 
 #include <cstdlib>
 #include <filesystem>
-#include <string>
-
 #include <nlohmann/json.hpp>
+#include <string>
 
 #include "support/run_cli.hpp"
 
@@ -47,6 +46,8 @@ def svg_summary(root):
         if tag == 'clipPath':
             r = el[0]
             out["clip"] = [float(r.get(k)) for k in ('x', 'y', 'width', 'height')]
+        if tag == 'circle' and cls == 'legend-marker':
+            out["legend_marker_cx"] = float(el.get('cx'))
         if tag == 'circle' and cls == 'marker':
             out["marker_cx"].append(float(el.get('cx')))
             out["marker_cy"].append(float(el.get('cy')))
@@ -107,8 +108,8 @@ inline nlohmann::json probe_report_file(const std::string& mode, const std::file
     std::fputs(report_probe_script, f);
     std::fclose(f);
   }
-  const std::string cmd = std::string(TIDEWRIGHT_PYTHON) + " " + shell_quote(script.string()) + " " +
-                          mode + " " + shell_quote(file.string()) + " " + extra_args + " >" +
+  const std::string cmd = std::string(TIDEWRIGHT_PYTHON) + " " + shell_quote(script.string()) +
+                          " " + mode + " " + shell_quote(file.string()) + " " + extra_args + " >" +
                           shell_quote(out.string()) + " 2>" + shell_quote(err.string());
   const int status = std::system(cmd.c_str());
   if (status != 0) {

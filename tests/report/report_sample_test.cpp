@@ -43,7 +43,9 @@ double median_rise_m(const Scenario& s, double year) {
   const double t = year - 2020;
   return s.rate_m_per_yr * t + s.acceleration_m_per_yr2 * t * t;
 }
-double sd_rise_m(const Scenario& s, double year) { return s.spread * median_rise_m(s, year) + 0.002 * (year - 2020) / 10; }
+double sd_rise_m(const Scenario& s, double year) {
+  return s.spread * median_rise_m(s, year) + 0.002 * (year - 2020) / 10;
+}
 
 tr::RasterView sample_depth_raster(bool extents) {
   tr::RasterView r;
@@ -56,9 +58,10 @@ tr::RasterView sample_depth_raster(bool extents) {
     for (int j = 0; j < r.columns; ++j) {
       const double x = j / 640.0, y = i / 420.0;
       // Invented terrain: rising inland (east), a ridge at x = 0.55, a hollow behind it.
-      const double ground = 0.2 + 4.5 * x + 1.6 * std::exp(-std::pow((x - 0.55) / 0.05, 2)) -
-                            1.8 * std::exp(-(std::pow((x - 0.72) / 0.08, 2) + std::pow((y - 0.5) / 0.2, 2))) +
-                            0.3 * std::sin(9 * y);
+      const double ground =
+          0.2 + 4.5 * x + 1.6 * std::exp(-std::pow((x - 0.55) / 0.05, 2)) -
+          1.8 * std::exp(-(std::pow((x - 0.72) / 0.08, 2) + std::pow((y - 0.5) / 0.2, 2))) +
+          0.3 * std::sin(9 * y);
       const double level = 2.6;
       float& v = r.values[static_cast<std::size_t>(i) * r.columns + j];
       if (x < 0.08) {
@@ -78,17 +81,22 @@ tr::ReportDocument sample_document() {
   doc.site_name = "Sample Harbour (invented)";
   doc.date = "2026-12-01";
   doc.tool_version = "tidewright 0.1.0";
-  doc.summary = "A sample report from invented numbers, to show every part of the report. "
-                "Levels are in metres above the invented chart datum SD.";
+  doc.summary =
+      "A sample report from invented numbers, to show every part of the report. "
+      "Levels are in metres above the invented chart datum SD.";
 
-  const std::vector<double> years{2020, 2030, 2040, 2050, 2060, 2070, 2080, 2090, 2100, 2110,
-                                  2120, 2130, 2140, 2150};
+  const std::vector<double> years{2020, 2030, 2040, 2050, 2060, 2070, 2080,
+                                  2090, 2100, 2110, 2120, 2130, 2140, 2150};
   // --- answers ----------------------------------------------------------------------------
   tr::Section answers{"Answers", {}};
-  tr::Table heights{"design_heights", "Allowance and design height of the present 100-year level, "
-                                      "by year and scenario (sample numbers).",
-                    {{"Year", ""}, {"Scenario", ""}, {"Allowance", "m"},
-                     {"Design height", "m above SD"}, {"Amplification factor", "\u00d7"}},
+  tr::Table heights{"design_heights",
+                    "Allowance and design height of the present 100-year level, "
+                    "by year and scenario (sample numbers).",
+                    {{"Year", ""},
+                     {"Scenario", ""},
+                     {"Allowance", "m"},
+                     {"Design height", "m above SD"},
+                     {"Amplification factor", "\u00d7"}},
                     {}};
   std::vector<tr::NamedSeries> allowance, design, amplification;
   const double z100 = gumbel_level_m(100);
@@ -96,12 +104,14 @@ tr::ReportDocument sample_document() {
     tr::NamedSeries a{s.name, {}}, d{s.name, {}}, f{s.name, {}};
     for (double y : years) {
       const double mu = median_rise_m(s, y), sd = sd_rise_m(s, y);
-      const double allowance_m = mu + sd * sd / (2 * gumbel_scale_m);  // Hunter (2012), Gumbel + normal
+      const double allowance_m =
+          mu + sd * sd / (2 * gumbel_scale_m);  // Hunter (2012), Gumbel + normal
       a.values.push_back(allowance_m);
       d.values.push_back(z100 + allowance_m);
       f.values.push_back(std::exp(allowance_m / gumbel_scale_m));  // N_t/N_0 for Gumbel tails
       if (static_cast<int>(y) % 50 == 0) {
-        heights.add_row({tr::fixed(y, 0), s.name, tr::fixed(allowance_m, 2), tr::fixed(z100 + allowance_m, 2),
+        heights.add_row({tr::fixed(y, 0), s.name, tr::fixed(allowance_m, 2),
+                         tr::fixed(z100 + allowance_m, 2),
                          tr::significant(std::exp(allowance_m / gumbel_scale_m), 3)});
       }
     }
@@ -109,15 +119,19 @@ tr::ReportDocument sample_document() {
     design.push_back(d);
     amplification.push_back(f);
   }
-  answers.blocks.emplace_back(tr::Paragraph{"Design heights add the allowance to today's 100-year "
-                                            "still-water level of " + tr::fixed(z100, 2) + " m above SD."});
+  answers.blocks.emplace_back(
+      tr::Paragraph{"Design heights add the allowance to today's 100-year "
+                    "still-water level of " +
+                    tr::fixed(z100, 2) + " m above SD."});
   answers.blocks.emplace_back(std::move(heights));
-  answers.blocks.emplace_back(tr::Figure{"allowance", "Allowance by year and scenario (Hunter 2012).",
+  answers.blocks.emplace_back(tr::Figure{"allowance",
+                                         "Allowance by year and scenario (Hunter 2012).",
                                          tr::allowance_plot(years, allowance)});
-  answers.blocks.emplace_back(tr::Figure{"design_heights", "Design height by year and scenario.",
-                                         tr::design_height_plot(years, design, "SD", z100,
-                                                                "present 100-year level")});
-  answers.blocks.emplace_back(tr::Figure{"amplification", "How many times more often today's 100-year "
+  answers.blocks.emplace_back(
+      tr::Figure{"design_heights", "Design height by year and scenario.",
+                 tr::design_height_plot(years, design, "SD", z100, "present 100-year level")});
+  answers.blocks.emplace_back(tr::Figure{"amplification",
+                                         "How many times more often today's 100-year "
                                          "level is reached, by year and scenario.",
                                          tr::amplification_plot(years, amplification)});
   std::vector<double> h;
@@ -135,9 +149,11 @@ tr::ReportDocument sample_document() {
     }
     risk.push_back(p);
   }
-  answers.blocks.emplace_back(tr::Figure{"design_life_risk", "Chance that still water exceeds a "
-                                         "height at least once in 2030-2080.",
-                                         tr::design_life_risk_plot(h, risk, "SD", "2030\u20132080", 0.1)});
+  answers.blocks.emplace_back(
+      tr::Figure{"design_life_risk",
+                 "Chance that still water exceeds a "
+                 "height at least once in 2030-2080.",
+                 tr::design_life_risk_plot(h, risk, "SD", "2030\u20132080", 0.1)});
   doc.sections.push_back(std::move(answers));
 
   // --- evidence ---------------------------------------------------------------------------
@@ -160,7 +176,8 @@ tr::ReportDocument sample_document() {
     rl.upper_m.push_back(gumbel_level_m(t) + 1.96 * se);
   }
   evidence.blocks.emplace_back(tr::Subheading{"Extreme still-water levels"});
-  evidence.blocks.emplace_back(tr::Figure{"return_levels", "Annual maxima at Gringorten plotting positions, "
+  evidence.blocks.emplace_back(tr::Figure{"return_levels",
+                                          "Annual maxima at Gringorten plotting positions, "
                                           "the fitted curve and its 95% interval.",
                                           tr::return_level_plot(rl)});
   tr::FanChartInput fan;
@@ -176,28 +193,34 @@ tr::ReportDocument sample_document() {
     fan.q83_m.push_back(mu + 0.954 * sd);
     fan.q95_m.push_back(mu + 1.645 * sd);
   }
-  for (const auto& [name, share] : std::vector<std::pair<std::string, double>>{
-           {"thermal expansion", 0.35}, {"glaciers", 0.22}, {"ice sheets", 0.33}, {"land motion", 0.10}}) {
+  for (const auto& [name, share] :
+       std::vector<std::pair<std::string, double>>{{"thermal expansion", 0.35},
+                                                   {"glaciers", 0.22},
+                                                   {"ice sheets", 0.33},
+                                                   {"land motion", 0.10}}) {
     tr::NamedSeries c{name, {}};
     for (double m : fan.q50_m) c.values.push_back(share * m);
     fan.component_medians_m.push_back(c);
   }
   evidence.blocks.emplace_back(tr::Subheading{"Projections"});
-  evidence.blocks.emplace_back(tr::Figure{"projection_fan", "Total rise: median and 17-83% and 5-95% "
+  evidence.blocks.emplace_back(tr::Figure{"projection_fan",
+                                          "Total rise: median and 17-83% and 5-95% "
                                           "ranges; components as medians.",
                                           tr::projection_fan_chart(fan)});
   evidence.blocks.emplace_back(tr::Subheading{"Maps"});
-  evidence.blocks.emplace_back(tr::Figure{"flood_depth", "Still-water depth at 2.6 m above SD, "
-                                          "connected cells only.",
-                                          tr::continuous_map({"Flood depth at 2.6 m above SD",
-                                                              sample_depth_raster(false),
-                                                              "Depth (m)", 0.0, std::nullopt, 1.0,
-                                                              "Dry, or sea"})});
+  evidence.blocks.emplace_back(
+      tr::Figure{"flood_depth",
+                 "Still-water depth at 2.6 m above SD, "
+                 "connected cells only.",
+                 tr::continuous_map({"Flood depth at 2.6 m above SD", sample_depth_raster(false),
+                                     "Depth (m)", 0.0, std::nullopt, 1.0, "Dry, or sea"})});
   tr::CategoricalMapInput ext;
   ext.title = "Flood extent at 2.6 m above SD";
   ext.raster = sample_depth_raster(true);
-  evidence.blocks.emplace_back(tr::Figure{"flood_extent", "Cells below 2.6 m above SD, by connection "
-                                          "to the sea.", tr::categorical_map(ext)});
+  evidence.blocks.emplace_back(tr::Figure{"flood_extent",
+                                          "Cells below 2.6 m above SD, by connection "
+                                          "to the sea.",
+                                          tr::categorical_map(ext)});
   doc.sections.push_back(std::move(evidence));
 
   doc.inputs = {{"Record", "invented annual maxima, 48 years"},
@@ -205,12 +228,13 @@ tr::ReportDocument sample_document() {
                 {"Scenarios", "three invented scenarios"}};
   doc.assumptions = {"The record is stationary after removing the mean-sea-level trend.",
                      "Storm statistics do not change with sea level."};
-  doc.methods = {{"Gumbel fit of annual maxima", "Return levels and their intervals.",
-                  "Coles (2001), An Introduction to Statistical Modeling of Extreme Values, Springer."},
-                 {"Plotting positions", "Empirical return periods of the annual maxima.",
-                  "Gringorten (1963), J. Geophys. Res. 68(3):813-814."},
-                 {"Sea-level allowance", "Height that keeps the expected number of exceedances.",
-                  "Hunter (2012), Climatic Change 113:239-252."}};
+  doc.methods = {
+      {"Gumbel fit of annual maxima", "Return levels and their intervals.",
+       "Coles (2001), An Introduction to Statistical Modeling of Extreme Values, Springer."},
+      {"Plotting positions", "Empirical return periods of the annual maxima.",
+       "Gringorten (1963), J. Geophys. Res. 68(3):813-814."},
+      {"Sea-level allowance", "Height that keeps the expected number of exceedances.",
+       "Hunter (2012), Climatic Change 113:239-252."}};
   doc.extra_cautions = {"This sample report is built from invented numbers."};
   return doc;
 }

@@ -13,10 +13,10 @@
 namespace tidewright::report {
 
 struct AxisTicks {
-  double min = 0, max = 1;           // the axis range, widened to the outer ticks
-  std::vector<double> major;         // labelled ticks, ascending
-  std::vector<std::string> labels;   // one a major tick
-  std::vector<double> minor;         // unlabelled ticks (log axes: 2..9 times each decade)
+  double min = 0, max = 1;          // the axis range, widened to the outer ticks
+  std::vector<double> major;        // labelled ticks, ascending
+  std::vector<std::string> labels;  // one a major tick
+  std::vector<double> minor;        // unlabelled ticks (log axes: 2..9 times each decade)
 };
 
 // Heckbert (1990): the nice number near x (round = true) or at least x (round = false);

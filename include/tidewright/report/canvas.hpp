@@ -16,7 +16,7 @@ namespace tidewright::report {
 
 struct Colour {
   std::uint8_t r = 0, g = 0, b = 0;
-  double alpha = 1.0;  // 0 transparent .. 1 opaque
+  double alpha = 1.0;                     // 0 transparent .. 1 opaque
   [[nodiscard]] std::string hex() const;  // "#rrggbb"
   [[nodiscard]] static Colour from_hex(std::string_view hex, double alpha = 1.0);
   friend bool operator==(const Colour&, const Colour&) = default;
@@ -38,7 +38,7 @@ struct PathItem {
   std::vector<double> dash_px{};  // on/off lengths; empty = solid
   std::optional<Colour> fill{};
   bool clipped = false;  // clipped to the canvas's clip rectangle (the plot area)
-  std::string role{};      // written as the SVG class, for tests and styling ("grid", "series")
+  std::string role{};    // written as the SVG class, for tests and styling ("grid", "series")
 };
 
 struct MarkerItem {
@@ -89,6 +89,15 @@ class Canvas {
   void add(MarkerItem item);
   void add(TextItem item);
   void add(ImageItem item);
+  // Shorthands for the common cases of the primitives above.
+  void line(std::vector<Point> points, const Colour& stroke, double width_px, std::string role,
+            bool clipped = false, std::vector<double> dash_px = {});
+  void polygon(std::vector<Point> points, std::optional<Colour> fill, const Colour& stroke,
+               double stroke_width_px, std::string role, bool clipped = false);
+  void text(Point at, std::string text, double size_px, TextAnchor anchor, const Colour& colour,
+            std::string role, double rotation_deg = 0, bool bold = false);
+  void marker(Point centre, double size_px, MarkerShape shape, const Colour& fill,
+              const Colour& stroke, std::string role, bool clipped = false);
 
   // Advance width of `text` at `size_px` in the chart font, measured with cairo, so that
   // labels and legends can be laid out before drawing.
@@ -97,8 +106,7 @@ class Canvas {
 
   // SVG 1.1 text. `id_prefix` makes element ids unique when several drawings are inlined in
   // one HTML page; `standalone` adds the XML declaration for a file of its own.
-  [[nodiscard]] std::string to_svg(std::string_view id_prefix = "tw",
-                                   bool standalone = true) const;
+  [[nodiscard]] std::string to_svg(std::string_view id_prefix = "tw", bool standalone = true) const;
   // PNG bytes painted by cairo at `scale` times the canvas size.
   [[nodiscard]] std::string to_png(double scale = 1.0) const;
 
@@ -108,7 +116,7 @@ class Canvas {
  private:
   int width_, height_;
   std::string title_{};
-  std::optional<std::vector<double>> clip_{};  // x, y, w, h
+  std::optional<std::vector<double>> clip_{};                                     // x, y, w, h
   std::vector<std::variant<PathItem, MarkerItem, TextItem, ImageItem>> items_{};  // drawing order
 };
 

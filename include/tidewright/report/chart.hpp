@@ -17,9 +17,9 @@ struct AxisSpec {
   std::string label{};  // with units (and datum for levels), e.g. "Still-water level (m above CD)"
   bool log = false;
   std::optional<double> min{}, max{};  // fixed limits; otherwise from the data, widened to ticks
-  bool include_zero = false;        // linear axes: keep 0 in range
+  bool include_zero = false;           // linear axes: keep 0 in range
   bool tight = false;  // linear axes: the range is the data's, ticks fall inside (year axes)
-  int target_ticks = 6;
+  int target_ticks = 8;  // about 45 px between ticks on a 450 px chart (common practice)
   double label_scale = 1.0;  // tick labels show value * label_scale (e.g. 100 for percent)
 };
 

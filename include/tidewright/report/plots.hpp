@@ -65,18 +65,18 @@ struct FanChartInput {
                                         const std::string& title = "Design height");
 // Amplification factor N_t(z)/N_0(z) by year on a log y axis, one line per series (a level
 // or a scenario).
-[[nodiscard]] Canvas amplification_plot(const std::vector<double>& years,
-                                        const std::vector<NamedSeries>& factors,
-                                        const std::string& title = "Amplification of exceedance frequency");
+[[nodiscard]] Canvas amplification_plot(
+    const std::vector<double>& years, const std::vector<NamedSeries>& factors,
+    const std::string& title = "Amplification of exceedance frequency");
 
 // Probability (0..1, shown in percent) of at least one exceedance over the design life, as a
 // function of height (m above datum), one line per scenario; `target_risk` (0..1) is drawn
 // as a horizontal reference line.
-[[nodiscard]] Canvas design_life_risk_plot(const std::vector<double>& heights_m,
-                                           const std::vector<NamedSeries>& probability_per_scenario,
-                                           const std::string& datum, const std::string& design_life,
-                                           std::optional<double> target_risk = std::nullopt,
-                                           const std::string& title = "Design-life exceedance risk");
+[[nodiscard]] Canvas design_life_risk_plot(
+    const std::vector<double>& heights_m, const std::vector<NamedSeries>& probability_per_scenario,
+    const std::string& datum, const std::string& design_life,
+    std::optional<double> target_risk = std::nullopt,
+    const std::string& title = "Design-life exceedance risk");
 
 // --- maps ---------------------------------------------------------------------------------
 
@@ -93,9 +93,10 @@ struct RasterView {
 struct ContinuousMapInput {
   std::string title{};
   RasterView raster{};
-  std::string value_label{};  // with units, e.g. "Flood depth (m)" or "Annual exceedance probability"
-  std::optional<double> min{}, max{};  // colour-ramp limits; from the data when not given
-  double label_scale = 1.0;        // legend labels show value * label_scale (100 for percent)
+  std::string
+      value_label{};  // with units, e.g. "Flood depth (m)" or "Annual exceedance probability"
+  std::optional<double> min{}, max{};    // colour-ramp limits; from the data when not given
+  double label_scale = 1.0;              // legend labels show value * label_scale (100 for percent)
   std::string blank_label = "No value";  // legend text of blank (nodata) cells; empty = none
 };
 // Maps are 720 px wide, and as tall as the raster's shape needs (300 to 560 px).
