@@ -108,6 +108,15 @@ double elevation_m(double x, double y, double n_big, double n_fine) {
     z += 9.0 * std::exp(-std::pow((x - 3700.0) / 260.0, 2)) *
          smoothstep(100.0, 180.0, d);                                         // Chapel Knoll
     z += 14.0 * smoothstep(5500.0, 5950.0, x) * smoothstep(100.0, 250.0, d);  // Skarrow Head
+    // Streets of the town: a grid 12 m wide, 0.25 m below the blocks (a bare-earth DEM shows
+    // roads, not buildings), E-W every 110 m inland and N-S every 130 m.
+    const double town = smoothstep(1950.0, 2050.0, x) * (1.0 - smoothstep(3300.0, 3400.0, x)) *
+                        smoothstep(120.0, 160.0, d) * (1.0 - smoothstep(800.0, 900.0, d));
+    if (town > 0.0) {
+      const double to_ew = std::abs(std::remainder(d - 150.0, 110.0));
+      const double to_ns = std::abs(std::remainder(x - 2000.0, 130.0));
+      z -= 0.25 * town * (1.0 - smoothstep(5.0, 7.0, std::min(to_ew, to_ns)));
+    }
     // 2. River Tamsel's floodplain and valley sides, rising 0.8 m per km inland.
     const double dist = std::abs(x - river_x_m(y));
     const double floodplain = lv.floodplain_m + 0.0008 * (d - 100.0) + 0.03 * n_fine;
@@ -287,6 +296,7 @@ Terrain generate_terrain(const TerrainDesign& design, unsigned long long seed) {
 
 void write_terrain_geotiff(const Terrain& terrain, const std::filesystem::path& path, bool force) {
   gdal_register_once();
+  CPLErrorReset();  // the check after closing must see only this write's errors
   AtomicPath out(path, force);
   GDALDriver* drv = GetGDALDriverManager()->GetDriverByName("GTiff");
   if (drv == nullptr) gdal_failed(path, "GDAL has no GTiff driver");
