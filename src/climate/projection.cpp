@@ -134,7 +134,7 @@ void validate(const Scenario& s, const ProjectionOptions& o) {
     throw InputError("scenario", "has no years or mismatched values", "build it with the scenario functions");
   }
   if (o.member_count <= 0) {
-    throw InputError("--members", "sample count must be positive, got " + std::to_string(o.member_count),
+    throw InputError("--samples", "sample count must be positive, got " + std::to_string(o.member_count),
                      "give a positive number of members");
   }
   if (o.spinup_start_year != historical_ramp_start_year) {

@@ -178,6 +178,6 @@ TEST(ClimateProjection, BadOptionsThrowInputError) {
   try {
     (void)project_global_components(s, options(2020, 2100, -5));
   } catch (const InputError& e) {
-    EXPECT_EQ(e.where(), "--members");
+    EXPECT_EQ(e.where(), "--samples");
   }
 }
