@@ -133,6 +133,12 @@ void validate(const Scenario& s, const ProjectionOptions& o) {
   if (s.years.empty() || s.values.size() != s.years.size()) {
     throw InputError("scenario", "has no years or mismatched values", "build it with the scenario functions");
   }
+  for (std::size_t i = 1; i < s.years.size(); ++i) {
+    if (s.years[i] != s.years[i - 1] + 1) {
+      throw InputError("scenario", "years are not consecutive at " + std::to_string(s.years[i]),
+                       "build it with the scenario functions, which check the years");
+    }
+  }
   if (o.member_count <= 0) {
     throw InputError("--samples", "sample count must be positive, got " + std::to_string(o.member_count),
                      "give a positive number of members");
