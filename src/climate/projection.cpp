@@ -175,7 +175,6 @@ std::vector<MemberParameters> draw_members(const ProjectionOptions& o) {
   std::mt19937_64 rng(o.seed);
   const ParameterDistributions& d = o.distributions;
   std::vector<MemberParameters> out(static_cast<std::size_t>(std::max(0LL, o.member_count)), o.central);
-  std::normal_distribution<double> standard(0.0, 1.0);
   for (MemberParameters& m : out) {
     // Fixed order of draws per member, so that a member's parameters depend only on the seed
     // and its index.
@@ -187,7 +186,8 @@ std::vector<MemberParameters> draw_members(const ProjectionOptions& o) {
     m.glaciers.sensitivity_m_per_yr_k = o.central.glaciers.sensitivity_m_per_yr_k * draw(rng, d.glacier_sensitivity_factor);
     m.greenland.factor = draw(rng, d.greenland_factor);
     m.antarctica.snowfall_increase_per_k = draw(rng, d.antarctic_snowfall_increase_per_k);
-    m.antarctica.discharge_factor = std::exp(d.antarctic_discharge_log_sd * standard(rng));
+    const double bound = d.antarctic_discharge_log_bound_sd;
+    m.antarctica.discharge_factor = std::exp(d.antarctic_discharge_log_sd * draw(rng, {0.0, 1.0, -bound, bound}));
     m.land_water.factor = draw(rng, d.land_water_factor);
   }
   return out;

@@ -46,7 +46,7 @@ def ensemble(n, first, last, seed=20261201):
     ag = 6.4e-4 * truncated_normal(rng, n, 1.0, 0.2, 0.3, 2.0)
     gf = truncated_normal(rng, n, 1.0, 0.3, 0.2, 2.5)
     snow = truncated_normal(rng, n, 0.05, 0.015, 0.0, 0.12)
-    fa = np.exp(0.8 * rng.standard_normal(n))
+    fa = np.exp(0.8 * truncated_normal(rng, n, 0.0, 1.0, -2.5, 2.5))
     lw = truncated_normal(rng, n, 1.0, 0.3, 0.0, 2.5)
     # Exact propagator per member (Sylvester's formula for exp(A), A 2x2).
     a11, a12, a21, a22 = -(lam + eps * gam) / c, eps * gam / c, gam / cd, -gam / cd + 0 * lam
