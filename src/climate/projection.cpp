@@ -133,8 +133,14 @@ void validate(const Scenario& s, const ProjectionOptions& o) {
   if (s.years.empty() || s.values.size() != s.years.size()) {
     throw InputError("scenario", "has no years or mismatched values", "build it with the scenario functions");
   }
+  for (std::size_t i = 1; i < s.years.size(); ++i) {
+    if (s.years[i] != s.years[i - 1] + 1) {
+      throw InputError("scenario", "years are not consecutive at " + std::to_string(s.years[i]),
+                       "build it with the scenario functions, which check the years");
+    }
+  }
   if (o.member_count <= 0) {
-    throw InputError("--members", "sample count must be positive, got " + std::to_string(o.member_count),
+    throw InputError("--samples", "sample count must be positive, got " + std::to_string(o.member_count),
                      "give a positive number of members");
   }
   if (o.spinup_start_year != historical_ramp_start_year) {
@@ -169,7 +175,6 @@ std::vector<MemberParameters> draw_members(const ProjectionOptions& o) {
   std::mt19937_64 rng(o.seed);
   const ParameterDistributions& d = o.distributions;
   std::vector<MemberParameters> out(static_cast<std::size_t>(std::max(0LL, o.member_count)), o.central);
-  std::normal_distribution<double> standard(0.0, 1.0);
   for (MemberParameters& m : out) {
     // Fixed order of draws per member, so that a member's parameters depend only on the seed
     // and its index.
@@ -181,7 +186,8 @@ std::vector<MemberParameters> draw_members(const ProjectionOptions& o) {
     m.glaciers.sensitivity_m_per_yr_k = o.central.glaciers.sensitivity_m_per_yr_k * draw(rng, d.glacier_sensitivity_factor);
     m.greenland.factor = draw(rng, d.greenland_factor);
     m.antarctica.snowfall_increase_per_k = draw(rng, d.antarctic_snowfall_increase_per_k);
-    m.antarctica.discharge_factor = std::exp(d.antarctic_discharge_log_sd * standard(rng));
+    const double bound = d.antarctic_discharge_log_bound_sd;
+    m.antarctica.discharge_factor = std::exp(d.antarctic_discharge_log_sd * draw(rng, {0.0, 1.0, -bound, bound}));
     m.land_water.factor = draw(rng, d.land_water_factor);
   }
   return out;

@@ -173,11 +173,14 @@ TEST(ClimateProjection, BadOptionsThrowInputError) {
   ProjectionOptions o = options(2020, 2100, 10);
   o.reference = {1800, 1810};
   EXPECT_THROW((void)project_global_components(s, o), InputError);
+  Scenario gapped = s;
+  gapped.years[5] += 1;  // built by hand, bypassing the builders' checks
+  EXPECT_THROW((void)project_global_components(gapped, options(2020, 2100, 10)), InputError);
   const Scenario late = forcing_scenario("late", {2030, 2031}, {3.0, 3.1}, "late.csv");
   EXPECT_THROW((void)project_global_components(late, options(2030, 2031, 10)), InputError);
   try {
     (void)project_global_components(s, options(2020, 2100, -5));
   } catch (const InputError& e) {
-    EXPECT_EQ(e.where(), "--members");
+    EXPECT_EQ(e.where(), "--samples");
   }
 }
