@@ -1,7 +1,8 @@
 // Planning core speed: N_t(z) over 10,000 members for 100 levels, allowance root solves, and
 // the issue-5 workload (10 return periods x 100 years of allowances and amplification factors
 // over 10,000 members). Peer in the same run: the same N_t and allowance computations in
-// NumPy/SciPy (tests/benchmarks/planning_peer.py), reported as manual-time rows.
+// NumPy/SciPy (tests/benchmarks/planning_peer.py), reported as manual-time rows holding the
+// peer's CPU time; compare them with the CPU column of the C++ rows (the machine is shared).
 #include <benchmark/benchmark.h>
 
 #include <array>
