@@ -93,6 +93,11 @@ LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const Lo
     throw InputError("vertical land motion", "the sd is negative", "give an sd >= 0");
   }
 
+  if (global.surface_warming_k.size() != 0 &&
+      (global.surface_warming_k.rows() != members || global.surface_warming_k.cols() != n_years)) {
+    throw InputError("projection warming", "is not members x years like the components",
+                     "give warming for every member and year, or none");
+  }
   LocalRise out;
   out.total.years = global.years;
   out.total.reference = global.reference;

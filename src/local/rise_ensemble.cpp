@@ -33,6 +33,10 @@ Eigen::VectorXd RiseEnsemble::rise_in(int year) const { return column_in_year(ye
 
 Eigen::VectorXd RiseEnsemble::warming_in(int year) const {
   if (surface_warming_k.size() == 0) return {};
+  if (surface_warming_k.rows() != rise_m.rows() || surface_warming_k.cols() != static_cast<Eigen::Index>(years.size())) {
+    throw InputError("projection warming", "is not members x years like the rise",
+                     "give warming for every member and year, or none");
+  }
   return column_in_year(years, surface_warming_k, year);
 }
 

@@ -74,7 +74,20 @@ Allowance solve(const extremes::StillWaterModel& present, std::span<const YearCo
   };
   // Without storminess the root lies in [min Delta, max Delta]: N_0 is non-increasing, so
   // raising by the largest rise cannot leave more exceedances than today, nor the smallest fewer.
-  const MonotoneRoot r = solve_non_increasing(f, lo, hi, options.tolerance_m, "allowance");
+  MonotoneRoot r;
+  if (!storm && hi > lo) {
+    // First guess: Hunter's Gumbel form with the model's local scale at z,
+    // lambda_z = h / ln(N_0(z)/N_0(z + h)) (exact for Gumbel, close otherwise); near the root
+    // d/dA ln N_t(z + A) is about -1/lambda_z.
+    const double h = 0.01 * present.scale_m;
+    const double lambda_z = h / std::log(present_rate / present.annual_exceedance_rate(level_m + h));
+    const bool have_scale = std::isfinite(lambda_z) && lambda_z > 0.0;
+    const double guess = have_scale ? lambda_z * (log_sum_exp_rise(years, lambda_z) - std::log(n)) : 0.5 * (lo + hi);
+    r = solve_non_increasing_from_guess(f, guess, have_scale ? -1.0 / lambda_z : -1.0 / present.scale_m, lo, hi,
+                                        options.tolerance_m, "allowance");
+  } else {
+    r = solve_non_increasing(f, lo, hi, options.tolerance_m, "allowance");
+  }
   a.allowance_m = r.x;
   a.method = "root_toms748";
   a.evaluations = r.evaluations;

@@ -76,7 +76,7 @@ std::vector<YearConditions> conditions_over_years(const local::RiseEnsemble& ens
                      "the last year comes before the first", "give the span as first..last");
   }
   std::vector<YearConditions> out;
-  out.reserve(static_cast<std::size_t>(last_year - first_year + 1));
+  out.reserve(static_cast<std::size_t>(last_year - first_year) + 1);
   for (int t = first_year; t <= last_year; ++t) out.push_back(conditions_in_year(ensemble, t, storminess));
   return out;
 }

@@ -86,6 +86,9 @@ TEST(LocalRelativeRise, RefusesBadTerms) {
   EXPECT_THROW((void)local_relative_rise(g, moving), InputError);
   moving.land_motion.reference_year = 2000.0;
   EXPECT_NO_THROW((void)local_relative_rise(g, moving));
+  auto bad_warming = small_ensemble();
+  bad_warming.surface_warming_k = Eigen::MatrixXd::Zero(3, 2);
+  EXPECT_THROW((void)local_relative_rise(bad_warming, LocalTerms{}), InputError);
   LocalTerms short_offset;
   short_offset.ocean_dynamic = {{2020, 2050}, {0.0, 0.02}, {0.0, 0.01}};
   EXPECT_THROW((void)local_relative_rise(small_ensemble(), short_offset), InputError);
@@ -135,4 +138,15 @@ TEST(LocalRelativeRise, OceanDynamicOffsetIsAWholePathPerMember) {
   const Eigen::VectorXd z = (o.col(2).array() - 0.10) / 0.04;
   EXPECT_NEAR(z.mean(), 0.0, 4.0 / std::sqrt(static_cast<double>(n)));
   EXPECT_NEAR(std::sqrt(z.squaredNorm() / static_cast<double>(n)), 1.0, 4.0 / std::sqrt(2.0 * static_cast<double>(n)));
+}
+
+TEST(RiseEnsemble, WarmingOfTheWrongShapeIsInputError) {
+  RiseEnsemble e;
+  e.years = {2020, 2100};
+  e.rise_m = Eigen::MatrixXd::Zero(3, 2);
+  EXPECT_EQ(e.warming_in(2050).size(), 0);
+  e.surface_warming_k = Eigen::MatrixXd::Constant(3, 2, 1.0);
+  EXPECT_DOUBLE_EQ(e.warming_in(2050)(1), 1.0);
+  e.surface_warming_k = Eigen::MatrixXd::Constant(3, 1, 1.0);
+  EXPECT_THROW((void)e.warming_in(2050), InputError);
 }

@@ -89,9 +89,7 @@ TEST(Allowance, MonteCarloMembersMeetClosedFormWithinSamplingError) {
 // 2050..2079 this is lambda ln( mean_t exp(0.01 (t - 2020)/lambda) ), computed here directly.
 TEST(Allowance, DesignLifeGumbelMatchesDirectSum) {
   const StillWaterModel m = gumbel(3.0, 0.1);
-  Eigen::MatrixXd rise(1, 2);
-  rise << 0.0, 1.3;
-  const auto e = tidewright::testing::ensemble({2020, 2150}, rise);
+  const auto e = tidewright::testing::linear_rise_from_2020(0.01);
   const auto years = conditions_over_years(e, 2050, 2079);
   double s = 0;
   for (int t = 2050; t <= 2079; ++t) s += std::exp(0.01 * (t - 2020) / 0.1);

@@ -63,9 +63,7 @@ TEST(Amplification, AboveUpperEndPointIsFlaggedNotPrinted) {
 // 2066.05, so the first whole year is 2067 (closed form).
 TEST(Emergence, GumbelLinearRiseReachesAnnualInClosedFormYear) {
   const StillWaterModel m = gumbel(2.0, 0.1);
-  Eigen::MatrixXd rise(1, 2);
-  rise << 0.0, 1.3;
-  const auto e = tidewright::testing::ensemble({2020, 2150}, rise);
+  const auto e = tidewright::testing::linear_rise_from_2020(0.01);
   const auto years = conditions_over_years(e, 2020, 2150);
   const double z100 = present_return_level(m, 100.0);
   const Emergence once = emergence_year(m, years, z100);

@@ -42,4 +42,11 @@ inline local::RiseEnsemble ensemble(std::vector<int> years, Eigen::MatrixXd rise
   return e;
 }
 
+// One member rising linearly at rate_m_per_yr from 0 in 2020 to 2150.
+inline local::RiseEnsemble linear_rise_from_2020(double rate_m_per_yr) {
+  Eigen::MatrixXd rise(1, 2);
+  rise << 0.0, rate_m_per_yr * 130.0;
+  return ensemble({2020, 2150}, rise);
+}
+
 }  // namespace tidewright::testing

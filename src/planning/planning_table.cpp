@@ -1,0 +1,71 @@
+#include "tidewright/planning/planning_table.hpp"
+
+#include <algorithm>
+#include <exception>
+#include <thread>
+
+#include "tidewright/common/error.hpp"
+
+namespace tidewright::planning {
+namespace {
+
+// Runs cell(year_index, period_index) for every cell, years split over threads in contiguous
+// blocks; rethrows the exception of the first failing year (by index), so errors are the same
+// whatever the thread count.
+template <class Row, class Cell>
+std::vector<Row> fill_table(std::size_t n_years, std::size_t n_periods, unsigned threads, Cell cell) {
+  std::vector<Row> rows(n_years * n_periods);
+  std::vector<std::exception_ptr> errors(n_years);
+  const auto work = [&](std::size_t first, std::size_t last) {
+    for (std::size_t y = first; y < last; ++y) {
+      try {
+        for (std::size_t p = 0; p < n_periods; ++p) rows[y * n_periods + p] = cell(y, p);
+      } catch (...) {
+        errors[y] = std::current_exception();
+      }
+    }
+  };
+  unsigned t = threads == 0 ? std::max(1U, std::thread::hardware_concurrency()) : threads;
+  t = static_cast<unsigned>(std::min<std::size_t>(t, std::max<std::size_t>(n_years, 1)));
+  if (t <= 1) {
+    work(0, n_years);
+  } else {
+    std::vector<std::thread> pool;
+    const std::size_t block = (n_years + t - 1) / t;
+    for (std::size_t first = 0; first < n_years; first += block) {
+      pool.emplace_back(work, first, std::min(n_years, first + block));
+    }
+    for (auto& th : pool) th.join();
+  }
+  for (const auto& e : errors) {
+    if (e) std::rethrow_exception(e);
+  }
+  return rows;
+}
+
+void check_periods(std::span<const double> return_periods_yr) {
+  if (return_periods_yr.empty()) throw InputError("return periods", "none given", "give at least one return period");
+}
+
+}  // namespace
+
+std::vector<Allowance> allowance_table(const extremes::StillWaterModel& present, std::span<const YearConditions> years,
+                                       std::span<const double> return_periods_yr, const AllowanceOptions& options,
+                                       unsigned threads) {
+  check_periods(return_periods_yr);
+  return fill_table<Allowance>(years.size(), return_periods_yr.size(), threads, [&](std::size_t y, std::size_t p) {
+    return allowance(present, years[y], return_periods_yr[p], options);
+  });
+}
+
+std::vector<Amplification> amplification_table(const extremes::StillWaterModel& present,
+                                               std::span<const YearConditions> years,
+                                               std::span<const double> return_periods_yr, unsigned threads) {
+  check_periods(return_periods_yr);
+  return fill_table<Amplification>(years.size(), return_periods_yr.size(), threads,
+                                   [&](std::size_t y, std::size_t p) {
+                                     return amplification_of_return_level(present, years[y], return_periods_yr[p]);
+                                   });
+}
+
+}  // namespace tidewright::planning
