@@ -40,10 +40,11 @@ MaximiserResult maximise_newton(const Objective& objective, ParamVector start,
     const double rise = cur.gradient.dot(step);  // >= 0 for both kinds of step
     const double scale = 1.0 + std::abs(cur.value);
     if (newton && rise / 2.0 < 1e-14 * scale) {
-      // Take the last tiny step when it does not lower the value (it sharpens the estimate).
+      // Take the last tiny step (inside the quadratic regime it sharpens the estimate; its
+      // predicted rise is at the rounding level of the value, so the value is not compared).
       const ParamVector next = r.estimate + step;
       LogLikelihood at_next = objective(next);
-      if (at_next.inside() && at_next.value >= cur.value) {
+      if (at_next.inside() && at_next.value >= cur.value - 1e-12 * scale) {
         r.estimate = next;
         r.at_estimate = std::move(at_next);
       }

@@ -11,6 +11,7 @@
 #include <boost/math/tools/toms748_solve.hpp>
 #include <cmath>
 #include <limits>
+#include <optional>
 #include <random>
 #include <string>
 
@@ -211,14 +212,71 @@ ParamVector nuisance_at_maximum(const FitResult& fit) {
   return vec2(fit.scale(), fit.shape());
 }
 
-// Maximises the profile at `level`, warm-started from `start`; if that start lies outside the
-// support, from the same start with xi = 0 (unbounded support, always feasible).
+// Smallest and largest value the GEV support must hold (all r-largest values included).
+std::pair<double, double> data_range(const FitResult& fit) {
+  double lo = std::numeric_limits<double>::infinity();
+  double hi = -lo;
+  for (double x : fit.data) {
+    lo = std::min(lo, x);
+    hi = std::max(hi, x);
+  }
+  for (const auto& year : fit.data_r_largest) {
+    for (double x : year) lo = std::min(lo, x);
+  }
+  return {lo, hi};
+}
+
+// GEV start repair: keep xi and raise sigma until the end point z - sigma e^(xi s)/xi (from
+// mu = z - sigma a(xi)) clears the data with a margin, i.e. sigma >= 1.25 (z - min x) xi e^(-xi s)
+// for xi > 0 and sigma >= 1.25 (max x - z) |xi| e^(-xi s) for xi < 0. A start close to the
+// edge has huge gradients and the ascent from it can run to the xi = -1 edge (measured on a
+// heavy-tailed sample); the margin of 25% is this project's choice.
+ParamVector repaired_gev_start(const Profile& p, ParamVector q) {
+  const auto [lo, hi] = data_range(p.fit);
+  const double xi = q(1);
+  const double e = std::exp(-xi * p.s);
+  double need = 0.0;
+  if (xi > 0.0) need = (p.level - lo) * xi * e;
+  if (xi < 0.0) need = (hi - p.level) * (-xi) * e;
+  q(0) = std::max(q(0), 1.25 * need);
+  return q;
+}
+
+// Maximises the profile at `level`, warm-started from `start`. If that search fails, it is
+// repeated from further starts (GEV: shapes 0, +-0.2, 0.4 with sigma repaired as above; GPD:
+// xi = 0, no upper end point) and the best converged maximum kept; if none converges the first
+// error is thrown.
 MaximiserResult maximise_profile(const Profile& p, const ParamVector& start) {
   const std::string what = "profile likelihood of the " + std::to_string(p.t_yr) + "-year level";
-  if (p(start).inside()) return maximise_newton(p, start, what);
-  ParamVector alt = start;
-  if (alt.size() == 2) alt(1) = 0.0;
-  return maximise_newton(p, alt, what);
+  const bool gev = p.fit.family == Family::gev;
+  std::vector<ParamVector> starts{gev ? repaired_gev_start(p, start) : start};
+  if (gev) {
+    for (double xi : {0.0, 0.2, -0.2, 0.4}) {
+      ParamVector q = start;
+      q(1) = xi;
+      starts.push_back(repaired_gev_start(p, q));
+    }
+  } else if (start.size() == 2) {
+    ParamVector q = start;
+    q(1) = 0.0;
+    starts.push_back(q);
+  }
+  std::optional<MaximiserResult> best;
+  std::optional<ComputationError> first_error;
+  for (const auto& q : starts) {
+    if (!p(q).inside()) continue;
+    try {
+      MaximiserResult m = maximise_newton(p, q, what);
+      if (!best || m.at_estimate.value > best->at_estimate.value) best = std::move(m);
+      break;  // the first converged search is kept (warm starts make it the right basin)
+    } catch (const ComputationError& e) {
+      if (!first_error) first_error = e;
+    }
+  }
+  if (best) return *best;
+  if (first_error) throw *first_error;
+  throw ComputationError(what, "no starting values inside the support of the model were found",
+                         "check the data for outliers or give another model");
 }
 
 double delta_se(const FitResult& fit, double t);

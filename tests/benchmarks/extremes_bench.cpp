@@ -5,8 +5,8 @@
 //   build/release/tidewright_bench --benchmark_filter=Extremes
 //
 // The peer benchmarks run their script once (Rscript or /usr/bin/python3 must be installed)
-// and report the script's own per-fit time as manual time, so the table compares like with
-// like: one fit of the same 65 values.
+// and report the script's own per-fit CPU time as manual time (the "Time" column of those two
+// rows); compare it with the CPU column of ours: one fit of the same 65 values each.
 #include <benchmark/benchmark.h>
 
 #include <array>
