@@ -89,6 +89,9 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
                      format_number(options.rate_curve_step_m, "%g") + " m is not positive",
                      "give a step such as 0.01 m");
   }
+  if (options.rate_curve_lowest_m && !std::isfinite(*options.rate_curve_lowest_m)) {
+    throw InputError("rate curve lowest level", "is not a finite level", "give a level in metres");
+  }
   const detail::PreparedRecord prepared =
       detail::prepare_record(series, options.year_start_month, options.min_completeness,
                              options.detrend, options.epoch_yr);

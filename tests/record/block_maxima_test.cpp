@@ -214,6 +214,15 @@ TEST(BlockMaxima, BadOptions) {
   EXPECT_EQ(input_error_of([&] { (void)tr::annual_maxima_from_series(s, o); }),
             "detrend: annual-mean detrending needs at least 2 complete years; the record has 1; "
             "give a longer record or choose no detrending");
+  const auto two_years = hourly(utc(2001y / January / 1), utc(2003y / January / 1), pattern);
+  o.detrend = tr::DetrendMethod::linear;
+  o.epoch_yr = 1e300;
+  EXPECT_EQ(input_error_of([&] { (void)tr::annual_maxima_from_series(two_years, o); }),
+            "reference epoch: 1e+300 is not a year from 1 to 9999; give a decimal year such as "
+            "2000.0");
+  o.epoch_yr = std::nan("");
+  EXPECT_THAT(input_error_of([&] { (void)tr::annual_maxima_from_series(two_years, o); }),
+              HasSubstr("is not a year from 1 to 9999"));
   EXPECT_EQ(tr::parse_detrend_method("annual-mean"), tr::DetrendMethod::annual_mean);
   EXPECT_EQ(input_error_of([] { (void)tr::parse_detrend_method("quadratic", "--detrend"); }),
             "--detrend: 'quadratic' is not a detrending method; use none, annual-mean or linear");

@@ -206,6 +206,10 @@ TEST(PeaksOverThreshold, BadOptions) {
             "separation: 0 h is not a positive time; give the minimum separation of independent "
             "events in hours, such as 72");
   o.separation_h = 72.0;
+  o.rate_curve_lowest_m = std::nan("");
+  EXPECT_EQ(input_error_of([&] { (void)tr::peaks_over_threshold(s, o); }),
+            "rate curve lowest level: is not a finite level; give a level in metres");
+  o.rate_curve_lowest_m.reset();
   o.threshold_m = 2.0;
   EXPECT_EQ(input_error_of([&] { (void)tr::peaks_over_threshold(s, o); }),
             "spikes: no level of the complete years lies above the threshold 2 m; lower the "
