@@ -33,8 +33,12 @@ std::string dropped_list(const std::vector<DroppedYear>& dropped) {
       years += (years.empty() ? "" : ", ") + std::to_string(d.year);
       ++count;
     }
-    out += (out.empty() ? "" : "; ") +
-           (count == 1 ? years + " (" + reason + ")" : reason + ": " + years);
+    if (!out.empty()) out += "; ";
+    if (count == 1) {
+      out.append(years).append(" (").append(reason).append(")");
+    } else {
+      out.append(reason).append(": ").append(years);
+    }
   }
   return out;
 }

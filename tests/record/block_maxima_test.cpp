@@ -15,15 +15,13 @@
 namespace tr = tidewright::record;
 using ::testing::ElementsAre;
 using ::testing::HasSubstr;
+using tr::testing::hour_s;
 using tr::testing::input_error_of;
 using tr::testing::make_series;
+using tr::testing::utc;
 using namespace std::chrono;
 
 namespace {
-constexpr std::int64_t hour_s = 3600;
-std::int64_t utc(year_month_day ymd, int h = 0) {
-  return duration_cast<seconds>((sys_days(ymd) + hours(h)).time_since_epoch()).count();
-}
 // Hourly samples in [from, to) with level f(t).
 template <class F>
 tr::WaterLevelSeries hourly(std::int64_t from, std::int64_t to, F f) {

@@ -18,15 +18,13 @@ namespace tr = tidewright::record;
 using ::testing::DoubleEq;
 using ::testing::ElementsAre;
 using ::testing::HasSubstr;
+using tr::testing::hour_s;
 using tr::testing::input_error_of;
 using tr::testing::make_series;
+using tr::testing::utc;
 using namespace std::chrono;
 
 namespace {
-constexpr std::int64_t hour_s = 3600;
-std::int64_t utc(year_month_day ymd, int h = 0) {
-  return duration_cast<seconds>((sys_days(ymd) + hours(h)).time_since_epoch()).count();
-}
 const std::int64_t start_2001 = utc(2001y / January / 1);
 
 // One calendar year (2001) of hourly levels: a low background that varies a little (so the
