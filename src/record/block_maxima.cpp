@@ -55,6 +55,7 @@ AnnualMaxima annual_maxima_from_series(const WaterLevelSeries& series,
   am.cleaning = series.cleaning;
   am.year_start_month = options.year_start_month;
   am.min_completeness = options.min_completeness;
+  am.sampling_interval_s = p.years.median_interval_s;
   am.detrend = p.detrend;
   am.dropped = p.dropped;
   const auto& h = p.levels.level_m;

@@ -56,6 +56,7 @@ std::string PeaksOverThreshold::summary() const {
   out += "  " + std::to_string(cleaning.rows_read) + " rows read, " +
          std::to_string(cleaning.missing) + " missing, " + std::to_string(cleaning.sentinels) +
          " sentinels; " + std::to_string(exceedances) + " samples above the threshold\n";
+  out += detail::completeness_line(min_completeness, sampling_interval_s);
   out += detail::dropped_and_trend_lines(dropped, detrend);
   if (!below_threshold.level_m.empty()) {
     out += "  empirical rates below the threshold from " +
@@ -107,6 +108,7 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
   pot.separation_h = options.separation_h;
   pot.year_start_month = options.year_start_month;
   pot.min_completeness = options.min_completeness;
+  pot.sampling_interval_s = years.median_interval_s;
   pot.detrend = prepared.detrend;
   pot.dropped = prepared.dropped;
 

@@ -43,6 +43,12 @@ std::string dropped_list(const std::vector<DroppedYear>& dropped) {
   return out;
 }
 
+std::string completeness_line(double min_completeness, double sampling_interval_s) {
+  return "  years kept when at least " + percent(min_completeness) +
+         " complete (expected samples from the " + format_number(sampling_interval_s / 60.0, "%g") +
+         "-min median spacing)\n";
+}
+
 std::string dropped_and_trend_lines(const std::vector<DroppedYear>& dropped,
                                     const std::optional<Detrend>& detrend) {
   std::string out;

@@ -80,6 +80,8 @@ TEST(BlockMaxima, CompletenessWithGapsDropsAndListsYears) {
   tr::AnnualMaximaOptions lenient;
   lenient.min_completeness = 0.7;
   EXPECT_EQ(tr::annual_maxima_from_series(g, lenient).size(), 3U);
+  EXPECT_THAT(am.summary(), HasSubstr("\n  years kept when at least 75.0% complete (expected "
+                                      "samples from the 60-min median spacing)\n"));
   EXPECT_THAT(am.summary(), HasSubstr("1 year dropped: 2002 (72.6% complete, below 75.0%)"));
 }
 
