@@ -132,6 +132,9 @@ std::string AnnualMaxima::summary() const {
   out += "  " + std::to_string(cleaning.rows_read) + " rows read, " +
          std::to_string(cleaning.missing) + " missing, " + std::to_string(cleaning.sentinels) +
          " sentinels\n";
+  if (sampling_interval_s > 0.0) {
+    out += detail::completeness_line(min_completeness, sampling_interval_s);
+  }
   out += detail::dropped_and_trend_lines(dropped, detrend);
   return out;
 }

@@ -3,6 +3,7 @@
 
 #include <Eigen/Dense>
 #include <cmath>
+#include <cstdio>
 
 #include "tidewright/common/error.hpp"
 #include "tidewright/record/timestamp.hpp"
@@ -22,6 +23,12 @@ Line fit_line(const Eigen::VectorXd& x, const Eigen::VectorXd& y) {
   design.col(1) = x;
   const Eigen::Vector2d coef = design.colPivHouseholderQr().solve(y);
   return {coef(0), coef(1)};
+}
+
+std::string format_epoch(double epoch_yr) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%g", epoch_yr);
+  return buf;
 }
 
 }  // namespace
@@ -71,8 +78,11 @@ DetrendedLevels remove_mean_sea_level_trend(const WaterLevelSeries& series,
   if (method == DetrendMethod::none) return out;
   out.detrend.epoch_is_default = !epoch_yr.has_value();
   out.detrend.epoch_yr = epoch_yr ? *epoch_yr : record_mid_epoch(years);
-  if (!std::isfinite(out.detrend.epoch_yr)) {
-    throw InputError("reference epoch", "is not a finite year", "give a year such as 2000.0");
+  // Years 1 to 9999: what ISO 8601 timestamps can express, and what the calendar code takes.
+  if (!(out.detrend.epoch_yr >= 1.0 && out.detrend.epoch_yr < 10000.0)) {
+    throw InputError("reference epoch",
+                     format_epoch(out.detrend.epoch_yr) + " is not a year from 1 to 9999",
+                     "give a decimal year such as 2000.0");
   }
   const double epoch_s = utc_s_of_decimal_year(out.detrend.epoch_yr);
   auto years_from_epoch = [&](double utc_s) { return (utc_s - epoch_s) / seconds_per_year; };

@@ -56,6 +56,7 @@ std::string PeaksOverThreshold::summary() const {
   out += "  " + std::to_string(cleaning.rows_read) + " rows read, " +
          std::to_string(cleaning.missing) + " missing, " + std::to_string(cleaning.sentinels) +
          " sentinels; " + std::to_string(exceedances) + " samples above the threshold\n";
+  out += detail::completeness_line(min_completeness, sampling_interval_s);
   out += detail::dropped_and_trend_lines(dropped, detrend);
   if (!below_threshold.level_m.empty()) {
     out += "  empirical rates below the threshold from " +
@@ -89,6 +90,9 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
                      format_number(options.rate_curve_step_m, "%g") + " m is not positive",
                      "give a step such as 0.01 m");
   }
+  if (options.rate_curve_lowest_m && !std::isfinite(*options.rate_curve_lowest_m)) {
+    throw InputError("rate curve lowest level", "is not a finite level", "give a level in metres");
+  }
   const detail::PreparedRecord prepared =
       detail::prepare_record(series, options.year_start_month, options.min_completeness,
                              options.detrend, options.epoch_yr);
@@ -104,6 +108,7 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
   pot.separation_h = options.separation_h;
   pot.year_start_month = options.year_start_month;
   pot.min_completeness = options.min_completeness;
+  pot.sampling_interval_s = years.median_interval_s;
   pot.detrend = prepared.detrend;
   pot.dropped = prepared.dropped;
 

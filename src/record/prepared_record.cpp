@@ -33,10 +33,20 @@ std::string dropped_list(const std::vector<DroppedYear>& dropped) {
       years += (years.empty() ? "" : ", ") + std::to_string(d.year);
       ++count;
     }
-    out += (out.empty() ? "" : "; ") +
-           (count == 1 ? years + " (" + reason + ")" : reason + ": " + years);
+    if (!out.empty()) out += "; ";
+    if (count == 1) {
+      out.append(years).append(" (").append(reason).append(")");
+    } else {
+      out.append(reason).append(": ").append(years);
+    }
   }
   return out;
+}
+
+std::string completeness_line(double min_completeness, double sampling_interval_s) {
+  return "  years kept when at least " + percent(min_completeness) +
+         " complete (expected samples from the " + format_number(sampling_interval_s / 60.0, "%g") +
+         "-min median spacing)\n";
 }
 
 std::string dropped_and_trend_lines(const std::vector<DroppedYear>& dropped,

@@ -17,6 +17,8 @@ namespace tidewright::record::detail {
 [[nodiscard]] std::string percent(double fraction);  // "75.0%"
 // "2002 (72.6% complete, below 75.0%); no value in the file: 1925, 1927"
 [[nodiscard]] std::string dropped_list(const std::vector<DroppedYear>& dropped);
+// "  years kept when at least 75.0% complete (expected samples from the 60-min median spacing)"
+[[nodiscard]] std::string completeness_line(double min_completeness, double sampling_interval_s);
 // The summary lines for dropped years and a removed trend (empty when there is none).
 [[nodiscard]] std::string dropped_and_trend_lines(const std::vector<DroppedYear>& dropped,
                                                   const std::optional<Detrend>& detrend);

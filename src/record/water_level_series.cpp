@@ -27,12 +27,13 @@ WaterLevelSeries from_table(const CsvTable& table, const ReadOptions& options) {
   for (const auto& row : rows) {
     ++s.cleaning.rows_read;
     const std::string& time_cell = row.cells[time_col];
-    if (options.missing.is_marker(time_cell)) {
-      throw InputError(table.where(row), "column '" + table.header()[time_col] + "' has no time",
-                       "give every row an ISO 8601 time, or remove the row");
-    }
     const ParsedTimestamp t = parse_utc_timestamp(time_cell);
     if (!t.utc_s) {
+      // The marker test runs only on a failure: it costs as much as the parse on every row.
+      if (options.missing.is_marker(time_cell)) {
+        throw InputError(table.where(row), "column '" + table.header()[time_col] + "' has no time",
+                         "give every row an ISO 8601 time, or remove the row");
+      }
       throw InputError(table.where(row),
                        "column '" + table.header()[time_col] + "' holds '" + time_cell +
                            "', which is not an ISO 8601 timestamp (" + t.problem + ")",
@@ -52,14 +53,11 @@ WaterLevelSeries from_table(const CsvTable& table, const ReadOptions& options) {
     }
     previous_time = *t.utc_s;
     previous_line = row.line;
-    const std::string& level_cell = row.cells[level_col];
-    if (options.missing.is_marker(level_cell)) {
-      ++s.cleaning.missing;
-      continue;
-    }
     const auto value = table.number(row, level_col, options.missing);
     if (!value) {
-      ++s.cleaning.sentinels;
+      // A marker or a sentinel; tell them apart only here, on the rows without a value.
+      ++(options.missing.is_marker(row.cells[level_col]) ? s.cleaning.missing
+                                                         : s.cleaning.sentinels);
       continue;
     }
     s.time_utc_s.push_back(*t.utc_s);

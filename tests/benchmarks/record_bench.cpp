@@ -33,8 +33,8 @@ constexpr int record_years = 50;
 // modulation, a 2 mm/yr trend and a deterministic storm surge now and then; millimetre text.
 const std::filesystem::path& series_file() {
   static const std::filesystem::path path = [] {
-    const auto p = std::filesystem::temp_directory_path() /
-                   ("tidewright-record-bench-" + std::to_string(record_years) + "y.csv");
+    auto p = std::filesystem::temp_directory_path() /
+             ("tidewright-record-bench-" + std::to_string(record_years) + "y.csv");
     std::ofstream out(p);
     out << "time,level\n";
     const std::int64_t start = tr::utc_s_of_month_start(1970, 1);
@@ -46,7 +46,7 @@ const std::filesystem::path& series_file() {
                           (1.0 + 0.3 * std::cos(2.0 * M_PI * hours / (14.77 * 24.0)));
       const double surge = std::fmod(hours * 0.618034, 500.0) < 6.0 ? 0.8 : 0.0;
       const double trend = 0.002 * hours / (365.2425 * 24.0);
-      std::string stamp = tr::format_utc_timestamp(t);
+      const std::string stamp = tr::format_utc_timestamp(t);
       std::snprintf(line, sizeof line, "%s,%.3f\n", stamp.c_str(), 2.0 + tide + surge + trend);
       out << line;
     }

@@ -153,8 +153,8 @@ TEST(AnnualMaximaReference, ReadsEvdSealevelWithMissingYears) {
       "', row.names = FALSE); "
       "for (s in c('dover', 'harwich')) { x <- d[[s]]; "
       "cat(s, sum(!is.na(x)), sprintf('%.17g', sum(x, na.rm = TRUE)), d$year[is.na(x)], '\\n') }";
-  const auto r = tr::testing::run_command("Rscript -e " + tidewright::testing::shell_quote(script));
-  ASSERT_EQ(r.exit_code, 0) << "Rscript with package evd (Debian r-cran-evd) is needed: " << r.err;
+  const auto r = tr::testing::run_rscript(script);
+  ASSERT_EQ(r.exit_code, 0);
   std::istringstream expected(r.out);
   for (const std::string station : {"dover", "harwich"}) {
     std::string line;
@@ -201,8 +201,8 @@ TEST(AnnualMaximaReference, ReadsEvdVeniceAsRLargestInCentimetres) {
       "', row.names = FALSE); "
       "cat(nrow(d), sum(!is.na(venice)), sprintf('%.17g', sum(venice, na.rm = TRUE)), "
       "sum(!is.na(venice[rownames(venice) == '1935', ])), '\\n')";
-  const auto r = tr::testing::run_command("Rscript -e " + tidewright::testing::shell_quote(script));
-  ASSERT_EQ(r.exit_code, 0) << "Rscript with package evd (Debian r-cran-evd) is needed: " << r.err;
+  const auto r = tr::testing::run_rscript(script);
+  ASSERT_EQ(r.exit_code, 0);
   std::istringstream expected(r.out);
   std::size_t years = 0;
   std::size_t values = 0;

@@ -15,15 +15,13 @@
 namespace tr = tidewright::record;
 using ::testing::ElementsAre;
 using ::testing::HasSubstr;
+using tr::testing::hour_s;
 using tr::testing::input_error_of;
 using tr::testing::make_series;
+using tr::testing::utc;
 using namespace std::chrono;
 
 namespace {
-constexpr std::int64_t hour_s = 3600;
-std::int64_t utc(year_month_day ymd, int h = 0) {
-  return duration_cast<seconds>((sys_days(ymd) + hours(h)).time_since_epoch()).count();
-}
 // Hourly samples in [from, to) with level f(t).
 template <class F>
 tr::WaterLevelSeries hourly(std::int64_t from, std::int64_t to, F f) {
@@ -82,6 +80,8 @@ TEST(BlockMaxima, CompletenessWithGapsDropsAndListsYears) {
   tr::AnnualMaximaOptions lenient;
   lenient.min_completeness = 0.7;
   EXPECT_EQ(tr::annual_maxima_from_series(g, lenient).size(), 3U);
+  EXPECT_THAT(am.summary(), HasSubstr("\n  years kept when at least 75.0% complete (expected "
+                                      "samples from the 60-min median spacing)\n"));
   EXPECT_THAT(am.summary(), HasSubstr("1 year dropped: 2002 (72.6% complete, below 75.0%)"));
 }
 
@@ -214,7 +214,50 @@ TEST(BlockMaxima, BadOptions) {
   EXPECT_EQ(input_error_of([&] { (void)tr::annual_maxima_from_series(s, o); }),
             "detrend: annual-mean detrending needs at least 2 complete years; the record has 1; "
             "give a longer record or choose no detrending");
+  const auto two_years = hourly(utc(2001y / January / 1), utc(2003y / January / 1), pattern);
+  o.detrend = tr::DetrendMethod::linear;
+  o.epoch_yr = 1e300;
+  EXPECT_EQ(input_error_of([&] { (void)tr::annual_maxima_from_series(two_years, o); }),
+            "reference epoch: 1e+300 is not a year from 1 to 9999; give a decimal year such as "
+            "2000.0");
+  o.epoch_yr = std::nan("");
+  EXPECT_THAT(input_error_of([&] { (void)tr::annual_maxima_from_series(two_years, o); }),
+              HasSubstr("is not a year from 1 to 9999"));
   EXPECT_EQ(tr::parse_detrend_method("annual-mean"), tr::DetrendMethod::annual_mean);
   EXPECT_EQ(input_error_of([] { (void)tr::parse_detrend_method("quadratic", "--detrend"); }),
             "--detrend: 'quadratic' is not a detrending method; use none, annual-mean or linear");
+}
+
+TEST(BlockMaxima, RLargestIndependentEventsOfEachYear) {
+  // 2001: storms of 1.9 m (hour 1000, with 1.85 m an hour later, the same event), 1.7 m
+  // (hour 1100, 100 h on), 1.6 m (hour 1160, only 60 h after 1.7 m: the same event) and 1.5 m
+  // (hour 5000). 2002: a single storm of 1.4 m; the rest is the background pattern (≤ 0.483 m,
+  // repeated daily, so its next independent values are 0.483 m three days apart).
+  const std::int64_t y2001 = utc(2001y / January / 1);
+  const std::int64_t y2002 = utc(2002y / January / 1);
+  const auto s = hourly(y2001, utc(2003y / January / 1), [&](std::int64_t t) {
+    const std::int64_t k = (t - y2001) / hour_s;
+    if (k == 1000) return 1.9;
+    if (k == 1001) return 1.85;
+    if (k == 1100) return 1.7;
+    if (k == 1160) return 1.6;
+    if (k == 5000) return 1.5;
+    if (t == y2002 + 2000 * hour_s) return 1.4;
+    return pattern(t);
+  });
+  tr::AnnualMaximaOptions o;
+  o.r_largest = 3;
+  const auto am = tr::annual_maxima_from_series(s, o);
+  ASSERT_EQ(am.r_largest_m.size(), 2U);
+  EXPECT_THAT(am.r_largest_m[0], ElementsAre(1.9, 1.7, 1.5));
+  const double p_max = 0.5 * std::cos(std::numbers::pi / 12.0);
+  EXPECT_THAT(am.r_largest_m[1], ElementsAre(1.4, p_max, p_max));
+  EXPECT_DOUBLE_EQ(am.level_m[0], am.r_largest_m[0][0]);
+  // With a 50 h separation the 1.6 m peak, 60 h after 1.7 m, counts as its own event.
+  o.separation_h = 50.0;
+  EXPECT_THAT(tr::annual_maxima_from_series(s, o).r_largest_m[0], ElementsAre(1.9, 1.7, 1.6));
+  o.r_largest = 0;
+  EXPECT_EQ(input_error_of([&] { (void)tr::annual_maxima_from_series(s, o); }),
+            "r largest: 0 values per year asked for; ask for 1 or more");
+  EXPECT_TRUE(tr::annual_maxima_from_series(s).r_largest_m.empty());
 }

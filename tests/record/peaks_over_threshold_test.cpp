@@ -18,15 +18,13 @@ namespace tr = tidewright::record;
 using ::testing::DoubleEq;
 using ::testing::ElementsAre;
 using ::testing::HasSubstr;
+using tr::testing::hour_s;
 using tr::testing::input_error_of;
 using tr::testing::make_series;
+using tr::testing::utc;
 using namespace std::chrono;
 
 namespace {
-constexpr std::int64_t hour_s = 3600;
-std::int64_t utc(year_month_day ymd, int h = 0) {
-  return duration_cast<seconds>((sys_days(ymd) + hours(h)).time_since_epoch()).count();
-}
 const std::int64_t start_2001 = utc(2001y / January / 1);
 
 // One calendar year (2001) of hourly levels: a low background that varies a little (so the
@@ -206,6 +204,10 @@ TEST(PeaksOverThreshold, BadOptions) {
             "separation: 0 h is not a positive time; give the minimum separation of independent "
             "events in hours, such as 72");
   o.separation_h = 72.0;
+  o.rate_curve_lowest_m = std::nan("");
+  EXPECT_EQ(input_error_of([&] { (void)tr::peaks_over_threshold(s, o); }),
+            "rate curve lowest level: is not a finite level; give a level in metres");
+  o.rate_curve_lowest_m.reset();
   o.threshold_m = 2.0;
   EXPECT_EQ(input_error_of([&] { (void)tr::peaks_over_threshold(s, o); }),
             "spikes: no level of the complete years lies above the threshold 2 m; lower the "

@@ -4,6 +4,7 @@
 
 #include <gtest/gtest.h>
 
+#include <chrono>
 #include <cstdint>
 #include <cstdlib>
 #include <functional>
@@ -24,6 +25,14 @@ inline std::string input_error_of(const std::function<void()>& f) {
   }
   ADD_FAILURE() << "expected an InputError";
   return "";
+}
+
+inline constexpr std::int64_t hour_s = 3600;
+
+// Seconds of UTC at hour `h` of a civil date, by std::chrono (independent of the parser).
+inline std::int64_t utc(std::chrono::year_month_day ymd, int h = 0) {
+  using namespace std::chrono;
+  return duration_cast<seconds>((sys_days(ymd) + hours(h)).time_since_epoch()).count();
 }
 
 // A series built in memory (no file), times in seconds.
@@ -57,6 +66,14 @@ inline CommandResult run_command(const std::string& command) {
   r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
   r.out = tidewright::testing::read_all(out);
   r.err = tidewright::testing::read_all(err);
+  return r;
+}
+
+// Runs an R expression with Rscript (package evd from Debian r-cran-evd); a failure is a test
+// failure naming the package, never a skip.
+inline CommandResult run_rscript(const std::string& expression) {
+  auto r = run_command("Rscript -e " + tidewright::testing::shell_quote(expression));
+  EXPECT_EQ(r.exit_code, 0) << "Rscript with package evd (Debian r-cran-evd) is needed: " << r.err;
   return r;
 }
 

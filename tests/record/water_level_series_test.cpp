@@ -12,12 +12,10 @@
 namespace tr = tidewright::record;
 using ::testing::HasSubstr;
 using tr::testing::input_error_of;
+using tr::testing::utc;
 using namespace std::chrono;
 
 namespace {
-std::int64_t utc(year_month_day ymd, int h, int m = 0) {
-  return duration_cast<seconds>((sys_days(ymd) + hours(h) + minutes(m)).time_since_epoch()).count();
-}
 std::string series_error(const std::string& text, const tr::ReadOptions& options = {}) {
   return input_error_of([&] { (void)tr::parse_water_level_series(text, "gauge.csv", options); });
 }

@@ -32,9 +32,10 @@ struct AnnualMaxima {
   std::string datum;
   std::string source;
   std::vector<DroppedYear> dropped;
-  std::optional<Detrend> detrend;  // set when a mean-sea-level trend was removed
-  int year_start_month = 1;        // 1: calendar years
-  double min_completeness = 0.0;   // the rule applied (series only)
+  std::optional<Detrend> detrend;    // set when a mean-sea-level trend was removed
+  int year_start_month = 1;          // 1: calendar years
+  double min_completeness = 0.0;     // the rule applied (series only)
+  double sampling_interval_s = 0.0;  // median spacing the completeness used (series only)
   CleaningCounts cleaning;
 
   [[nodiscard]] std::size_t size() const noexcept { return level_m.size(); }

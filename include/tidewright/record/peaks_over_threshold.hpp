@@ -66,6 +66,7 @@ struct PeaksOverThreshold {
   std::optional<Detrend> detrend;
   int year_start_month = 1;
   double min_completeness = default_min_completeness;
+  double sampling_interval_s = 0.0;  // median spacing the completeness used
   CleaningCounts cleaning;
 
   [[nodiscard]] std::size_t size() const noexcept { return level_m.size(); }
