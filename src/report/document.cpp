@@ -265,9 +265,9 @@ std::string render_markdown(const ReportDocument& doc, std::string_view figure_d
       } else if (const auto* f = std::get_if<Figure>(&b)) {
         const std::string label = "Figure " + std::to_string(++figure_no) + ".";
         const std::string caption = md_escape(f->caption);
-        o += "![" + label + " " + caption + "](";
-        o += std::string(figure_dir) + "/" + f->name + ".svg)\n\n*";
-        o += label + "* " + caption + "\n\n";
+        o.append("![").append(label).append(" ").append(caption).append("](");
+        o.append(figure_dir).append("/").append(f->name).append(".svg)\n\n*");
+        o.append(label).append("* ").append(caption).append("\n\n");
       }
     }
   }

@@ -1,3 +1,6 @@
+// Glossary: T = return period (years), p = annual exceedance probability of a plotting
+// position, n = number of annual maxima, i = rank from the largest (Gringorten 1963);
+// cell_size_m = raster cell edge (m), px_per_cell = display scale of a map.
 #include "tidewright/report/plots.hpp"
 
 #include <algorithm>
