@@ -3,8 +3,9 @@
 
 #include <algorithm>
 #include <cmath>
-#include <regex>
+#include <cctype>
 
+#include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/local/normal_scores.hpp"
 
@@ -54,15 +55,27 @@ void check_ocean_dynamic(const OceanDynamicOffset& o, const std::vector<int>& ye
 }  // namespace
 
 std::optional<double> reference_year_of(const std::string& reference) {
-  static const std::regex single(R"(^\s*(\d{4})\s*$)");
-  static const std::regex period(R"(^\s*(\d{4})\s*-\s*(\d{4})\b.*)");
-  std::smatch m;
-  if (std::regex_match(reference, m, single)) return std::stod(m[1].str());
-  if (std::regex_match(reference, m, period)) {
-    // Middle of the period: 1995-2014 -> 2004.5 (the centre of a multi-year mean).
-    return 0.5 * (std::stod(m[1].str()) + std::stod(m[2].str()));
+  // Hand-parsed rather than std::regex: GCC 12 warns falsely inside <regex> under the
+  // sanitizer build (-Wmaybe-uninitialized), and the grammar is tiny.
+  const std::string r = trim(reference);
+  const auto four_digits = [&](std::size_t at) {
+    return at + 4 <= r.size() &&
+           std::all_of(r.begin() + static_cast<std::ptrdiff_t>(at), r.begin() + static_cast<std::ptrdiff_t>(at + 4),
+                       [](unsigned char c) { return std::isdigit(c) != 0; });
+  };
+  if (!four_digits(0)) return std::nullopt;
+  const double first = std::stod(r.substr(0, 4));
+  if (r.size() == 4) return first;
+  std::size_t k = 4;
+  while (k < r.size() && r[k] == ' ') ++k;
+  if (k >= r.size() || r[k] != '-') return std::nullopt;
+  ++k;
+  while (k < r.size() && r[k] == ' ') ++k;
+  if (!four_digits(k) || (k + 4 < r.size() && std::isdigit(static_cast<unsigned char>(r[k + 4])) != 0)) {
+    return std::nullopt;
   }
-  return std::nullopt;
+  // Middle of the period: 1995-2014 -> 2004.5 (the centre of a multi-year mean).
+  return 0.5 * (first + std::stod(r.substr(k, 4)));
 }
 
 LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const LocalTerms& terms) {

@@ -97,7 +97,10 @@ TEST(LocalRelativeRise, RefusesBadTerms) {
 TEST(LocalRelativeRise, ReferencePeriodGivesItsMiddleYear) {
   EXPECT_DOUBLE_EQ(reference_year_of("1995-2014 mean").value_or(0), 2004.5);
   EXPECT_DOUBLE_EQ(reference_year_of("2020").value_or(0), 2020.0);
+  EXPECT_DOUBLE_EQ(reference_year_of(" 1986 - 2005").value_or(0), 1995.5);
   EXPECT_FALSE(reference_year_of("pre-industrial").has_value());
+  EXPECT_FALSE(reference_year_of("20200").has_value());
+  EXPECT_FALSE(reference_year_of("1995-20145").has_value());
 }
 
 // Subsidence of 3 mm/yr with sd 1 mm/yr over 20000 members: the members' rates have sample
