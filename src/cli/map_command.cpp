@@ -209,7 +209,7 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
       throw InputError("--rise", "a rise needs a present-day still-water model",
                        "give --gumbel, --gev, --gpd or --model-json");
     }
-    const StillWaterModel m = *model;
+    const StillWaterModel& m = *model;
     // Interim N_t(z) = N_0(z - rise_t): a stated deterministic rise (docs/design.md, with Δ_t
     // fixed); the planning stage's ensemble expectation replaces it.
     years.push_back({static_cast<int>(year), [m, rise](double z) {
@@ -217,7 +217,7 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
                      }});
   }
   if (model) {
-    const StillWaterModel m = *model;
+    const StillWaterModel& m = *model;
     req.aep.push_back({[m](double z) { return m.annual_exceedance_rate(z); },
                        "present day, " + model_label(m), std::nullopt, o.scenario});
     for (std::size_t i = 0; i < years.size(); ++i) {
@@ -345,10 +345,13 @@ void configure(CLI::App& app, CommonOptions& common) {
         recipe += " " + name;
       } else if (name == "--gumbel" || name == "--gev" || name == "--gpd") {
         std::string joined;
-        for (const auto& r : opt->results()) joined += (joined.empty() ? "" : ",") + r;
-        recipe += " " + name + " " + joined;
+        for (const auto& r : opt->results()) {
+          if (!joined.empty()) joined += ',';
+          joined += r;
+        }
+        recipe.append(" ").append(name).append(" ").append(joined);
       } else {
-        for (const auto& r : opt->results()) recipe += " " + name + " " + r;
+        for (const auto& r : opt->results()) recipe.append(" ").append(name).append(" ").append(r);
       }
     }
     const auto req = build_request(*o, common, recipe);

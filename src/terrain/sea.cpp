@@ -22,6 +22,7 @@ std::vector<std::uint8_t> rasterise_sea_polygons(const std::string& path, const 
   }
   auto mem = gdal::mem_raster(grid, GDT_Byte, 1, 0.0);
   std::vector<OGRGeometryH> handles;
+  handles.reserve(geometries.size());
   for (auto& g : geometries) handles.push_back(OGRGeometry::ToHandle(g.geometry.get()));
   const std::vector<double> burn(handles.size(), 1.0);
   int band = 1;
