@@ -77,16 +77,21 @@ void configure(CLI::App& app, CommonOptions& common) {
       const auto cond = planning::conditions_in_year(in.rise, y, in.storminess);
       for (const auto& target : targets) {
         const auto am = planning::amplification(in.fit.model, cond, target.level_m);
+        // An annual-maxima model counts years with an exceedance, not exceedances: past one a year
+        // only a bound is honest.
+        const bool beyond = in.fit.model.family != extremes::Family::gpd && am.future_rate_per_yr > 1.0;
         t.add_row({std::to_string(y), report::fixed(target.level_m, 3), period_text(am.present_return_period_yr),
-                   period_text(am.future_return_period_yr),
+                   beyond ? "< 1 (more than yearly)" : period_text(am.future_return_period_yr),
                    am.present_rate_is_zero ? "not finite (level above today's upper end point)"
+                   : beyond                ? "> " + report::fixed(1.0 / am.present_rate_per_yr, 1)
                                            : report::fixed(am.amplification_factor, 1)});
         rows.push_back({{"year", y},
                         {"level", target.level_m},
                         {"present_return_period", finite_or_null(am.present_return_period_yr)},
                         {"future_return_period", finite_or_null(am.future_return_period_yr)},
                         {"amplification_factor", finite_or_null(am.amplification_factor)},
-                        {"present_rate_is_zero", am.present_rate_is_zero}});
+                        {"present_rate_is_zero", am.present_rate_is_zero},
+                        {"beyond_annual_maxima_range", beyond}});
         csv << y << ',' << report::fixed(target.level_m, 4) << ',' << am.present_return_period_yr << ','
             << am.future_return_period_yr << ',' << am.amplification_factor << '\n';
       }

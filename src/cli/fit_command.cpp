@@ -37,6 +37,7 @@ struct FitArgs {
 };
 
 std::string interval_text(const extremes::ReturnLevel& l) {
+  if (std::isnan(l.lower_m) || std::isnan(l.upper_m)) return "not available";
   const auto end = [](double v) { return std::isfinite(v) ? report::fixed(v, 3) : std::string("unbounded"); };
   return "[" + end(l.lower_m) + ", " + end(l.upper_m) + "]";
 }

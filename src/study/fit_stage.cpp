@@ -2,6 +2,8 @@
 
 #include <cmath>
 #include <cstdio>
+#include <limits>
+#include <span>
 
 #include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
@@ -35,7 +37,22 @@ nlohmann::ordered_json number_or_null(double v) {
 
 void fill_intervals(FitStageResult& out, const FitRequest& request) {
   out.delta = extremes::return_levels_delta(out.fit, request.return_periods_yr);
-  out.profile = extremes::return_levels_profile(out.fit, request.return_periods_yr);
+  // Period by period, so that one profile that cannot be maximised (a short record with a
+  // heavy tail) costs that period's profile interval, said in a warning, not the whole fit.
+  for (std::size_t i = 0; i < request.return_periods_yr.size(); ++i) {
+    const double t = request.return_periods_yr[i];
+    try {
+      out.profile.push_back(extremes::return_levels_profile(out.fit, std::span<const double>(&t, 1)).front());
+    } catch (const ComputationError& e) {
+      extremes::ReturnLevel failed = out.delta[i];
+      failed.method = extremes::IntervalMethod::profile;
+      failed.lower_m = std::numeric_limits<double>::quiet_NaN();
+      failed.upper_m = std::numeric_limits<double>::quiet_NaN();
+      out.profile.push_back(failed);
+      out.warnings.push_back("no profile-likelihood interval for the " + report_period(t) +
+                             "-year level (" + e.problem() + "); the delta-method interval is the only one given");
+    }
+  }
   if (request.bootstrap_samples > 0) {
     extremes::BootstrapOptions b;
     b.samples = request.bootstrap_samples;
@@ -43,7 +60,7 @@ void fill_intervals(FitStageResult& out, const FitRequest& request) {
     out.bootstrap = extremes::return_levels_bootstrap(out.fit, request.return_periods_yr, b);
   }
   for (const auto& p : out.profile) {
-    if (!std::isfinite(p.lower_m) || !std::isfinite(p.upper_m)) {
+    if (std::isinf(p.lower_m) || std::isinf(p.upper_m)) {
       out.warnings.push_back("the profile likelihood does not bound the " +
                              report_period(p.return_period_yr) +
                              "-year level on one side: the data cannot say how high (or low) it may be");

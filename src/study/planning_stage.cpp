@@ -43,7 +43,7 @@ PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
       const int year = static_cast<int>(std::lround(e));
       const Eigen::VectorXd at_epoch = rise.rise_in(std::clamp(year, rise.years.front(), rise.years.back()));
       rise.rise_m.colwise() -= at_epoch;
-      rise.reference = "record epoch " + num(e, 1) + " (re-referenced member by member)";
+      rise.reference = "the record's epoch " + num(e, 1);
       in.notes.push_back("each member's rise is measured from the record's epoch " + num(e, 1) +
                          " (its rise in " + std::to_string(year) + " subtracted)");
     } else if (period && e >= period->first - 0.5 && e <= period->second + 1.0) {

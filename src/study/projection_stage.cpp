@@ -160,8 +160,27 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
   out.global = climate::project_global_components(scenario, options);
   local::LocalTerms terms = r.local;
   terms.seed = r.seed;
+  if (!terms.land_motion.reference_year) {
+    // Land motion counts from the middle of the reference period: the mean of a linear motion
+    // over the period is zero there, as the rise's is by construction.
+    terms.land_motion.reference_year = 0.5 * (r.reference.first_year + r.reference.last_year);
+  }
   out.local = local::local_relative_rise(*out.global, terms);
-  out.cautions = out.local.cautions;
+  // The per-component "defaulted to 1" cautions, said once with the components listed.
+  std::vector<std::string> defaulted;
+  for (const auto& c : out.local.cautions) {
+    const std::string head = "The fingerprint factor for ";
+    const auto end = c.find(" defaulted to 1");
+    if (c.rfind(head, 0) == 0 && end != std::string::npos) defaulted.push_back(c.substr(head.size(), end - head.size()));
+    else out.cautions.push_back(c);
+  }
+  if (!defaulted.empty()) {
+    std::string list;
+    for (const auto& d : defaulted) list += (list.empty() ? "" : ", ") + d;
+    out.cautions.push_back("fingerprint factors defaulted to 1 for " + list +
+                           ": this ignores the gravitational, rotational and deformational pattern of sea-level "
+                           "change; use site-specific values");
+  }
   if (scenario.illustrative) {
     out.cautions.insert(out.cautions.begin(),
                         "scenario '" + scenario.label + "' is a built-in illustrative pathway, not official scenario data");

@@ -4,6 +4,8 @@
 
 #include <gdal_priv.h>
 #include <gtest/gtest.h>
+
+#include "tidewright/study/site_config.hpp"
 #include <toml++/toml.h>
 
 #include <fstream>
@@ -85,20 +87,20 @@ TEST(DemoInputs, ExistingFolderIsRefusedWithoutForceAndNothingChanges) {
   EXPECT_NE(read_all(in.record_csv), before);
 }
 
-TEST(DemoInputs, SiteFileParsesAndNamesTheWrittenFiles) {
+TEST(DemoInputs, SiteFileLoadsAndNamesTheWrittenFiles) {
   TempDir dir;
   const auto in = demo::write_demo_inputs(dir.path(), 3, {true, false});
-  const toml::table site = toml::parse_file(in.site_toml.string());
-  EXPECT_EQ(site["site"]["invented"].value<bool>(), true);
-  EXPECT_EQ(site["site"]["crs"].value<std::string>(), "EPSG:32630");
-  EXPECT_EQ(site["site"]["dem_datum_offset_m"].value<double>(), 0.0);
-  for (const auto& [table, key] : std::vector<std::pair<std::string, std::string>>{
-           {"record", "path"}, {"terrain", "dem"}, {"terrain", "sea"}, {"terrain", "defences"}}) {
-    const auto rel = site[table][key].value<std::string>();
-    ASSERT_TRUE(rel) << table << "." << key;
-    EXPECT_TRUE(std::filesystem::exists(dir / *rel)) << *rel;
+  // Through the study's own strict reader: an unknown or misspelt key would fail here.
+  const auto site = tidewright::study::load_site_file(in.site_toml);
+  EXPECT_TRUE(site.site.invented);
+  EXPECT_EQ(site.site.crs, "EPSG:32630");
+  ASSERT_TRUE(site.map.enabled);
+  ASSERT_TRUE(site.map.dem_offset_m.has_value());
+  EXPECT_EQ(*site.map.dem_offset_m, 0.0);
+  EXPECT_EQ(site.seed, 3U);
+  for (const auto& p : {site.record.path, site.map.dem, *site.map.sea, *site.map.defences}) {
+    EXPECT_TRUE(std::filesystem::exists(p)) << p;
   }
-  EXPECT_EQ(site["projection"]["seed"].value<std::int64_t>(), 3);
 }
 
 TEST(DemoInputs, CommittedSiteFileIsTheGeneratorsText) {

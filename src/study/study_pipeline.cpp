@@ -1,0 +1,627 @@
+#include "tidewright/study/study_pipeline.hpp"
+
+#include <algorithm>
+#include <chrono>
+#include <limits>
+#include <cmath>
+#include <fstream>
+#include <sstream>
+
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/error.hpp"
+#include "tidewright/report/cautions.hpp"
+#include "tidewright/report/document.hpp"
+#include "tidewright/report/plots.hpp"
+#include "tidewright/report/text_table.hpp"
+#include "tidewright/study/fit_stage.hpp"
+#include "tidewright/study/planning_stage.hpp"
+#include "tidewright/study/projection_stage.hpp"
+#include "tidewright/terrain/flood_map.hpp"
+#include "tidewright/version.hpp"
+
+#include <gdal_priv.h>
+#include <memory>
+
+namespace tidewright::study {
+namespace {
+
+using report::fixed;
+using Json = nlohmann::ordered_json;
+
+class StageClock {
+ public:
+  StageClock(StudyOutcome& out, const StudyOptions& o) : out_(out), o_(o) {}
+  void begin(const std::string& name) {
+    end();
+    name_ = name;
+    start_ = std::chrono::steady_clock::now();
+    if (o_.progress) o_.progress(name);
+  }
+  void end() {
+    if (name_.empty()) return;
+    const double s = std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count();
+    out_.stage_seconds.emplace_back(name_, s);
+    name_.clear();
+  }
+
+ private:
+  StudyOutcome& out_;
+  const StudyOptions& o_;
+  std::string name_;
+  std::chrono::steady_clock::time_point start_;
+};
+
+FitRequest fit_request(const SiteConfig& c) {
+  FitRequest r;
+  r.input = c.record.path;
+  r.kind = c.record.kind == "series" ? RecordKind::series : RecordKind::annual_maxima;
+  r.read.time_column = c.record.time_column;
+  r.read.year_column = c.record.year_column;
+  r.read.level_column = c.record.level_column;
+  r.read.unit = c.record.units;
+  r.read.datum = c.site.datum;
+  for (const auto& m : c.record.missing_markers) r.read.missing.markers.push_back(m);
+  r.read.missing.sentinels = c.record.sentinels;
+  r.model = c.extremes.model;
+  r.return_periods_yr = c.extremes.return_periods_yr;
+  const auto method = record::parse_detrend_method(c.record.detrend == "annual_mean" ? "annual-mean" : c.record.detrend,
+                                                   field_location(c.file.string(), "record.detrend"));
+  r.maxima.min_completeness = c.record.min_completeness;
+  r.maxima.year_start_month = c.record.year_start_month;
+  r.maxima.detrend = method;
+  r.maxima.epoch_yr = c.record.reference_epoch;
+  r.peaks.min_completeness = c.record.min_completeness;
+  r.peaks.year_start_month = c.record.year_start_month;
+  r.peaks.detrend = method;
+  r.peaks.epoch_yr = c.record.reference_epoch;
+  r.peaks.separation_h = c.extremes.declustering_hours;
+  if (c.extremes.threshold_m) r.peaks.threshold_m = c.extremes.threshold_m;
+  else r.peaks.threshold_quantile = c.extremes.threshold_quantile;
+  r.r_largest = static_cast<std::size_t>(c.extremes.r_largest);
+  r.bootstrap_samples = static_cast<std::size_t>(c.extremes.bootstrap_samples);
+  r.seed = c.seed;
+  return r;
+}
+
+ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings& s, std::size_t index) {
+  ProjectionRequest r;
+  r.label = s.name;
+  if (s.source == "pathway") {
+    r.source = ScenarioSource::pathway;
+    r.pathway = s.pathway;
+  } else {
+    r.source = s.source == "forcing_csv" ? ScenarioSource::forcing_csv
+               : s.source == "co2_csv"   ? ScenarioSource::co2_csv
+               : s.source == "temperature_csv" ? ScenarioSource::temperature_csv
+                                               : ScenarioSource::table;
+    r.path = *s.path;
+  }
+  r.first_year = c.projection.start_year;
+  r.last_year = c.projection.end_year;
+  r.members = c.projection.members;
+  r.seed = c.seed + index;  // each scenario its own stream, reproducible
+  int a = 0, b = 0;
+  if (std::sscanf(c.projection.reference.c_str(), "%d-%d", &a, &b) == 2) r.reference = {a, b};
+  else if (std::sscanf(c.projection.reference.c_str(), "%d", &a) == 1) r.reference = {a, a};
+  else throw InputError(field_location(c.file.string(), "projection.reference"), "is '" + c.projection.reference + "'",
+                        "give a year (2020) or a period (1995-2014)");
+  if (r.source != ScenarioSource::table) {
+    r.local.fingerprint = c.local.fingerprints;
+    r.local.land_motion.uplift_mm_per_yr = c.local.land_motion_mm_per_yr;
+    r.local.land_motion.uplift_sd_mm_per_yr = c.local.land_motion_sd_mm_per_yr;
+    if (c.local.ocean_dynamic_offset_m != 0.0 || c.local.ocean_dynamic_sd_m != 0.0) {
+      // A linear ramp from zero at the start to the stated offset in 2100 (docs/site-file.md).
+      for (int y = r.first_year; y <= r.last_year; ++y) {
+        const double w = std::max(0.0, static_cast<double>(y - r.first_year) / (2100.0 - r.first_year));
+        r.local.ocean_dynamic.years.push_back(y);
+        r.local.ocean_dynamic.mean_m.push_back(c.local.ocean_dynamic_offset_m * w);
+        r.local.ocean_dynamic.sd_m.push_back(c.local.ocean_dynamic_sd_m * w);
+      }
+    }
+  }
+  return r;
+}
+
+struct ScenarioRun {
+  ScenarioSettings settings;
+  ProjectionStageResult projection;
+  PlanningInputs inputs;
+  std::vector<AllowanceRow> allowances;
+};
+
+// A band of a GeoTIFF the map stage wrote, as the report's map plots take it.
+report::RasterView read_raster_for_view(const std::filesystem::path& tif, double& cell_size_m, int band_index = 0) {
+  GDALAllRegister();
+  std::unique_ptr<GDALDataset> ds(GDALDataset::Open(tif.c_str(), GDAL_OF_RASTER | GDAL_OF_READONLY));
+  if (!ds) throw ComputationError(tif.string(), "the map stage's raster cannot be read back", "report this as a bug");
+  const int bands = ds->GetRasterCount();
+  const int b = band_index < 0 ? bands : std::clamp(band_index + 1, 1, bands);
+  GDALRasterBand* band = ds->GetRasterBand(b);
+  report::RasterView v;
+  v.columns = ds->GetRasterXSize();
+  v.rows = ds->GetRasterYSize();
+  double gt[6] = {0, 1, 0, 0, 0, -1};
+  ds->GetGeoTransform(gt);
+  cell_size_m = std::abs(gt[1]);
+  v.cell_size_m = cell_size_m;
+  v.values.resize(static_cast<std::size_t>(v.columns) * static_cast<std::size_t>(v.rows));
+  if (band->RasterIO(GF_Read, 0, 0, v.columns, v.rows, v.values.data(), v.columns, v.rows, GDT_Float32, 0, 0) != CE_None) {
+    throw ComputationError(tif.string(), "the map stage's raster cannot be read back", "report this as a bug");
+  }
+  int has_nodata = 0;
+  const double nd = band->GetNoDataValue(&has_nodata);
+  if (has_nodata) v.nodata = static_cast<float>(nd);
+  return v;
+}
+
+}  // namespace
+
+StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
+  StudyOutcome out;
+  out.out_dir = o.out_dir;
+  StageClock clock(out, o);
+  AtomicPath folder(o.out_dir, o.force, "--out");
+  const auto dir = folder.temp_path();
+  std::filesystem::create_directories(dir);
+  const std::string datum = c.site.datum;
+  const std::string invented = c.site.invented ? " (invented data)" : "";
+
+  // --- record and fit ---------------------------------------------------------------------
+  clock.begin("record and extreme-value fit");
+  const FitStageResult fit = run_fit_stage(fit_request(c));
+  Json all;
+  all["site"] = {{"name", c.site.name}, {"datum", datum}, {"crs", c.site.crs}, {"x", c.site.x}, {"y", c.site.y},
+                 {"invented", c.site.invented}};
+  all["tool"] = std::string("tidewright ") + version_string;
+  all["seed"] = c.seed;
+  all["fit"] = fit_result_json(fit);
+  FitSummary summary;
+  summary.model = fit.present_day;
+  summary.datum = fit.datum;
+  summary.reference_epoch = fit.reference_epoch;
+  summary.parameter_names = fit.fit.parameter_names;
+  for (Eigen::Index i = 0; i < fit.fit.estimate.size(); ++i) summary.estimates.push_back(fit.fit.estimate(i));
+  summary.covariance = Eigen::MatrixXd(fit.fit.covariance);
+  summary.source = c.record.path.string();
+
+  // --- projections and planning -----------------------------------------------------------
+  std::vector<ScenarioRun> runs;
+  planning::StorminessChange storminess;
+  storminess.scale_fraction_per_yr = c.planning.storminess_scale_per_yr;
+  storminess.reference_year = c.projection.start_year;
+  for (std::size_t i = 0; i < c.scenarios.size(); ++i) {
+    clock.begin("projection '" + c.scenarios[i].name + "'");
+    ScenarioRun run;
+    run.settings = c.scenarios[i];
+    run.projection = run_projection_stage(projection_request(c, c.scenarios[i], i));
+    clock.begin("planning '" + c.scenarios[i].name + "'");
+    run.inputs = join_fit_and_projection(summary, run.projection.local.total, std::nullopt, storminess);
+    run.allowances = allowance_table(run.inputs, c.planning.design_years, c.planning.return_periods_yr, 0, c.seed);
+    runs.push_back(std::move(run));
+  }
+
+  // --- the answers, as report tables ------------------------------------------------------
+  clock.begin("planning tables");
+  const std::string level_unit = "m above " + datum;
+  report::Table heights{"design_heights",
+                        "Still-water design heights: today's T-year level plus the allowance that keeps the expected "
+                        "number of exceedances per year at today's (Hunter 2012), per scenario and year.",
+                        {{"Scenario", ""}, {"Year", ""}, {"Return period", "years"}, {"Today's level", level_unit},
+                         {"Allowance", "m"}, {"Design height", level_unit}, {"Mean rise", "m"}, {"Rise sd", "m"}},
+                        {}};
+  Json scen_json = Json::array();
+  for (const auto& run : runs) {
+    Json sj;
+    sj["name"] = run.settings.name;
+    sj["projection"] = projection_json(run.projection);
+    sj["allowances"] = allowance_json(run.inputs, run.allowances)["allowances"];
+    sj["notes"] = run.inputs.notes;
+    for (const auto& r : run.allowances) {
+      const auto& a = r.allowance;
+      heights.add_row({run.settings.name, std::to_string(a.first_year), fixed(a.return_period_yr, 0),
+                       fixed(a.present_level_m, 2), fixed(a.allowance_m, 2), fixed(a.present_level_m + a.allowance_m, 2),
+                       fixed(a.mean_rise_m, 2), fixed(a.sd_rise_m, 2)});
+    }
+    scen_json.push_back(sj);
+  }
+
+  report::Table shifts{"return_period_shifts",
+                       "How often today's levels will be exceeded: future return period and amplification factor "
+                       "N_t(z)/N_0(z), per scenario and year. '< 1' and '> x': the level would be passed more than "
+                       "once a year, beyond what a model of annual maxima can count.",
+                       {{"Scenario", ""}, {"Year", ""}, {"Level", level_unit}, {"Today's return period", "years"},
+                        {"Future return period", "years"}, {"Amplification factor", ""}},
+                       {}};
+  report::Table emergence{"emergence_years",
+                          "First year in which today's level is expected to be exceeded at least once a year.",
+                          {{"Scenario", ""}, {"Level", level_unit}, {"Today's return period", "years"},
+                           {"First year exceeded yearly", ""}},
+                          {}};
+  const int life_first = c.planning.design_life_start, life_last = c.planning.design_life_end;
+  report::Table risk{"design_life_risk",
+                     "Probability of at least one exceedance over the design life " + std::to_string(life_first) + "-" +
+                         std::to_string(life_last) + ", from the ensemble members (year-to-year correlation kept).",
+                     {{"Scenario", ""}, {"Height", level_unit}, {"Probability of exceedance", ""},
+                      {"Expected exceedances", ""}},
+                     {}};
+  report::Table target{"target_heights",
+                       "Height with the target probability of at least one exceedance over the design life.",
+                       {{"Scenario", ""}, {"Design life", ""}, {"Target probability", ""}, {"Height", level_unit}},
+                       {}};
+  std::vector<double> follow_levels;
+  for (double t : c.planning.return_periods_yr) follow_levels.push_back(planning::present_return_level(fit.present_day, t));
+  for (double z : c.planning.levels_of_interest_m) follow_levels.push_back(z);
+  std::vector<double> risk_heights;
+  std::vector<report::NamedSeries> risk_curves, af_series, allowance_series, height_series;
+  std::vector<double> plot_years;
+  for (int y = c.projection.start_year; y <= std::min(c.projection.end_year, 2150); y += 5) plot_years.push_back(y);
+  {
+    const double z0 = planning::present_return_level(fit.present_day, 2.0);
+    for (int k = 0; k <= 40; ++k) risk_heights.push_back(z0 + 0.05 * k);
+  }
+  const double design_rp = c.planning.return_periods_yr.back();
+  for (std::size_t si = 0; si < runs.size(); ++si) {
+    auto& run = runs[si];
+    auto& sj = scen_json[si];
+    Json rows = Json::array();
+    for (int y : c.planning.design_years) {
+      const auto cond = planning::conditions_in_year(run.inputs.rise, y, run.inputs.storminess);
+      for (double z : follow_levels) {
+        const auto am = planning::amplification(fit.present_day, cond, z);
+        // An annual-maxima model says how often a level is the year's highest, not how many times a
+        // year it is passed: beyond one exceedance a year only a bound is honest.
+        const bool beyond = fit.present_day.family != extremes::Family::gpd && am.future_rate_per_yr > 1.0;
+        shifts.add_row({run.settings.name, std::to_string(y), fixed(z, 2), fixed(am.present_return_period_yr, 1),
+                        beyond ? "< 1" : fixed(am.future_return_period_yr, 2),
+                        am.present_rate_is_zero ? "not finite"
+                        : beyond                ? "> " + fixed(1.0 / am.present_rate_per_yr, 1)
+                                                : fixed(am.amplification_factor, 1)});
+        rows.push_back({{"year", y}, {"level", z}, {"present_return_period", am.present_return_period_yr},
+                        {"future_return_period", am.future_return_period_yr},
+                        {"amplification_factor", std::isfinite(am.amplification_factor) ? Json(am.amplification_factor) : Json(nullptr)},
+                        {"beyond_annual_maxima_range", beyond}});
+      }
+    }
+    sj["amplification"] = rows;
+    const auto span_all = year_span(run.inputs, run.inputs.rise.years.front(), run.inputs.rise.years.back());
+    Json em = Json::array();
+    for (double z : follow_levels) {
+      const auto e = planning::emergence_year(fit.present_day, span_all, z, 1.0);
+      emergence.add_row({run.settings.name, fixed(z, 2), fixed(1.0 / fit.present_day.annual_exceedance_rate(z), 1),
+                         e.year ? std::to_string(*e.year) : "not by " + std::to_string(run.inputs.rise.years.back())});
+      em.push_back({{"level", z}, {"year", e.year ? Json(*e.year) : Json(nullptr)}});
+    }
+    sj["emergence"] = em;
+    const auto life = year_span(run.inputs, life_first, life_last);
+    Json rj = Json::array();
+    for (double h : c.planning.levels_of_interest_m) {
+      const auto r = planning::design_life_risk(fit.present_day, life, h);
+      risk.add_row({run.settings.name, fixed(h, 2), r.rounds_to_one ? "> 0.999999" : fixed(r.probability, 4),
+                    fixed(r.expected_exceedances, 3)});
+      rj.push_back({{"height_m", h}, {"probability", r.probability}, {"expected_exceedances", r.expected_exceedances},
+                    {"rounds_to_one", r.rounds_to_one}});
+    }
+    const auto tl = planning::level_for_design_life_risk(fit.present_day, life, c.planning.target_risk);
+    target.add_row({run.settings.name, std::to_string(life_first) + "-" + std::to_string(life_last),
+                    fixed(c.planning.target_risk, 3), fixed(tl.level_m, 2)});
+    sj["design_life"] = {{"first_year", life_first}, {"last_year", life_last}, {"risks", rj},
+                         {"target_probability", c.planning.target_risk}, {"target_height_m", tl.level_m}};
+    report::NamedSeries curve{run.settings.name, {}};
+    for (double h : risk_heights) curve.values.push_back(planning::design_life_risk(fit.present_day, life, h).probability);
+    risk_curves.push_back(curve);
+    report::NamedSeries af{run.settings.name + ", today's " + fixed(design_rp, 0) + "-year level", {}};
+    report::NamedSeries al{run.settings.name, {}};
+    report::NamedSeries dh{run.settings.name, {}};
+    const double z_design = planning::present_return_level(fit.present_day, design_rp);
+    for (double y : plot_years) {
+      const auto cond = planning::conditions_in_year(run.inputs.rise, static_cast<int>(y), run.inputs.storminess);
+      af.values.push_back(planning::amplification(fit.present_day, cond, z_design).amplification_factor);
+      const auto a = planning::allowance(fit.present_day, cond, design_rp);
+      al.values.push_back(a.allowance_m);
+      dh.values.push_back(a.present_level_m + a.allowance_m);
+    }
+    af_series.push_back(af);
+    allowance_series.push_back(al);
+    height_series.push_back(dh);
+  }
+  all["scenarios"] = scen_json;
+
+  // --- maps ---------------------------------------------------------------------------------
+  Json maps_json;
+  std::vector<report::Figure> map_figures;
+  report::Table map_table{"flooded_areas",
+                          "Land reached by the sea (connected) and low-lying land it does not reach, per mapped level.",
+                          {{"Level", level_unit}, {"Year", ""}, {"Scenario", ""}, {"Flooded area", "ha"},
+                           {"Disconnected low-lying area", "ha"}, {"Largest depth", "m"}},
+                          {}};
+  if (c.map.enabled) {
+    clock.begin("maps");
+    terrain::MapRequest m;
+    m.dem.path = c.map.dem.string();
+    if (c.map.same_datum) m.dem.datum.kind = terrain::DatumRelation::Kind::same;
+    else {
+      m.dem.datum.kind = terrain::DatumRelation::Kind::constant;
+      m.dem.datum.offset_m = *c.map.dem_offset_m;
+    }
+    if (c.map.sea) m.sea.mask_path = c.map.sea->string();
+    if (c.map.defences) {
+      terrain::DefenceSource d;
+      d.path = c.map.defences->string();
+      d.crest_field = c.map.crest_attribute;
+      d.crest_in_water_datum = true;
+      m.defences = d;
+    }
+    m.connectivity = c.map.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
+    for (double t : c.map.return_periods_yr) {
+      m.levels.push_back({planning::present_return_level(fit.present_day, t), std::nullopt, "present day"});
+    }
+    for (const auto& run : runs) {
+      for (int y : c.map.years) {
+        const auto cond = planning::conditions_in_year(run.inputs.rise, y, run.inputs.storminess);
+        for (double t : c.map.return_periods_yr) {
+          const auto a = planning::allowance(fit.present_day, cond, t);
+          m.levels.push_back({a.present_level_m + a.allowance_m, y, run.settings.name});
+        }
+      }
+    }
+    const auto present = fit.present_day;
+    m.aep.push_back({[present](double z) { return present.annual_exceedance_rate(z); }, "present-day AEP",
+                     std::nullopt, "present day"});
+    for (const auto& run : runs) {
+      for (int y : c.map.years) {
+        auto cond = std::make_shared<planning::YearConditions>(
+            planning::conditions_in_year(run.inputs.rise, y, run.inputs.storminess));
+        m.aep.push_back({[present, cond](double z) { return planning::future_exceedance_rate(present, *cond, z); },
+                         "AEP in " + std::to_string(y) + ", scenario " + run.settings.name, y, run.settings.name});
+      }
+    }
+    {
+      terrain::FirstYearLayer fy;
+      fy.aep = c.map.aep_passing;
+      fy.scenario = runs.back().settings.name;
+      fy.description = "first year the AEP passes " + fixed(c.map.aep_passing, 3) + ", scenario " + fy.scenario;
+      const auto& rise = runs.back().inputs.rise;
+      for (int y = rise.years.front(); y <= rise.years.back(); y += 5) {
+        auto cond = std::make_shared<planning::YearConditions>(planning::conditions_in_year(rise, y, runs.back().inputs.storminess));
+        fy.years.push_back({y, [present, cond](double z) { return planning::future_exceedance_rate(present, *cond, z); }});
+      }
+      m.first_year = fy;
+    }
+    m.polygons = true;
+    m.out_dir = dir / "maps";
+    m.force = false;
+    m.command_line = o.command;
+    for (const auto& s : report::safety_cautions()) m.cautions.emplace_back(s);
+    const auto ms = terrain::make_flood_maps(m);
+    Json levels = Json::array();
+    for (const auto& l : ms.levels) {
+      map_table.add_row({fixed(l.level.level_m, 2), l.level.year ? std::to_string(*l.level.year) : "today",
+                         l.level.scenario, fixed(l.flooded_area_m2 / 1e4, 2), fixed(l.disconnected_area_m2 / 1e4, 2),
+                         fixed(l.max_depth_m, 2)});
+      levels.push_back({{"level_m", l.level.level_m}, {"year", l.level.year ? Json(*l.level.year) : Json(nullptr)},
+                        {"scenario", l.level.scenario}, {"flooded_area_m2", l.flooded_area_m2},
+                        {"disconnected_area_m2", l.disconnected_area_m2}, {"volume_m3", l.volume_m3},
+                        {"max_depth_m", l.max_depth_m}});
+    }
+    maps_json = {{"files", ms.files}, {"area_method", ms.area_method}, {"levels", levels}};
+    for (const auto& f : ms.files) out.files.push_back("maps/" + f);
+    all["maps"] = maps_json;
+  }
+
+  // --- the report -------------------------------------------------------------------------
+  clock.begin("report");
+  report::ReportDocument doc;
+  doc.title = "Sea-level planning report" + invented;
+  doc.site_name = c.site.name;
+  doc.date = o.date;
+  doc.tool_version = std::string("tidewright ") + version_string;
+  doc.summary = "Still-water design heights, return-period shifts, amplification factors and design-life risk for " +
+                c.site.name + ", from the tide-gauge record " + c.record.path.filename().string() + " and " +
+                std::to_string(runs.size()) + " sea-level scenario(s). Levels are in metres above " + datum + "." +
+                (c.site.invented ? " All data in this report are invented for a demonstration." : "");
+  report::Section answers{"Answers", {}};
+  answers.blocks.emplace_back(report::Paragraph{"Design heights keep the expected number of exceedances per year in the "
+                                                "design year equal to today's (Hunter 2012). They are still-water levels: "
+                                                "add waves, freeboard and local code requirements."});
+  answers.blocks.emplace_back(heights);
+  answers.blocks.emplace_back(report::Figure{"design_heights", "Design height of today's " + fixed(design_rp, 0) +
+                                                                   "-year level by year, per scenario.",
+                                             report::design_height_plot(plot_years, height_series, datum,
+                                                                        planning::present_return_level(fit.present_day, design_rp),
+                                                                        "today's " + fixed(design_rp, 0) + "-year level")});
+  answers.blocks.emplace_back(shifts);
+  answers.blocks.emplace_back(report::Figure{"amplification", "Amplification of the exceedance frequency of today's " +
+                                                                  fixed(design_rp, 0) + "-year level.",
+                                             report::amplification_plot(plot_years, af_series)});
+  answers.blocks.emplace_back(emergence);
+  answers.blocks.emplace_back(risk);
+  answers.blocks.emplace_back(target);
+  answers.blocks.emplace_back(report::Figure{"design_life_risk", "Probability of at least one exceedance over the design life.",
+                                             report::design_life_risk_plot(risk_heights, risk_curves, datum,
+                                                                           std::to_string(life_first) + "-" + std::to_string(life_last),
+                                                                           c.planning.target_risk)});
+  doc.sections.push_back(std::move(answers));
+
+  report::Section evidence{"Evidence", {}};
+  evidence.blocks.emplace_back(report::Subheading{"The record"});
+  {
+    report::BulletList lines;
+    std::istringstream in(fit.data_summary);
+    for (std::string line; std::getline(in, line);) lines.items.push_back(line);
+    evidence.blocks.emplace_back(lines);
+  }
+  evidence.blocks.emplace_back(report::Subheading{"Extreme-value fit"});
+  report::Table params{"fit_parameters", "Maximum-likelihood estimates with standard errors from the observed information.",
+                       {{"Parameter", ""}, {"Estimate", ""}, {"Standard error", ""}}, {}};
+  for (std::size_t i = 0; i < fit.fit.parameter_names.size(); ++i) {
+    const auto k = static_cast<Eigen::Index>(i);
+    params.add_row({fit.fit.parameter_names[i], fixed(fit.fit.estimate(k), 4), fixed(fit.fit.standard_error(k), 4)});
+  }
+  evidence.blocks.emplace_back(params);
+  std::string diag = "Model " + fit.model + ", " + std::to_string(fit.fit.n) + " values, log-likelihood " +
+                     fixed(fit.fit.log_likelihood, 2) + ", AIC " + fixed(fit.aic, 2) + ", Anderson-Darling A² " +
+                     fixed(fit.anderson_darling, 3) + ".";
+  if (fit.deviance_test) {
+    diag += " Deviance test of Gumbel against GEV: D = " + fixed(fit.deviance_test->deviance, 2) + ", p = " +
+            fixed(fit.deviance_test->p_value, 3) + ".";
+  }
+  if (fit.reference_epoch) {
+    diag += " Levels are relative to mean sea level at " + fixed(*fit.reference_epoch, 1) + " (trend removed: " +
+            fixed(fit.trend_mm_per_yr, 2) + " mm/yr).";
+  }
+  evidence.blocks.emplace_back(report::Paragraph{diag});
+  report::Table rl{"return_levels", "Present-day return levels with 95% profile-likelihood and delta-method intervals.",
+                   {{"Return period", "years"}, {"Level", level_unit}, {"Profile lower", level_unit},
+                    {"Profile upper", level_unit}, {"Delta lower", level_unit}, {"Delta upper", level_unit}},
+                   {}};
+  report::ReturnLevelPlotInput rlp;
+  rlp.datum = datum;
+  rlp.model_name = fit.model + " fit";
+  for (const auto& p : fit.plot_points) rlp.annual_maxima_m.push_back(p.level_m);
+  // One method for the whole band: the profile where every period has one, else the delta method.
+  const bool profile_complete = std::all_of(fit.profile.begin(), fit.profile.end(), [](const extremes::ReturnLevel& l) {
+    return !std::isnan(l.lower_m) && !std::isnan(l.upper_m);
+  });
+  for (std::size_t i = 0; i < fit.profile.size(); ++i) {
+    const auto& p = fit.profile[i];
+    const auto& d = fit.delta[i];
+    const auto end = [](double v) {
+      return std::isnan(v) ? std::string("not available") : std::isfinite(v) ? fixed(v, 2) : std::string("unbounded");
+    };
+    rl.add_row({fixed(p.return_period_yr, 0), fixed(p.level_m, 2), end(p.lower_m), end(p.upper_m), end(d.lower_m),
+                end(d.upper_m)});
+    rlp.return_period_yr.push_back(p.return_period_yr);
+    rlp.level_m.push_back(p.level_m);
+    const auto& band = profile_complete ? p : d;
+    rlp.lower_m.push_back(std::isfinite(band.lower_m) ? band.lower_m : std::numeric_limits<double>::quiet_NaN());
+    rlp.upper_m.push_back(std::isfinite(band.upper_m) ? band.upper_m : std::numeric_limits<double>::quiet_NaN());
+  }
+  evidence.blocks.emplace_back(rl);
+  for (const auto& w : fit.warnings) evidence.blocks.emplace_back(report::Paragraph{"Warning: " + w + "."});
+  evidence.blocks.emplace_back(report::Figure{"return_levels",
+                                              std::string("Annual maxima at Gringorten plotting positions, the fitted curve "
+                                                          "and its 95% ") +
+                                                  (profile_complete ? "profile-likelihood" : "delta-method") + " band.",
+                                              report::return_level_plot(rlp)});
+  evidence.blocks.emplace_back(report::Subheading{"Sea-level projections"});
+  for (const auto& run : runs) {
+    const auto& t = run.inputs.rise;
+    report::FanChartInput fan;
+    fan.title = "Relative sea-level rise, " + run.settings.name;
+    fan.baseline = "since " + t.reference;
+    for (int y : t.years) fan.years.push_back(y);
+    fan.q05_m = year_quantiles(t.rise_m, 0.05);
+    fan.q17_m = year_quantiles(t.rise_m, 0.17);
+    fan.q50_m = year_quantiles(t.rise_m, 0.50);
+    fan.q83_m = year_quantiles(t.rise_m, 0.83);
+    fan.q95_m = year_quantiles(t.rise_m, 0.95);
+    for (std::size_t k = 0; k < run.projection.local.component_names.size(); ++k) {
+      fan.component_medians_m.push_back({run.projection.local.component_names[k],
+                                         year_quantiles(run.projection.local.contribution_m[k], 0.5)});
+    }
+    std::string name = "projection_" + run.settings.name;
+    for (auto& ch : name) {
+      if (!std::isalnum(static_cast<unsigned char>(ch)) && ch != '_' && ch != '-') ch = '_';
+    }
+    evidence.blocks.emplace_back(report::Figure{name, "Scenario " + run.settings.name + ": median, 17-83% and 5-95% of " +
+                                                          std::to_string(t.member_count()) + " members, with component medians.",
+                                                report::projection_fan_chart(fan)});
+    report::BulletList notes;
+    for (const auto& n : run.projection.cautions) notes.items.push_back(n);
+    for (const auto& n : run.inputs.notes) notes.items.push_back(n);
+    evidence.blocks.emplace_back(notes);
+  }
+  evidence.blocks.emplace_back(report::Figure{"allowances", "Allowance for today's " + fixed(design_rp, 0) +
+                                                                "-year level by year, per scenario.",
+                                              report::allowance_plot(plot_years, allowance_series)});
+  if (c.map.enabled) {
+    evidence.blocks.emplace_back(report::Subheading{"Maps"});
+    evidence.blocks.emplace_back(map_table);
+    double cell = 0.0;
+    const auto extent_path = dir / "maps" / "extent.tif";
+    if (std::filesystem::exists(extent_path)) {
+      auto view = read_raster_for_view(extent_path, cell, -1);
+      report::CategoricalMapInput cm;
+      cm.title = "Flood extent, last mapped level";
+      cm.raster = view;
+      evidence.blocks.emplace_back(report::Figure{"map_extent", "Extent at the highest mapped level (band of extent.tif).",
+                                                  report::categorical_map(cm)});
+    }
+    const auto aep_path = dir / "maps" / "aep.tif";
+    if (std::filesystem::exists(aep_path)) {
+      auto view = read_raster_for_view(aep_path, cell);
+      report::ContinuousMapInput am;
+      am.title = "Annual exceedance probability, present day";
+      am.raster = view;
+      am.value_label = "Annual exceedance probability (%)";
+      am.min = 0.0;
+      am.max = 1.0;
+      am.label_scale = 100.0;
+      am.blank_label = "Sea or nodata";
+      evidence.blocks.emplace_back(report::Figure{"map_aep", "Present-day annual exceedance probability per cell (aep.tif band 1).",
+                                                  report::continuous_map(am)});
+    }
+  }
+  doc.sections.push_back(std::move(evidence));
+
+  doc.inputs = {{"Site file", c.file.filename().string()},
+                {"Record", c.record.path.filename().string() + " (" + c.record.kind + ", units " + c.record.units + ")"},
+                {"Water-level datum", datum},
+                {"Extreme model", c.extremes.model},
+                {"Projection", std::to_string(c.projection.members) + " members, " +
+                                   std::to_string(c.projection.start_year) + "-" + std::to_string(c.projection.end_year) +
+                                   ", reference " + c.projection.reference},
+                {"Seed", std::to_string(c.seed)}};
+  for (const auto& s : c.scenarios) doc.inputs.push_back({"Scenario " + s.name, s.source == "pathway" ? "built-in pathway " + s.pathway : s.path->filename().string()});
+  if (c.map.enabled) doc.inputs.push_back({"DEM", c.map.dem.filename().string()});
+  doc.assumptions = {"Still water only: tide plus surge, no waves.",
+                     "Storm statistics stay as today's unless a storminess change is given (here: " +
+                         fixed(c.planning.storminess_scale_per_yr, 4) + " of the scale per year).",
+                     "Fingerprint factors not given default to 1, which ignores regional patterns of sea-level change.",
+                     "Vertical land motion " + fixed(c.local.land_motion_mm_per_yr, 2) + " ± " +
+                         fixed(c.local.land_motion_sd_mm_per_yr, 2) + " mm/yr (positive = uplift)."};
+  doc.methods = {
+      {"Extreme-value fit", "GEV, Gumbel or GPD by maximum likelihood with profile-likelihood intervals",
+       "Coles, S. (2001) An Introduction to Statistical Modeling of Extreme Values. Springer."},
+      {"Plotting positions", "Gringorten positions of the annual maxima", "Gringorten, I. I. (1963) J. Geophys. Res. 68(3):813."},
+      {"Energy balance", "Two-layer model with deep-ocean heat-uptake efficacy",
+       "Held et al. (2010) J. Climate 23:2418; Geoffroy et al. (2013) J. Climate 26:1841, 1859."},
+      {"Thermal expansion", "Expansion efficiency of heat and TEOS-10 seawater expansion",
+       "Kuhlbrodt & Gregory (2012) GRL; IOC, SCOR & IAPSO (2010) TEOS-10; Roquet et al. (2015) Ocean Modelling."},
+      {"Allowance", "Height that keeps the expected number of exceedances", "Hunter, J. (2012) Climatic Change 113:239-252."},
+      {"Allowance under GEV/GPD", "Numerical allowance depending on return period", "Buchanan et al. (2016) Climatic Change."},
+      {"Flood threshold", "Priority-flood from the sea", "Barnes, Lehman & Mulla (2014) Computers & Geosciences 62:117."}};
+  if (c.site.invented) doc.extra_cautions.push_back("Every number in this report comes from invented data; it describes no real place.");
+  report::write_html(doc, dir / "report.html", false);
+  out.files.push_back("report.html");
+  std::filesystem::create_directories(dir / "tables");
+  std::filesystem::create_directories(dir / "plots");
+  for (const auto& p : report::write_tables_csv(doc, dir / "tables", false)) out.files.push_back("tables/" + p.filename().string());
+  for (const auto& p : report::write_figures(doc, dir / "plots", false)) out.files.push_back("plots/" + p.filename().string());
+  all["cautions"] = report::safety_cautions();
+  write_json_file(dir / "results.json", all, false);
+  out.files.push_back("results.json");
+  {
+    std::ifstream in(c.file, std::ios::binary);
+    std::ostringstream text;
+    text << in.rdbuf();
+    write_text_file(dir / "site.toml", text.str(), false);
+    out.files.push_back("site.toml");
+  }
+  clock.end();
+  folder.commit();
+  out.report = o.out_dir / "report.html";
+  for (const auto& run : runs) {
+    for (const auto& r : run.allowances) {
+      if (r.allowance.first_year == c.planning.design_years.back() && r.allowance.return_period_yr == design_rp) {
+        out.headline.push_back("scenario " + run.settings.name + ": " + fixed(design_rp, 0) + "-year still-water level " +
+                               fixed(r.allowance.present_level_m, 2) + " m today, design height " +
+                               fixed(r.allowance.present_level_m + r.allowance.allowance_m, 2) + " m in " +
+                               std::to_string(r.allowance.first_year) + " (m above " + datum + ")");
+      }
+    }
+  }
+  return out;
+}
+
+}  // namespace tidewright::study

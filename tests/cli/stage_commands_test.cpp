@@ -1,0 +1,178 @@
+// project, allowance and amplify from the command line: files passed between commands, the JSON
+// contracts of issues 4 and 5, closed-form checks through the whole command chain, and bad
+// inputs with one-line messages and exit code 2.
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <nlohmann/json.hpp>
+
+#include "support/run_cli.hpp"
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/extremes/still_water_model.hpp"
+#include "tidewright/local/rise_ensemble.hpp"
+#include "tidewright/study/stage_files.hpp"
+
+using tidewright::testing::count_lines;
+using tidewright::testing::read_all;
+using tidewright::testing::run_cli;
+using tidewright::testing::shell_quote;
+using tidewright::testing::TempDir;
+using ::testing::HasSubstr;
+using ::testing::StartsWith;
+
+namespace {
+void expect_one_line_error(const tidewright::testing::CliResult& r, const std::string& part) {
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, StartsWith("tidewright: error: "));
+  EXPECT_THAT(r.err, HasSubstr(part));
+  EXPECT_EQ(count_lines(r.err), 1U) << r.err;
+}
+
+// A Gumbel fit JSON and members drawn as mu + sigma * z for fixed normal scores, so the
+// allowance has Hunter's closed form over the members: A = lambda ln mean(exp(Delta_i/lambda)).
+struct GumbelCase {
+  TempDir dir;
+  std::string fit, members;
+  double lambda = 0.1;
+  std::vector<double> delta;
+  GumbelCase() {
+    nlohmann::ordered_json j;
+    j["model"] = "gumbel";
+    j["datum"] = "test datum";
+    j["reference_epoch"] = nullptr;
+    j["parameters"] = {{"location", 2.0}, {"scale", lambda}};
+    j["covariance"] = {{1e-4, 0.0}, {0.0, 1e-4}};
+    j["present_day_model"] = tidewright::study::still_water_model_json(
+        {tidewright::extremes::Family::gumbel, 2.0, lambda, 0.0, 0.0, 1.0, {}});
+    fit = (dir / "fit.json").string();
+    tidewright::write_json_file(fit, j, false);
+    tidewright::local::RiseEnsemble e;
+    e.years = {2020, 2100};
+    e.reference = "2020";
+    e.scenario = "closed form";
+    const int n = 201;
+    e.rise_m.resize(n, 2);
+    for (int i = 0; i < n; ++i) {
+      const double z = -3.0 + 6.0 * i / (n - 1);
+      e.rise_m(i, 0) = 0.0;
+      e.rise_m(i, 1) = 0.5 + 0.1 * z;
+      delta.push_back(e.rise_m(i, 1));
+    }
+    members = (dir / "members.csv").string();
+    tidewright::study::write_members_csv(members, e, false);
+  }
+};
+}  // namespace
+
+// Hunter (2012), Climatic Change 113:239, eq. for Gumbel: A = lambda ln E[exp(Delta/lambda)],
+// here the expectation over the members exactly as the planning stage takes it.
+TEST(StageCommands, AllowanceThroughTheCommandsMatchesHunterOverMembers) {
+  GumbelCase c;
+  const auto json = (c.dir / "a.json").string();
+  const auto r = run_cli("allowance --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members) +
+                         " --years 2100 --return-periods 10,100 --json " + shell_quote(json) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  double mean_exp = 0.0;
+  for (double d : c.delta) mean_exp += std::exp(d / c.lambda) / static_cast<double>(c.delta.size());
+  const double expected = c.lambda * std::log(mean_exp);
+  const auto j = nlohmann::json::parse(read_all(json));
+  ASSERT_EQ(j["allowances"].size(), 2U);
+  for (const auto& a : j["allowances"]) {
+    EXPECT_EQ(a["year"], 2100);
+    EXPECT_NEAR(a["allowance_m"].get<double>(), expected, 1e-6);  // Gumbel: same for every return period
+    EXPECT_NEAR(a["mean_rise_m"].get<double>(), 0.5, 1e-12);
+  }
+}
+
+// Amplification of a level under Gumbel with members Delta_i: mean_i exp(Delta_i/lambda)
+// (IPCC AR5 WG1 ch. 13 definition, over the members).
+TEST(StageCommands, AmplifyThroughTheCommandsMatchesClosedForm) {
+  GumbelCase c;
+  const auto json = (c.dir / "am.json").string();
+  const auto r = run_cli("amplify --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members) +
+                         " --years 2100 --return-periods 100 --json " + shell_quote(json) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  double mean_exp = 0.0;
+  for (double d : c.delta) mean_exp += std::exp(d / c.lambda) / static_cast<double>(c.delta.size());
+  const auto j = nlohmann::json::parse(read_all(json));
+  ASSERT_EQ(j["rows"].size(), 1U);
+  EXPECT_NEAR(j["rows"][0]["amplification_factor"].get<double>() / mean_exp, 1.0, 1e-9);
+  EXPECT_NEAR(j["rows"][0]["present_return_period"].get<double>(), 100.0, 1e-6);
+  EXPECT_NEAR(j["rows"][0]["future_return_period"].get<double>(), 100.0 / mean_exp, 1e-6);
+}
+
+TEST(StageCommands, ProjectWritesContractAndMembersThatAllowanceReads) {
+  TempDir dir;
+  const auto json = (dir / "p.json").string();
+  const auto members = (dir / "m.csv").string();
+  const auto csv = (dir / "p.csv").string();
+  const auto r = run_cli("project --pathway midway --samples 200 --last-year 2100 --json " + shell_quote(json) +
+                         " --members " + shell_quote(members) + " --csv " + shell_quote(csv) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto j = nlohmann::json::parse(read_all(json));
+  for (const char* k : {"reference", "years", "total", "components", "global_surface_temperature_K",
+                        "ocean_heat_content_change_YJ"}) {
+    EXPECT_TRUE(j.contains(k)) << k;
+  }
+  for (const char* k : {"thermal_expansion", "glaciers", "greenland", "antarctica", "land_water", "vertical_land_motion"}) {
+    EXPECT_TRUE(j["components"].contains(k)) << k;
+  }
+  const auto& p50 = j["total"]["p50"];
+  const auto& p05 = j["total"]["p05"];
+  const auto& p95 = j["total"]["p95"];
+  ASSERT_EQ(p50.size(), j["years"].size());
+  for (std::size_t i = 0; i < p50.size(); ++i) {
+    EXPECT_LE(p05[i].get<double>(), p50[i].get<double>());
+    EXPECT_LE(p50[i].get<double>(), p95[i].get<double>());
+  }
+  EXPECT_TRUE(j["illustrative"].get<bool>());
+  const auto e = tidewright::study::read_members_csv(members);
+  EXPECT_EQ(e.member_count(), 200);
+  EXPECT_EQ(e.years.front(), 2020);
+  EXPECT_EQ(e.years.back(), 2100);
+  // The same seed gives the same bytes.
+  const auto members2 = (dir / "m2.csv").string();
+  ASSERT_EQ(run_cli("project --pathway midway --samples 200 --last-year 2100 --members " + shell_quote(members2) +
+                    " --quiet").exit_code, 0);
+  EXPECT_EQ(read_all(members), read_all(members2));
+}
+
+TEST(StageCommands, BadInputsAreOneLineExitTwo) {
+  GumbelCase c;
+  auto write = [&](const std::string& name, const std::string& text) {
+    tidewright::write_text_file(c.dir / name, text, true);
+    return shell_quote((c.dir / name).string());
+  };
+  expect_one_line_error(run_cli("project --pathway nowhere"), "nowhere");
+  expect_one_line_error(run_cli("project --pathway midway --samples -5"), "--samples");
+  expect_one_line_error(run_cli("project --forcing " + write("gap.csv", "year,forcing_w_m2\n2019,2.7\n2021,2.8\n")),
+                        "gap.csv:3");
+  expect_one_line_error(run_cli("project --forcing " + write("unsorted.csv", "year,forcing_w_m2\n2019,2.7\n2018,2.8\n")),
+                        "unsorted.csv:3");
+  expect_one_line_error(run_cli("project --table " + write("q.csv", "year,p05,p50,p95\n2050,0.3,0.2,0.4\n")), "q.csv");
+  expect_one_line_error(run_cli("project --pathway midway --table " + write("q2.csv", "year,p50\n2050,0.2\n")),
+                        "usage");
+  const std::string base = "allowance --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members);
+  expect_one_line_error(run_cli(base + " --return-periods 1"), "return period of 1 year or less");
+  expect_one_line_error(run_cli(base + " --years 2200"), "year 2200");
+  expect_one_line_error(run_cli("allowance --fit " + write("bad.json", "{") + " --members " + shell_quote(c.members)),
+                        "bad.json");
+  expect_one_line_error(run_cli("amplify --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members) +
+                                " --return-periods 0.5"),
+                        "return period of 1 year or less");
+}
+
+// Issue 5: refuse a record epoch that the projection cannot be joined to.
+TEST(StageCommands, EpochThatDoesNotFitIsRefused) {
+  GumbelCase c;
+  auto j = nlohmann::json::parse(read_all(c.fit));
+  j["reference_epoch"] = 1960.0;
+  tidewright::write_text_file(c.fit, j.dump(), true);
+  expect_one_line_error(run_cli("allowance --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members)),
+                        "does not fit the record's epoch 1960.0");
+  EXPECT_EQ(run_cli("allowance --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members) +
+                    " --epoch-offset 0.1 --quiet")
+                .exit_code,
+            0);
+}

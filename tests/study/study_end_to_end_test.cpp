@@ -1,0 +1,152 @@
+// The study adds nothing and loses nothing: its JSON agrees with the stage commands run one by
+// one on the same inputs (issue 7). Runs the small demo variant (invented data).
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include <nlohmann/json.hpp>
+
+#include "support/run_cli.hpp"
+#include "tidewright/common/atomic_output.hpp"
+
+using tidewright::testing::count_lines;
+using tidewright::testing::read_all;
+using tidewright::testing::run_cli;
+using tidewright::testing::shell_quote;
+using tidewright::testing::TempDir;
+using ::testing::HasSubstr;
+namespace fs = std::filesystem;
+
+namespace {
+class SmallDemo : public ::testing::Test {
+ protected:
+  static void SetUpTestSuite() {
+    dir_ = new TempDir();
+    const auto r = run_cli("demo --small --quiet --out " + shell_quote((dir_->path() / "demo").string()));
+    ASSERT_EQ(r.exit_code, 0) << r.err;
+  }
+  static void TearDownTestSuite() {
+    delete dir_;
+    dir_ = nullptr;
+  }
+  static fs::path demo() { return dir_->path() / "demo"; }
+  static TempDir* dir_;
+};
+TempDir* SmallDemo::dir_ = nullptr;
+}  // namespace
+
+TEST_F(SmallDemo, WritesTheReportFolder) {
+  const auto study = demo() / "study";
+  for (const char* f : {"report.html", "results.json", "site.toml", "tables/design_heights.csv",
+                        "plots/return_levels.svg", "plots/return_levels.png", "maps/threshold.tif", "maps/extent.tif",
+                        "maps/aep.tif"}) {
+    EXPECT_TRUE(fs::exists(study / f)) << f;
+  }
+  const std::string html = read_all(study / "report.html");
+  EXPECT_THAT(html, HasSubstr("licensed coastal engineer"));
+  EXPECT_THAT(html, HasSubstr("invented"));
+  EXPECT_EQ(html.find("http://"), std::string::npos);
+  EXPECT_EQ(html.find("https://"), std::string::npos);
+}
+
+TEST_F(SmallDemo, FitAndAllowancesEqualTheStageCommands) {
+  const auto in = demo() / "inputs";
+  const auto results = nlohmann::json::parse(read_all(demo() / "study" / "results.json"));
+  TempDir work;
+  const auto fit_json = (work / "fit.json").string();
+  // The demo site file's record settings (demo_coast/site.toml, small variant), as options.
+  auto r = run_cli("fit " + shell_quote((in / "quillhaven_tide_gauge.csv").string()) +
+                   " --level-column level_m --sentinel -99 --min-completeness 0.8 --year-start-month 7"
+                   " --detrend linear --epoch 2024 --datum " +
+                   shell_quote(results["site"]["datum"].get<std::string>()) + " --json " + shell_quote(fit_json) +
+                   " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto fit = nlohmann::json::parse(read_all(fit_json));
+  for (const char* p : {"location", "scale", "shape"}) {
+    EXPECT_EQ(fit["parameters"][p].get<double>(), results["fit"]["parameters"][p].get<double>()) << p;
+  }
+  EXPECT_EQ(fit["log_likelihood"].get<double>(), results["fit"]["log_likelihood"].get<double>());
+  // Scenario 2 of the site file ("midway") draws with seed + 1 (docs/site-file.md).
+  const auto members = (work / "m.csv").string();
+  const auto seed = results["seed"].get<unsigned long long>() + 1;
+  r = run_cli("project --pathway midway --label midway --samples 300 --first-year 2020 --last-year 2150"
+              " --land-motion -0.5 --land-motion-sd 0.3 --seed " + std::to_string(seed) + " --members " +
+              shell_quote(members) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto allowance_json = (work / "a.json").string();
+  r = run_cli("allowance --fit " + shell_quote(fit_json) + " --members " + shell_quote(members) +
+              " --years 2050,2100 --return-periods 10,100,200 --json " + shell_quote(allowance_json) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto a = nlohmann::json::parse(read_all(allowance_json));
+  const auto& study_rows = results["scenarios"][1]["allowances"];
+  ASSERT_EQ(results["scenarios"][1]["name"], "midway");
+  ASSERT_EQ(a["allowances"].size(), study_rows.size());
+  for (std::size_t i = 0; i < study_rows.size(); ++i) {
+    EXPECT_EQ(a["allowances"][i]["year"], study_rows[i]["year"]);
+    EXPECT_NEAR(a["allowances"][i]["allowance_m"].get<double>(), study_rows[i]["allowance_m"].get<double>(), 1e-9);
+    EXPECT_NEAR(a["allowances"][i]["present_level_m"].get<double>(), study_rows[i]["present_level_m"].get<double>(),
+                1e-12);
+  }
+}
+
+TEST_F(SmallDemo, SameInputsAndSeedGiveTheSameNumbers) {
+  TempDir again;
+  const auto out = again / "study";
+  const auto r = run_cli("study " + shell_quote((demo() / "inputs" / "site.toml").string()) + " --quiet --out " +
+                         shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_EQ(read_all(out / "results.json"), read_all(demo() / "study" / "results.json"));
+  EXPECT_EQ(read_all(out / "tables" / "design_heights.csv"), read_all(demo() / "study" / "tables" / "design_heights.csv"));
+}
+
+TEST(StudyCommand, BadSiteFilesLeaveNoFolder) {
+  TempDir dir;
+  const auto out = dir / "out";
+  auto check = [&](const std::string& text, const std::string& part) {
+    tidewright::write_text_file(dir / "site.toml", text, true);
+    const auto r = run_cli("study " + shell_quote((dir / "site.toml").string()) + " --quiet --out " +
+                           shell_quote(out.string()));
+    EXPECT_EQ(r.exit_code, 2) << r.err;
+    EXPECT_THAT(r.err, HasSubstr(part));
+    EXPECT_EQ(count_lines(r.err), 1U) << r.err;
+    EXPECT_FALSE(fs::exists(out));
+  };
+  const std::string ok = "[site]\nname = \"t\"\nwater_level_datum = \"d\"\n[record]\npath = \"absent.csv\"\n"
+                         "[[scenario]]\nname = \"m\"\npathway = \"midway\"\n";
+  check(ok, "absent.csv");
+  check(ok + "[extremes]\nmodle = \"gev\"\n", "extremes.modle: unknown key");
+  check(ok + "[projection]\nmembers = \"x\"\n", "projection.members: must be a whole number");
+}
+
+TEST(StudyCommand, ExistingFolderIsRefusedWithoutForce) {
+  TempDir dir;
+  fs::create_directory(dir / "out");
+  tidewright::write_text_file(dir / "site.toml",
+                              "[site]\nname = \"t\"\nwater_level_datum = \"d\"\n[record]\npath = \"a.csv\"\n"
+                              "[[scenario]]\nname = \"m\"\npathway = \"midway\"\n",
+                              true);
+  const auto r = run_cli("study " + shell_quote((dir / "site.toml").string()) + " --out " + shell_quote((dir / "out").string()));
+  EXPECT_EQ(r.exit_code, 2);
+  EXPECT_THAT(r.err, HasSubstr("already exists; choose another name or pass --force"));
+}
+
+// Issue 7: the report loads in headless Chromium (Debian `chromium`) with no missing resource
+// and no script error, and renders to a PNG (flags from ../shared/testing-tips.md).
+TEST_F(SmallDemo, ReportRendersInChromium) {
+  TempDir work;
+  const auto png = work / "report.png";
+  const auto log = work / "chromium.log";
+  const std::string cmd =
+      "chromium --headless --no-sandbox --disable-gpu --disable-quic --no-first-run "
+      "--disable-background-networking --disable-component-update --disable-sync --enable-logging=stderr --v=0 "
+      "--user-data-dir=" + shell_quote((work / "profile").string()) + " --window-size=1280,2000 --screenshot=" +
+      shell_quote(png.string()) + " " + shell_quote("file://" + (demo() / "study" / "report.html").string()) + " >" +
+      shell_quote(log.string()) + " 2>&1";
+  ASSERT_EQ(std::system(cmd.c_str()), 0) << read_all(log);
+  const std::string png_bytes = read_all(png);
+  ASSERT_GT(png_bytes.size(), 10000U);
+  EXPECT_EQ(png_bytes.substr(1, 3), "PNG");
+  const std::string messages = read_all(log);
+  EXPECT_EQ(messages.find("Failed to load resource"), std::string::npos) << messages;
+  EXPECT_EQ(messages.find("Uncaught"), std::string::npos) << messages;
+  EXPECT_EQ(messages.find("net::ERR_"), std::string::npos) << messages;
+}
