@@ -42,6 +42,13 @@ std::string input_error(F&& f) {
   return "";
 }
 
+// Expects f to throw an InputError whose message contains `text`.
+template <typename F>
+void expect_refused(F&& f, const std::string& text) {
+  const std::string message = input_error(std::forward<F>(f));
+  EXPECT_NE(message.find(text), std::string::npos) << "message: '" << message << "'";
+}
+
 // Area (m^2) of the WGS 84 cell between the parallels phi1 < phi2 and meridians dlon degrees
 // apart: (a^2 / 2) (q(phi2) - q(phi1)) dlon, with q(phi) = (1 - e^2) [sin phi / (1 - e^2 sin^2
 // phi) - 1/(2e) ln((1 - e sin phi) / (1 + e sin phi))] (Snyder 1987, "Map Projections: A Working
@@ -129,35 +136,28 @@ TEST(TerrainDem, OffsetRasterNotCoveringTheDemIsRefused) {
   write_raster(off_path, 2, 2, {20.0, 0.1, 0.0, 10.0, 0.0, -0.1}, 4326, {0, 0, 0, 0});
   auto src = same_datum(dem_path);
   src.datum = {tw::DatumRelation::Kind::raster, 0.0, off_path};
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(src); }).find("does not cover 16 valid DEM cells"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(src); }, "does not cover 16 valid DEM cells");
 }
 
 TEST(TerrainDem, BadDemsAreInputErrors) {
   TempDir tmp;
   const auto no_crs = (tmp / "nocrs.tif").string();
   write_raster(no_crs, 2, 2, utm_10m, 0, {0, 1, 2, 3});
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(same_datum(no_crs)); })
-                .find("has no coordinate reference system"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(same_datum(no_crs)); }, "has no coordinate reference system");
   auto with_crs = same_datum(no_crs);
   with_crs.crs_override = "EPSG:32633";
   EXPECT_EQ(tw::read_dem(with_crs).grid.shape.cells(), 4U);
 
   const auto all_nodata = (tmp / "empty.tif").string();
   write_raster(all_nodata, 2, 1, utm_10m, 32633, {-1, -1}, -1.0);
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(same_datum(all_nodata)); }).find("every cell"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(same_datum(all_nodata)); }, "every cell");
 
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(same_datum((tmp / "missing.tif").string())); })
-                .find("GDAL cannot open the DEM"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(same_datum((tmp / "missing.tif").string())); }, "GDAL cannot open the DEM");
 
   tw::DemSource unstated;
   unstated.path = all_nodata;
   write_raster(all_nodata, 2, 1, utm_10m, 32633, {1, 2});
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(unstated); }).find("--same-datum"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(unstated); }, "--same-datum");
 }
 
 TEST(TerrainSea, PolygonInAnotherCrsIsReprojected) {
@@ -209,24 +209,16 @@ TEST(TerrainSea, PointsEdgesAndNodataAndTheirErrors) {
   point.points_xy = {{500025.0, 5999975.0}};  // centre of the bottom-right cell
   EXPECT_EQ(tw::find_sea_cells(dem, point, tw::Connectivity::four).is_sea[8], 1);
   point.points_xy = {{0.0, 0.0}};
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, point, tw::Connectivity::four); })
-                .find("outside the DEM"),
-            std::string::npos);
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, {}, tw::Connectivity::four); })
-                .find("no sea is given"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, point, tw::Connectivity::four); }, "outside the DEM");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, {}, tw::Connectivity::four); }, "no sea is given");
   tw::SeaSource none;
   none.edge_at_or_below_m = -5.0;
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, none, tw::Connectivity::four); })
-                .find("no sea cell found"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, none, tw::Connectivity::four); }, "no sea cell found");
   const auto far_path = (tmp / "far.gpkg").string();
   write_vector(far_path, "GPKG", 32633, {{"POLYGON((0 0,10 0,10 10,0 10,0 0))", {}}}, "");
   tw::SeaSource far;
   far.mask_path = far_path;
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, far, tw::Connectivity::four); })
-                .find("covers no cell of the DEM"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, far, tw::Connectivity::four); }, "covers no cell of the DEM");
 }
 
 TEST(TerrainSea, SeaThatTouchesNoValidCellIsRefused) {
@@ -239,9 +231,7 @@ TEST(TerrainSea, SeaThatTouchesNoValidCellIsRefused) {
   const auto dem = tw::read_dem(src);
   tw::SeaSource sea;
   sea.points_xy = {{500005.0, 5999995.0}, {500005.0, 5999985.0}};
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, sea, tw::Connectivity::eight); })
-                .find("touches no valid land cell"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, sea, tw::Connectivity::eight); }, "touches no valid land cell");
 }
 
 TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
@@ -279,14 +269,10 @@ TEST(TerrainDefences, CrestAttributeMustExistAndBeSet) {
   auto dem = tw::read_dem(same_datum(dem_path));
   const auto no_field = (tmp / "nofield.gpkg").string();
   write_vector(no_field, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}}, "height");
-  EXPECT_NE(input_error([&] { (void)tw::burn_defences(dem, {no_field, "", "crest_m", false}); })
-                .find("no crest-level attribute 'crest_m' (its attributes: height, name)"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::burn_defences(dem, {no_field, "", "crest_m", false}); }, "no crest-level attribute 'crest_m' (its attributes: height, name)");
   const auto unset = (tmp / "unset.gpkg").string();
   write_vector(unset, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}});
-  EXPECT_NE(input_error([&] { (void)tw::burn_defences(dem, {unset, "", "crest_m", false}); })
-                .find("has no value in 'crest_m'"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::burn_defences(dem, {unset, "", "crest_m", false}); }, "has no value in 'crest_m'");
 }
 
 TEST(TerrainAreas, GeographicCellsMatchTheEllipsoidalZoneFormula) {
@@ -374,8 +360,7 @@ TEST(TerrainMap, WritesEveryProductAndSummarisesByHand) {
   ASSERT_TRUE(gpkg);
   EXPECT_EQ(gpkg->GetLayerByName("extent")->GetFeatureCount(), 3);  // beach, bowl; all land
   // Refused without force; replaced with it.
-  EXPECT_NE(input_error([&] { (void)tw::make_flood_maps(req); }).find("already exists"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::make_flood_maps(req); }, "already exists");
   req.force = true;
   req.levels.pop_back();
   EXPECT_EQ(tw::make_flood_maps(req).levels.size(), 1U);
@@ -432,9 +417,7 @@ TEST(TerrainSea, RasterMaskNonZeroCellsAreSea) {
   const auto far_path = (tmp / "far.tif").string();
   write_raster(far_path, 2, 2, {100.0, 0.1, 0.0, -10.0, 0.0, -0.1}, 4326, {1, 1, 1, 1}, 0.0, GDT_Byte);
   src.mask_path = far_path;
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); })
-                .find("covers no cell of the DEM"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); }, "covers no cell of the DEM");
 }
 
 TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
