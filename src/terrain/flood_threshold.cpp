@@ -81,7 +81,6 @@ class RadixHeap {
   std::size_t size_ = 0;
 };
 
-
 }  // namespace
 
 std::vector<float> flood_threshold_barnes2014(GridShape shape, std::span<const float> elevation_m,
@@ -124,7 +123,7 @@ std::vector<float> flood_threshold_barnes2014(GridShape shape, std::span<const f
 
   const auto stride = static_cast<std::ptrdiff_t>(pc);
   // The four edge neighbours first, then the diagonals.
-  const std::array<std::ptrdiff_t, 8> offset{1, -1, stride, -stride,
+  const std::array<std::ptrdiff_t, 8> offset{1,          -1,         stride,      -stride,
                                              stride + 1, stride - 1, -stride + 1, -stride - 1};
   const int neighbours = connectivity == Connectivity::eight ? 8 : 4;
 

@@ -61,7 +61,8 @@ double zone_area_m2(double phi1_deg, double phi2_deg, double dlon_deg) {
   const double e = std::sqrt(e2);
   const auto q = [&](double phi_deg) {
     const double s = std::sin(phi_deg * M_PI / 180.0);
-    return (1.0 - e2) * (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
+    return (1.0 - e2) *
+           (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
   };
   return wgs84_a_m * wgs84_a_m / 2.0 * (q(phi2_deg) - q(phi1_deg)) * (dlon_deg * M_PI / 180.0);
 }
@@ -143,7 +144,8 @@ TEST(TerrainDem, BadDemsAreInputErrors) {
   TempDir tmp;
   const auto no_crs = (tmp / "nocrs.tif").string();
   write_raster(no_crs, 2, 2, utm_10m, 0, {0, 1, 2, 3});
-  expect_refused([&] { (void)tw::read_dem(same_datum(no_crs)); }, "has no coordinate reference system");
+  expect_refused([&] { (void)tw::read_dem(same_datum(no_crs)); },
+                 "has no coordinate reference system");
   auto with_crs = same_datum(no_crs);
   with_crs.crs_override = "EPSG:32633";
   EXPECT_EQ(tw::read_dem(with_crs).grid.shape.cells(), 4U);
@@ -152,7 +154,8 @@ TEST(TerrainDem, BadDemsAreInputErrors) {
   write_raster(all_nodata, 2, 1, utm_10m, 32633, {-1, -1}, -1.0);
   expect_refused([&] { (void)tw::read_dem(same_datum(all_nodata)); }, "every cell");
 
-  expect_refused([&] { (void)tw::read_dem(same_datum((tmp / "missing.tif").string())); }, "GDAL cannot open the DEM");
+  expect_refused([&] { (void)tw::read_dem(same_datum((tmp / "missing.tif").string())); },
+                 "GDAL cannot open the DEM");
 
   tw::DemSource unstated;
   unstated.path = all_nodata;
@@ -174,8 +177,11 @@ TEST(TerrainSea, PolygonInAnotherCrsIsReprojected) {
   wgs.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
   std::unique_ptr<OGRCoordinateTransformation> ct(OGRCreateCoordinateTransformation(&utm, &wgs));
   std::string ring;
-  for (auto [x, y] : std::vector<std::pair<double, double>>{
-           {499990, 6000010}, {500010, 6000010}, {500010, 5999960}, {499990, 5999960}, {499990, 6000010}}) {
+  for (auto [x, y] : std::vector<std::pair<double, double>>{{499990, 6000010},
+                                                            {500010, 6000010},
+                                                            {500010, 5999960},
+                                                            {499990, 5999960},
+                                                            {499990, 6000010}}) {
     ct->Transform(1, &x, &y);
     ring += (ring.empty() ? "" : ",") + std::to_string(x) + " " + std::to_string(y);
   }
@@ -209,16 +215,20 @@ TEST(TerrainSea, PointsEdgesAndNodataAndTheirErrors) {
   point.points_xy = {{500025.0, 5999975.0}};  // centre of the bottom-right cell
   EXPECT_EQ(tw::find_sea_cells(dem, point, tw::Connectivity::four).is_sea[8], 1);
   point.points_xy = {{0.0, 0.0}};
-  expect_refused([&] { (void)tw::find_sea_cells(dem, point, tw::Connectivity::four); }, "outside the DEM");
-  expect_refused([&] { (void)tw::find_sea_cells(dem, {}, tw::Connectivity::four); }, "no sea is given");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, point, tw::Connectivity::four); },
+                 "outside the DEM");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, {}, tw::Connectivity::four); },
+                 "no sea is given");
   tw::SeaSource none;
   none.edge_at_or_below_m = -5.0;
-  expect_refused([&] { (void)tw::find_sea_cells(dem, none, tw::Connectivity::four); }, "no sea cell found");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, none, tw::Connectivity::four); },
+                 "no sea cell found");
   const auto far_path = (tmp / "far.gpkg").string();
   write_vector(far_path, "GPKG", 32633, {{"POLYGON((0 0,10 0,10 10,0 10,0 0))", {}}}, "");
   tw::SeaSource far;
   far.mask_path = far_path;
-  expect_refused([&] { (void)tw::find_sea_cells(dem, far, tw::Connectivity::four); }, "covers no cell of the DEM");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, far, tw::Connectivity::four); },
+                 "covers no cell of the DEM");
 }
 
 TEST(TerrainSea, SeaThatTouchesNoValidCellIsRefused) {
@@ -231,7 +241,8 @@ TEST(TerrainSea, SeaThatTouchesNoValidCellIsRefused) {
   const auto dem = tw::read_dem(src);
   tw::SeaSource sea;
   sea.points_xy = {{500005.0, 5999995.0}, {500005.0, 5999985.0}};
-  expect_refused([&] { (void)tw::find_sea_cells(dem, sea, tw::Connectivity::eight); }, "touches no valid land cell");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, sea, tw::Connectivity::eight); },
+                 "touches no valid land cell");
 }
 
 TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
@@ -243,8 +254,7 @@ TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
   const auto dem_path = (tmp / "dem.tif").string();
   write_raster(dem_path, 20, 20, utm_10m, 32633, std::vector<double>(400, 0.0));
   const auto wall_path = (tmp / "wall.gpkg").string();
-  write_vector(wall_path, "GPKG", 32633,
-               {{"LINESTRING(499990 6000010,500210 5999790)", 5.0}});
+  write_vector(wall_path, "GPKG", 32633, {{"LINESTRING(499990 6000010,500210 5999790)", 5.0}});
   tw::SeaSource sea;
   sea.points_xy = {{500005.0, 5999805.0}};
   const auto map = tw::prepare_flood_threshold(same_datum(dem_path), sea,
@@ -252,9 +262,9 @@ TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
                                                tw::Connectivity::eight);
   ASSERT_TRUE(map.defences);
   EXPECT_GE(map.defences->cells_raised, 20U);
-  EXPECT_EQ(map.threshold_m[19], 5.0F);  // top-right corner cell, behind the wall
+  EXPECT_EQ(map.threshold_m[19], 5.0F);             // top-right corner cell, behind the wall
   EXPECT_EQ(map.threshold_m[19 * 20 + 0], -inf_f);  // the sea cell
-  EXPECT_EQ(map.threshold_m[19 * 20 + 5], 0.0F);   // seaward of the wall
+  EXPECT_EQ(map.threshold_m[19 * 20 + 5], 0.0F);    // seaward of the wall
   std::size_t behind = 0;
   for (std::size_t r = 0; r < 20; ++r) {
     for (std::size_t c = r + 2; c < 20; ++c) behind += map.threshold_m[r * 20 + c] == 5.0F;
@@ -268,11 +278,20 @@ TEST(TerrainDefences, CrestAttributeMustExistAndBeSet) {
   write_raster(dem_path, 4, 4, utm_10m, 32633, std::vector<double>(16, 0.0));
   auto dem = tw::read_dem(same_datum(dem_path));
   const auto no_field = (tmp / "nofield.gpkg").string();
-  write_vector(no_field, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}}, "height");
-  expect_refused([&] { (void)tw::burn_defences(dem, {no_field, "", "crest_m", false}); }, "no crest-level attribute 'crest_m' (its attributes: height, name)");
+  write_vector(no_field, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}},
+               "height");
+  expect_refused(
+      [&] {
+        (void)tw::burn_defences(dem, {no_field, "", "crest_m", false});
+      },
+      "no crest-level attribute 'crest_m' (its attributes: height, name)");
   const auto unset = (tmp / "unset.gpkg").string();
   write_vector(unset, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}});
-  expect_refused([&] { (void)tw::burn_defences(dem, {unset, "", "crest_m", false}); }, "has no value in 'crest_m'");
+  expect_refused(
+      [&] {
+        (void)tw::burn_defences(dem, {unset, "", "crest_m", false});
+      },
+      "has no value in 'crest_m'");
 }
 
 TEST(TerrainAreas, GeographicCellsMatchTheEllipsoidalZoneFormula) {
@@ -351,12 +370,13 @@ TEST(TerrainMap, WritesEveryProductAndSummarisesByHand) {
             (std::vector<std::uint8_t>{3, 1, 0, 2, 0}));
   GDALDatasetUniquePtr aep(GDALDataset::Open((tmp / "out" / "aep.tif").c_str(), GDAL_OF_RASTER));
   std::vector<float> p(15);
-  ASSERT_EQ(aep->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, p.data(), 5, 3, GDT_Float32, 0,
-                                            0, nullptr),
+  ASSERT_EQ(aep->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, p.data(), 5, 3, GDT_Float32, 0, 0,
+                                            nullptr),
             CE_None);
   EXPECT_NEAR(p[3], -std::expm1(-std::exp(-(3.0 - 1.0) / 0.5)), 1e-7);  // the bowl: T = 3
   EXPECT_TRUE(std::isnan(p[0]));
-  GDALDatasetUniquePtr gpkg(GDALDataset::Open((tmp / "out" / "extent.gpkg").c_str(), GDAL_OF_VECTOR));
+  GDALDatasetUniquePtr gpkg(
+      GDALDataset::Open((tmp / "out" / "extent.gpkg").c_str(), GDAL_OF_VECTOR));
   ASSERT_TRUE(gpkg);
   EXPECT_EQ(gpkg->GetLayerByName("extent")->GetFeatureCount(), 3);  // beach, bowl; all land
   // Refused without force; replaced with it.
@@ -415,9 +435,11 @@ TEST(TerrainSea, RasterMaskNonZeroCellsAreSea) {
   const auto sea = tw::find_sea_cells(dem, src, tw::Connectivity::four);
   EXPECT_EQ(sea.is_sea, (std::vector<std::uint8_t>{1, 0, 0, 1, 0, 0}));
   const auto far_path = (tmp / "far.tif").string();
-  write_raster(far_path, 2, 2, {100.0, 0.1, 0.0, -10.0, 0.0, -0.1}, 4326, {1, 1, 1, 1}, 0.0, GDT_Byte);
+  write_raster(far_path, 2, 2, {100.0, 0.1, 0.0, -10.0, 0.0, -0.1}, 4326, {1, 1, 1, 1}, 0.0,
+               GDT_Byte);
   src.mask_path = far_path;
-  expect_refused([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); }, "covers no cell of the DEM");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); },
+                 "covers no cell of the DEM");
 }
 
 TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
@@ -439,7 +461,8 @@ TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
     const char* compression = ds->GetMetadataItem("COMPRESSION", "IMAGE_STRUCTURE");
     EXPECT_STREQ(layout, "COG") << f;
     EXPECT_STREQ(compression, "ZSTD") << f;
-    EXPECT_NE(std::string(ds->GetMetadataItem("TIDEWRIGHT_METHOD")).find("Barnes"), std::string::npos);
+    EXPECT_NE(std::string(ds->GetMetadataItem("TIDEWRIGHT_METHOD")).find("Barnes"),
+              std::string::npos);
   }
   std::size_t side_files = 0;
   for (const auto& e : std::filesystem::directory_iterator(tmp / "out")) {
