@@ -72,7 +72,8 @@ double parse_number(const std::string& text, const std::string& where) {
 std::array<double, 2> parse_point(const std::string& text) {
   const auto comma = text.find(',');
   if (comma == std::string::npos) {
-    throw InputError("--sea-point", "'" + text + "' is not X,Y", "give the point as X,Y in the DEM's CRS");
+    throw InputError("--sea-point", "'" + text + "' is not X,Y",
+                     "give the point as X,Y in the DEM's CRS");
   }
   return {parse_number(text.substr(0, comma), "--sea-point"),
           parse_number(text.substr(comma + 1), "--sea-point")};
@@ -90,10 +91,12 @@ StillWaterModel model_from_json(const std::string& path) {
   StillWaterModel m;
   const auto number = [&](const char* key, double fallback, bool required) {
     if (!j.contains(key)) {
-      if (required) throw InputError(field_location(path, key), "is missing", "add it (see docs/map.md)");
+      if (required)
+        throw InputError(field_location(path, key), "is missing", "add it (see docs/map.md)");
       return fallback;
     }
-    if (!j[key].is_number()) throw InputError(field_location(path, key), "is not a number", "give a number");
+    if (!j[key].is_number())
+      throw InputError(field_location(path, key), "is not a number", "give a number");
     return j[key].get<double>();
   };
   const std::string family = j.value("family", "");
@@ -153,7 +156,8 @@ std::optional<StillWaterModel> present_day_model(const MapOptions& o) {
 std::string model_label(const StillWaterModel& m) {
   const auto f = [](double v) { return report::fixed(v, 4); };
   switch (m.family) {
-    case Family::gumbel: return "Gumbel mu " + f(m.location_m) + " m, sigma " + f(m.scale_m) + " m";
+    case Family::gumbel:
+      return "Gumbel mu " + f(m.location_m) + " m, sigma " + f(m.scale_m) + " m";
     case Family::gev:
       return "GEV mu " + f(m.location_m) + " m, sigma " + f(m.scale_m) + " m, xi " + f(m.shape);
     case Family::gpd:
@@ -192,7 +196,8 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
     req.defences = terrain::DefenceSource{o.defences, o.defence_layer, o.crest_field,
                                           o.crest_datum == "water"};
   }
-  req.connectivity = o.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
+  req.connectivity =
+      o.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
   for (double l : o.levels) req.levels.push_back({l, o.year, o.scenario});
 
   const auto model = present_day_model(o);
@@ -204,7 +209,8 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
     }
     const double year = parse_number(r.substr(0, eq), "--rise");
     const double rise = parse_number(r.substr(eq + 1), "--rise");
-    if (year != std::floor(year)) throw InputError("--rise", "'" + r + "': the year is not whole", "give a year");
+    if (year != std::floor(year))
+      throw InputError("--rise", "'" + r + "': the year is not whole", "give a year");
     if (!model) {
       throw InputError("--rise", "a rise needs a present-day still-water model",
                        "give --gumbel, --gev, --gpd or --model-json");
@@ -212,9 +218,8 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
     const StillWaterModel& m = *model;
     // Interim N_t(z) = N_0(z - rise_t): a stated deterministic rise (docs/design.md, with Δ_t
     // fixed); the planning stage's ensemble expectation replaces it.
-    years.push_back({static_cast<int>(year), [m, rise](double z) {
-                       return m.annual_exceedance_rate(z - rise);
-                     }});
+    years.push_back({static_cast<int>(year),
+                     [m, rise](double z) { return m.annual_exceedance_rate(z - rise); }});
   }
   if (model) {
     const StillWaterModel& m = *model;
@@ -230,11 +235,11 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
   }
   if (o.aep_pass) {
     if (years.empty()) {
-      throw InputError("--aep-pass", "the first-year raster needs years", "give --rise YEAR=M (repeat)");
+      throw InputError("--aep-pass", "the first-year raster needs years",
+                       "give --rise YEAR=M (repeat)");
     }
-    req.first_year = terrain::FirstYearLayer{years, *o.aep_pass,
-                                             model_label(*model) + " shifted by --rise (interim)",
-                                             o.scenario};
+    req.first_year = terrain::FirstYearLayer{
+        years, *o.aep_pass, model_label(*model) + " shifted by --rise (interim)", o.scenario};
   } else if (!years.empty() && !model) {
     throw InputError("--rise", "a rise needs a present-day still-water model", "give one");
   }
@@ -257,11 +262,11 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
 
 void print_summary(const terrain::MapSummary& s, const std::string& out) {
   std::cout << "Flood maps written to " << out << " (" << s.cells << " cells, " << s.sea_cells
-            << " sea, " << s.unreached_cells << " land cells never reached; areas "
-            << s.area_method << ")\n";
+            << " sea, " << s.unreached_cells << " land cells never reached; areas " << s.area_method
+            << ")\n";
   if (!s.levels.empty()) {
-    report::TextTable t({"level_m", "flooded_cells", "flooded_area_m2", "volume_m3",
-                         "max_depth_m", "disconnected_cells", "disconnected_area_m2"});
+    report::TextTable t({"level_m", "flooded_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
+                         "disconnected_cells", "disconnected_area_m2"});
     for (const auto& l : s.levels) {
       t.add_row({report::fixed(l.level.level_m, 3), std::to_string(l.connected_cells),
                  report::fixed(l.flooded_area_m2, 0), report::fixed(l.volume_m3, 0),
@@ -283,7 +288,8 @@ void configure(CLI::App& app, CommonOptions& common) {
       "Levels in metres above the water-level datum.");
   app.add_option("--dem", o->dem, "DEM raster (any GDAL format)")->required()->type_name("FILE");
   app.add_option("--dem-band", o->band, "Band of the DEM to read")->default_val(1);
-  app.add_option("--dem-nodata", o->dem_nodata, "Extra nodata value (the file's own is always used)");
+  app.add_option("--dem-nodata", o->dem_nodata,
+                 "Extra nodata value (the file's own is always used)");
   app.add_option("--dem-crs", o->dem_crs, "CRS to assume when the DEM has none (e.g. EPSG:32633)");
   app.add_option("--datum-offset", o->datum_offset_m,
                  "Metres added to DEM elevations to give heights above the water-level datum")
@@ -291,13 +297,14 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--datum-offset-raster", o->datum_offset_raster,
                  "Raster of that offset (m), resampled bilinearly to the DEM grid")
       ->type_name("FILE");
-  app.add_flag("--same-datum", o->same_datum, "State that the DEM's datum is the water-level datum");
+  app.add_flag("--same-datum", o->same_datum,
+               "State that the DEM's datum is the water-level datum");
   app.add_option("--sea", o->sea, "Sea mask: polygons (OGR) or raster (non-zero = sea)")
       ->type_name("FILE");
   app.add_option("--sea-point", o->sea_points, "A sea seed point X,Y in the DEM's CRS (repeat)")
       ->type_name("X,Y");
-  app.add_option("--sea-edge-below", o->sea_edge_below_m,
-                 "DEM edge cells at or below M are sea")->type_name("M");
+  app.add_option("--sea-edge-below", o->sea_edge_below_m, "DEM edge cells at or below M are sea")
+      ->type_name("M");
   app.add_flag("--nodata-is-sea", o->nodata_is_sea, "Nodata cells are sea (otherwise barriers)");
   app.add_option("--defences", o->defences, "Defence lines/polygons (OGR) burned in as walls")
       ->type_name("FILE");
@@ -311,22 +318,31 @@ void configure(CLI::App& app, CommonOptions& common) {
                  "4 or 8 neighbours (8: water passes diagonally, the cautious side)")
       ->check(CLI::IsMember({4, 8}))
       ->default_val(8);
-  app.add_option("--level", o->levels, "Still-water level to map, m above the water-level datum (repeat)")
+  app.add_option("--level", o->levels,
+                 "Still-water level to map, m above the water-level datum (repeat)")
       ->type_name("M");
   app.add_option("--year", o->year, "Year label written with the levels");
   app.add_option("--scenario", o->scenario, "Scenario label written with the levels");
   app.add_option("--gumbel", o->gumbel, "Present-day Gumbel annual maxima MU,SIGMA (m), for AEP")
-      ->expected(2)->delimiter(',')->type_name("MU,SIGMA");
+      ->expected(2)
+      ->delimiter(',')
+      ->type_name("MU,SIGMA");
   app.add_option("--gev", o->gev, "Present-day GEV annual maxima MU,SIGMA,XI, for AEP")
-      ->expected(3)->delimiter(',')->type_name("MU,SIGMA,XI");
+      ->expected(3)
+      ->delimiter(',')
+      ->type_name("MU,SIGMA,XI");
   app.add_option("--gpd", o->gpd, "Present-day GPD peaks U,SIGMA,XI,RATE_PER_YR, for AEP")
-      ->expected(4)->delimiter(',')->type_name("U,SIGMA,XI,RATE");
-  app.add_option("--model-json", o->model_json, "Present-day still-water model as JSON (docs/map.md)")
+      ->expected(4)
+      ->delimiter(',')
+      ->type_name("U,SIGMA,XI,RATE");
+  app.add_option("--model-json", o->model_json,
+                 "Present-day still-water model as JSON (docs/map.md)")
       ->type_name("FILE");
   app.add_option("--rise", o->rises,
                  "Interim: year and a deterministic sea-level rise (m) shifting the model (repeat)")
       ->type_name("YEAR=M");
-  app.add_option("--aep-pass", o->aep_pass, "Write first_year.tif: first --rise year a cell's AEP reaches P")
+  app.add_option("--aep-pass", o->aep_pass,
+                 "Write first_year.tif: first --rise year a cell's AEP reaches P")
       ->type_name("P");
   app.add_flag("--polygons", o->polygons, "Write extent polygons to extent.gpkg");
   app.add_flag("--cog", o->cog, "Write Cloud-Optimized GeoTIFFs");
@@ -368,8 +384,8 @@ void configure(CLI::App& app, CommonOptions& common) {
   });
 }
 
-const bool registered =
-    register_command({"map", "Flood-threshold, extent, depth and AEP rasters from a DEM", 50, configure});
+const bool registered = register_command(
+    {"map", "Flood-threshold, extent, depth and AEP rasters from a DEM", 50, configure});
 
 }  // namespace
 }  // namespace tidewright::cli

@@ -61,7 +61,8 @@ std::size_t close_diagonal_gaps(const Dem& dem, std::vector<float>& crest) {
 
 DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
   auto ds = gdal::open_vector(source.path, "defence layer");
-  OGRLayer* layer = source.layer.empty() ? ds->GetLayer(0) : ds->GetLayerByName(source.layer.c_str());
+  OGRLayer* layer =
+      source.layer.empty() ? ds->GetLayer(0) : ds->GetLayerByName(source.layer.c_str());
   if (layer == nullptr) {
     throw InputError(source.path, "has no layer '" + source.layer + "'",
                      "name one of its layers (ogrinfo " + source.path + ")");
@@ -126,10 +127,9 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
   const std::size_t cols = dem.grid.shape.cols;
   const std::size_t rows = dem.grid.shape.rows;
   std::vector<float> crest(dem.grid.shape.cells());
-  if (mem->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, static_cast<int>(cols),
-                                      static_cast<int>(rows), crest.data(), static_cast<int>(cols),
-                                      static_cast<int>(rows), GDT_Float32, 0, 0,
-                                      nullptr) != CE_None) {
+  if (mem->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, static_cast<int>(cols), static_cast<int>(rows),
+                                      crest.data(), static_cast<int>(cols), static_cast<int>(rows),
+                                      GDT_Float32, 0, 0, nullptr) != CE_None) {
     throw InputError(source.path, "reading the rasterised defences failed", "check the file");
   }
   mem.reset();
@@ -150,8 +150,7 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
                     source.crest_field + "' in the " +
                     (source.crest_in_water_datum ? "water-level" : "DEM") +
                     " datum, ALL_TOUCHED burn, " + std::to_string(out.gaps_closed) +
-                    " diagonal gaps closed, " + std::to_string(out.cells_raised) +
-                    " cells raised)";
+                    " diagonal gaps closed, " + std::to_string(out.cells_raised) + " cells raised)";
   return out;
 }
 

@@ -36,12 +36,13 @@ std::vector<float> resample_to_grid(const std::string& path, const GeoGrid& grid
   argv.push_back(nullptr);
   GDALWarpAppOptions* options = GDALWarpAppOptionsNew(argv.data(), nullptr);
   if (options == nullptr) {
-    throw ComputationError("GDALWarp", "the resampling options were refused (" + gdal::last_error() + ")",
+    throw ComputationError("GDALWarp",
+                           "the resampling options were refused (" + gdal::last_error() + ")",
                            "report this with the GDAL version");
   }
   if (src->GetRasterCount() != 1) {
-    throw InputError(path, "the " + role + " has " + std::to_string(src->GetRasterCount()) +
-                               " bands",
+    throw InputError(path,
+                     "the " + role + " has " + std::to_string(src->GetRasterCount()) + " bands",
                      "give a one-band raster (gdal_translate -b N to extract one)");
   }
   GDALDatasetH sources[] = {GDALDataset::ToHandle(src.get())};
@@ -53,16 +54,15 @@ std::vector<float> resample_to_grid(const std::string& path, const GeoGrid& grid
   CPLPopErrorHandler();
   GDALWarpAppOptionsFree(options);
   if (result == nullptr) {
-    throw InputError(path, "the " + role + " cannot be resampled to the DEM grid (" +
-                               gdal::last_error() + ")",
-                     "check its CRS and extent with gdalinfo");
+    throw InputError(
+        path, "the " + role + " cannot be resampled to the DEM grid (" + gdal::last_error() + ")",
+        "check its CRS and extent with gdalinfo");
   }
   std::vector<float> values(grid.shape.cells());
-  if (dst->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, static_cast<int>(grid.shape.cols),
-                                      static_cast<int>(grid.shape.rows), values.data(),
-                                      static_cast<int>(grid.shape.cols),
-                                      static_cast<int>(grid.shape.rows), GDT_Float32, 0, 0,
-                                      nullptr) != CE_None) {
+  if (dst->GetRasterBand(1)->RasterIO(
+          GF_Read, 0, 0, static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows),
+          values.data(), static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows),
+          GDT_Float32, 0, 0, nullptr) != CE_None) {
     throw InputError(path, "reading the resampled " + role + " failed (" + gdal::last_error() + ")",
                      "check the file with gdalinfo");
   }
@@ -113,7 +113,8 @@ Dem read_dem(const DemSource& source) {
   constexpr int rows_per_read = 256;
   for (int r0 = 0; r0 < rows; r0 += rows_per_read) {
     const int h = std::min(rows_per_read, rows - r0);
-    float* dest = dem.elevation_m.data() + static_cast<std::size_t>(r0) * static_cast<std::size_t>(cols);
+    float* dest =
+        dem.elevation_m.data() + static_cast<std::size_t>(r0) * static_cast<std::size_t>(cols);
     if (band->RasterIO(GF_Read, 0, r0, cols, h, dest, cols, h, GDT_Float32, 0, 0, nullptr) !=
         CE_None) {
       throw InputError(source.path, "reading the DEM failed (" + gdal::last_error() + ")",
@@ -157,8 +158,8 @@ Dem read_dem(const DemSource& source) {
       datum = "z_water = z_dem + " + number(source.datum.offset_m) + " m (constant offset)";
       break;
     case DatumRelation::Kind::raster: {
-      dem.offset_m = resample_to_grid(source.datum.raster_path, dem.grid, "bilinear",
-                                      "datum offset raster");
+      dem.offset_m =
+          resample_to_grid(source.datum.raster_path, dem.grid, "bilinear", "datum offset raster");
       std::size_t uncovered = 0;
       for (std::size_t i = 0; i < n; ++i) {
         if (!std::isnan(dem.elevation_m[i]) && std::isnan(dem.offset_m[i])) ++uncovered;
@@ -176,16 +177,16 @@ Dem read_dem(const DemSource& source) {
   }
   for (std::size_t i = 0; i < n; ++i) {
     if (!std::isnan(dem.elevation_m[i])) {
-      dem.elevation_m[i] = static_cast<float>(static_cast<double>(dem.elevation_m[i]) + dem.offset_at(i));
+      dem.elevation_m[i] =
+          static_cast<float>(static_cast<double>(dem.elevation_m[i]) + dem.offset_at(i));
     }
   }
-  dem.description = source.path + " band " + std::to_string(source.band) + " (" +
-                    std::to_string(dem.grid.shape.cols) + " x " +
-                    std::to_string(dem.grid.shape.rows) + " cells, " + std::to_string(valid) +
-                    " valid; nodata: " +
-                    (has_nodata != 0 ? number(file_nodata) + " from the file" : "none in the file") +
-                    (source.nodata ? ", " + number(*source.nodata) + " declared" : "") + "); " +
-                    datum;
+  dem.description =
+      source.path + " band " + std::to_string(source.band) + " (" +
+      std::to_string(dem.grid.shape.cols) + " x " + std::to_string(dem.grid.shape.rows) +
+      " cells, " + std::to_string(valid) + " valid; nodata: " +
+      (has_nodata != 0 ? number(file_nodata) + " from the file" : "none in the file") +
+      (source.nodata ? ", " + number(*source.nodata) + " declared" : "") + "); " + datum;
   return dem;
 }
 

@@ -38,9 +38,12 @@ std::string level_label(const MapLevel& l) {
 
 const char* class_name(std::uint8_t c) {
   switch (static_cast<ExtentClass>(c)) {
-    case ExtentClass::connected_flooded: return "connected flooded";
-    case ExtentClass::disconnected_low_lying: return "disconnected low-lying";
-    default: return "other";
+    case ExtentClass::connected_flooded:
+      return "connected flooded";
+    case ExtentClass::disconnected_low_lying:
+      return "disconnected low-lying";
+    default:
+      return "other";
   }
 }
 
@@ -83,8 +86,8 @@ void polygonise_level(const FloodThresholdMap& map, const LevelSummary& level, O
   band->DeleteNoDataValue();
   if (band->RasterIO(GF_Write, 0, 0, static_cast<int>(grid.shape.cols),
                      static_cast<int>(grid.shape.rows), values.data(),
-                     static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows),
-                     GDT_Byte, 0, 0, nullptr) != CE_None) {
+                     static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows), GDT_Byte,
+                     0, 0, nullptr) != CE_None) {
     throw InputError(path, "preparing the extent polygons failed", "report this");
   }
   values = {};
@@ -129,12 +132,12 @@ void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary
   }
   OGRSpatialReference srs = gdal::grid_srs(map.dem.grid);
   OGRLayer* layer = ds->CreateLayer("extent", &srs, wkbPolygon, nullptr);
-  for (const auto& [name, type] : std::vector<std::pair<const char*, OGRFieldType>>{
-           {"extent_class", OFTInteger},
-           {"class_name", OFTString},
-           {"level_m", OFTReal},
-           {"year", OFTInteger},
-           {"scenario", OFTString}}) {
+  for (const auto& [name, type] :
+       std::vector<std::pair<const char*, OGRFieldType>>{{"extent_class", OFTInteger},
+                                                         {"class_name", OFTString},
+                                                         {"level_m", OFTReal},
+                                                         {"year", OFTInteger},
+                                                         {"scenario", OFTString}}) {
     OGRFieldDefn field(name, type);
     layer->CreateField(&field);
   }
@@ -211,8 +214,8 @@ FloodThresholdMap prepare_flood_threshold(const DemSource& dem, const SeaSource&
   if (defences) map.defences = burn_defences(map.dem, *defences);
   map.dem.offset_m = {};  // no longer needed: free it before the threshold pass
   map.sea = find_sea_cells(map.dem, sea, connectivity);
-  map.threshold_m =
-      flood_threshold_barnes2014(map.dem.grid.shape, map.dem.elevation_m, map.sea.is_sea, connectivity);
+  map.threshold_m = flood_threshold_barnes2014(map.dem.grid.shape, map.dem.elevation_m,
+                                               map.sea.is_sea, connectivity);
   return map;
 }
 
@@ -299,12 +302,12 @@ MapSummary make_flood_maps(const MapRequest& req) {
       Metadata m;
       if (a.year) m.emplace_back("YEAR", std::to_string(*a.year));
       if (!a.scenario.empty()) m.emplace_back("SCENARIO", a.scenario);
-      bands.push_back({"annual exceedance probability of the flood threshold: " + a.description,
-                       "1", m});
+      bands.push_back(
+          {"annual exceedance probability of the flood threshold: " + a.description, "1", m});
     }
-    aep = std::make_unique<GeoTiffWriter>(dir / "aep.tif", map.dem.grid, CellType::float32, nan,
-                                          bands, common_metadata(req, map, "annual exceedance probability"),
-                                          req.format);
+    aep = std::make_unique<GeoTiffWriter>(
+        dir / "aep.tif", map.dem.grid, CellType::float32, nan, bands,
+        common_metadata(req, map, "annual exceedance probability"), req.format);
     s.files.emplace_back("aep.tif");
   }
   std::optional<FirstPassingYear> first;
@@ -316,9 +319,9 @@ MapSummary make_flood_maps(const MapRequest& req) {
     if (!req.first_year->scenario.empty()) m.emplace_back("SCENARIO", req.first_year->scenario);
     first_writer = std::make_unique<GeoTiffWriter>(
         dir / "first_year.tif", map.dem.grid, CellType::int16, FirstPassingYear::nodata,
-        std::vector<BandInfo>{{"first year the cell's AEP reaches " + fixed(req.first_year->aep, 6) +
-                                   " (" + req.first_year->description +
-                                   "); 0: not within the years given",
+        std::vector<BandInfo>{{"first year the cell's AEP reaches " +
+                                   fixed(req.first_year->aep, 6) + " (" +
+                                   req.first_year->description + "); 0: not within the years given",
                                "year", m}},
         common_metadata(req, map, "first year an AEP is passed"), req.format);
     s.files.emplace_back("first_year.tif");

@@ -21,9 +21,9 @@ namespace {
 // The priority queue: a radix heap (Ahuja, Mehlhorn, Orlin & Tarjan 1990, "Faster algorithms
 // for the shortest path problem", J. ACM 37:213), valid because the priority-flood is monotone:
 // a cell enters the queue only with an elevation above the level of the cell being processed,
-// which is at least the last level taken out. The key orders by level, then by insertion
-// counter (the paper's §2.3 stable order on ties), so cells leave in exactly the order a binary
-// heap on (level, counter) would give; it is about twice as fast here (docs/performance.md).
+// which is at least the last level taken out. Cells leave by level, then by insertion counter
+// (the paper's §2.3 stable order on ties: cells at one level are sorted by counter when they
+// reach the front), exactly the order of a binary heap on (level, counter).
 // Hand-written: neither the standard library nor Boost has a monotone radix heap.
 class RadixHeap {
  public:
@@ -33,23 +33,31 @@ class RadixHeap {
     const auto b = std::bit_cast<std::uint32_t>(level);
     return (b & 0x80000000U) != 0 ? ~b : (b | 0x80000000U);
   }
+  // Keys pushed are always above the last key taken out (the flood is monotone, see above).
   void push(float level, std::uint32_t counter, std::uint32_t index) {
-    const std::uint64_t key = (std::uint64_t{ordered_bits(level)} << 32) | counter;
-    buckets_[bucket_of(key)].push_back({key, index});
+    const std::uint32_t key = ordered_bits(level);
+    buckets_[bucket_of(key)].push_back({key, counter, index});
     ++size_;
   }
   [[nodiscard]] bool empty() const noexcept { return size_ == 0; }
-  // The cell with the smallest key; the heap must not be empty.
+  // The cell with the smallest (level, counter); the heap must not be empty.
   std::uint32_t pop() {
     if (buckets_[0].empty()) {
       std::size_t b = 1;
       while (buckets_[b].empty()) ++b;
       auto& from = buckets_[b];
-      std::uint64_t least = from.front().key;
+      std::uint32_t least = from.front().key;
       for (const auto& e : from) least = std::min(least, e.key);
       last_ = least;
       for (const auto& e : from) buckets_[bucket_of(e.key)].push_back(e);
       from.clear();
+      // Bucket 0 now holds every queued cell at the least level (usually one): take them by
+      // insertion counter, smallest last so that pop_back gives it.
+      auto& ties = buckets_[0];
+      if (ties.size() > 1) {
+        std::sort(ties.begin(), ties.end(),
+                  [](const Entry& a, const Entry& c) { return a.counter > c.counter; });
+      }
     }
     const std::uint32_t index = buckets_[0].back().index;
     buckets_[0].pop_back();
@@ -59,19 +67,19 @@ class RadixHeap {
 
  private:
   struct Entry {
-    std::uint64_t key;
+    std::uint32_t key;
+    std::uint32_t counter;
     std::uint32_t index;
   };
-  // Bucket 0 holds the key equal to the last minimum; bucket b the keys whose highest bit
+  // Bucket 0 holds the keys equal to the last minimum; bucket b the keys whose highest bit
   // differing from it is bit b - 1.
-  [[nodiscard]] std::size_t bucket_of(std::uint64_t key) const noexcept {
-    return key == last_ ? 0 : static_cast<std::size_t>(64 - std::countl_zero(key ^ last_));
+  [[nodiscard]] std::size_t bucket_of(std::uint32_t key) const noexcept {
+    return key == last_ ? 0 : static_cast<std::size_t>(32 - std::countl_zero(key ^ last_));
   }
-  std::array<std::vector<Entry>, 65> buckets_;
-  std::uint64_t last_ = 0;
+  std::array<std::vector<Entry>, 33> buckets_;
+  std::uint32_t last_ = 0;
   std::size_t size_ = 0;
 };
-
 
 }  // namespace
 
@@ -115,7 +123,7 @@ std::vector<float> flood_threshold_barnes2014(GridShape shape, std::span<const f
 
   const auto stride = static_cast<std::ptrdiff_t>(pc);
   // The four edge neighbours first, then the diagonals.
-  const std::array<std::ptrdiff_t, 8> offset{1, -1, stride, -stride,
+  const std::array<std::ptrdiff_t, 8> offset{1,          -1,         stride,      -stride,
                                              stride + 1, stride - 1, -stride + 1, -stride - 1};
   const int neighbours = connectivity == Connectivity::eight ? 8 : 4;
 

@@ -57,8 +57,8 @@ GDALDatasetUniquePtr open_raster(const std::string& path, const std::string& rol
 GDALDatasetUniquePtr open_vector(const std::string& path, const std::string& role) {
   auto ds = open_quietly(path, GDAL_OF_VECTOR);
   if (!ds || ds->GetLayerCount() < 1) {
-    throw InputError(path, "GDAL cannot open the " + role + " as a vector layer (" +
-                               last_error() + ")",
+    throw InputError(path,
+                     "GDAL cannot open the " + role + " as a vector layer (" + last_error() + ")",
                      "check the path and that 'ogrinfo " + path + "' reads it");
   }
   return ds;
@@ -96,10 +96,10 @@ std::vector<LayerGeometry> layer_geometries(OGRLayer& layer, const GeoGrid& grid
                                             const std::string& path) {
   const OGRSpatialReference* layer_srs = layer.GetSpatialRef();
   if (layer_srs == nullptr) {
-    throw InputError(path, "layer '" + std::string(layer.GetName()) +
-                               "' has no coordinate reference system",
-                     "give the file a CRS (e.g. ogr2ogr -a_srs EPSG:XXXX) so it can be placed "
-                     "on the DEM");
+    throw InputError(
+        path, "layer '" + std::string(layer.GetName()) + "' has no coordinate reference system",
+        "give the file a CRS (e.g. ogr2ogr -a_srs EPSG:XXXX) so it can be placed "
+        "on the DEM");
   }
   OGRSpatialReference source = *layer_srs;
   source.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
@@ -108,8 +108,9 @@ std::vector<LayerGeometry> layer_geometries(OGRLayer& layer, const GeoGrid& grid
   if (!source.IsSame(&target)) {
     transform.reset(OGRCreateCoordinateTransformation(&source, &target));
     if (!transform) {
-      throw InputError(path, "layer '" + std::string(layer.GetName()) +
-                                 "' cannot be reprojected to the DEM's CRS (" + last_error() + ")",
+      throw InputError(path,
+                       "layer '" + std::string(layer.GetName()) +
+                           "' cannot be reprojected to the DEM's CRS (" + last_error() + ")",
                        "reproject it to the DEM's CRS with ogr2ogr -t_srs");
     }
   }

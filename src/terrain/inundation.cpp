@@ -17,8 +17,9 @@ constexpr double inf = std::numeric_limits<double>::infinity();
 
 void check_range(double lowest_m, double highest_m, const char* what) {
   if (!std::isfinite(lowest_m) || !std::isfinite(highest_m) || highest_m < lowest_m) {
-    throw InputError(what, "the level range [" + std::to_string(lowest_m) + ", " +
-                               std::to_string(highest_m) + "] m is not a finite interval",
+    throw InputError(what,
+                     "the level range [" + std::to_string(lowest_m) + ", " +
+                         std::to_string(highest_m) + "] m is not a finite interval",
                      "give finite levels with lowest <= highest");
   }
 }
@@ -52,15 +53,16 @@ AepLookup::AepLookup(const RateFunction& rate, double lowest_m, double highest_m
     const double z = lowest_m + step_m_ * static_cast<double>(i);
     const double n = rate(z);
     if (std::isnan(n) || n < 0.0) {
-      throw ComputationError("AEP lookup", "the annual exceedance rate at " + std::to_string(z) +
-                                               " m is " + std::to_string(n) + ", not a rate",
+      throw ComputationError("AEP lookup",
+                             "the annual exceedance rate at " + std::to_string(z) + " m is " +
+                                 std::to_string(n) + ", not a rate",
                              "check the still-water model's parameters");
     }
     if (n > previous * (1.0 + 1e-9)) {
-      throw ComputationError("AEP lookup",
-                             "the annual exceedance rate rises with level near " +
-                                 std::to_string(z) + " m",
-                             "the rate function must not increase with level; check the model");
+      throw ComputationError(
+          "AEP lookup",
+          "the annual exceedance rate rises with level near " + std::to_string(z) + " m",
+          "the rate function must not increase with level; check the model");
     }
     previous = std::min(previous, n);
     log_rate_[i] = std::log(previous);  // -inf for N = 0 (above a finite upper end point)
@@ -89,8 +91,8 @@ float AepLookup::operator()(float threshold_m) const noexcept {
   return static_cast<float>(-std::expm1(-rate_per_yr(static_cast<double>(threshold_m))));
 }
 
-FirstPassingYear::FirstPassingYear(const std::vector<YearlyRate>& years, double aep, double lowest_m,
-                                   double highest_m) {
+FirstPassingYear::FirstPassingYear(const std::vector<YearlyRate>& years, double aep,
+                                   double lowest_m, double highest_m) {
   check_range(lowest_m, highest_m, "first-year raster");
   if (!(aep > 0.0 && aep < 1.0)) {
     throw InputError("first-year raster", "the AEP to pass is " + std::to_string(aep),
@@ -103,8 +105,8 @@ FirstPassingYear::FirstPassingYear(const std::vector<YearlyRate>& years, double 
   int previous_year = std::numeric_limits<int>::min();
   for (const auto& y : years) {
     if (y.year <= previous_year || y.year <= 0 || y.year > 32767) {
-      throw InputError("first-year raster", "year " + std::to_string(y.year) +
-                                                " is out of order or out of range",
+      throw InputError("first-year raster",
+                       "year " + std::to_string(y.year) + " is out of order or out of range",
                        "give years in ascending order between 1 and 32767");
     }
     previous_year = y.year;

@@ -9,7 +9,7 @@
 namespace tidewright::terrain {
 
 struct GeoTiffWriter::Impl {
-  std::filesystem::path path;      // final file
+  std::filesystem::path path;       // final file
   std::filesystem::path tiff_path;  // where the GTiff driver writes (a side file for COG)
   GeoGrid grid;
   GDALDataType type = GDT_Float32;
@@ -21,9 +21,12 @@ namespace {
 
 GDALDataType gdal_type(CellType t) {
   switch (t) {
-    case CellType::byte: return GDT_Byte;
-    case CellType::int16: return GDT_Int16;
-    case CellType::float32: return GDT_Float32;
+    case CellType::byte:
+      return GDT_Byte;
+    case CellType::int16:
+      return GDT_Int16;
+    case CellType::float32:
+      return GDT_Float32;
   }
   return GDT_Float32;
 }

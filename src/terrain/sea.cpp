@@ -34,11 +34,10 @@ std::vector<std::uint8_t> rasterise_sea_polygons(const std::string& path, const 
                      "check its geometries with ogrinfo");
   }
   std::vector<std::uint8_t> out(grid.shape.cells());
-  if (mem->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, static_cast<int>(grid.shape.cols),
-                                      static_cast<int>(grid.shape.rows), out.data(),
-                                      static_cast<int>(grid.shape.cols),
-                                      static_cast<int>(grid.shape.rows), GDT_Byte, 0, 0,
-                                      nullptr) != CE_None) {
+  if (mem->GetRasterBand(1)->RasterIO(
+          GF_Read, 0, 0, static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows),
+          out.data(), static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows),
+          GDT_Byte, 0, 0, nullptr) != CE_None) {
     throw InputError(path, "reading the rasterised sea mask failed", "check the file");
   }
   return out;
@@ -85,7 +84,8 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
     std::array<double, 6> inverse{};
     std::array<double, 6> gt = dem.grid.geotransform;
     if (GDALInvGeoTransform(gt.data(), inverse.data()) == 0) {
-      throw InputError("DEM", "the geotransform cannot be inverted", "check the DEM's georeferencing");
+      throw InputError("DEM", "the geotransform cannot be inverted",
+                       "check the DEM's georeferencing");
     }
     for (const auto& p : source.points_xy) {
       const double col = inverse[0] + p[0] * inverse[1] + p[1] * inverse[2];
@@ -153,7 +153,8 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
                      "check the sea sources against the DEM's extent and elevations");
   }
   if (!touches) {
-    throw InputError("sea", "the sea (" + parts + ") touches no valid land cell, so nothing can flood",
+    throw InputError("sea",
+                     "the sea (" + parts + ") touches no valid land cell, so nothing can flood",
                      "check the sea mask and the DEM's nodata");
   }
   sea.description = parts + "; " + std::to_string(sea.count) + " sea cells";

@@ -50,7 +50,8 @@ struct FolderRemover {
   ~FolderRemover() {
     std::error_code ec;
     // TIDEWRIGHT_BENCH_KEEP_DEM=FILE keeps a copy of the DEM, to time the CLI on it.
-    if (const char* keep = std::getenv("TIDEWRIGHT_BENCH_KEEP_DEM"); keep != nullptr && !folder.empty()) {
+    if (const char* keep = std::getenv("TIDEWRIGHT_BENCH_KEEP_DEM");
+        keep != nullptr && !folder.empty()) {
       std::filesystem::copy_file(folder / "dem.tif", keep,
                                  std::filesystem::copy_options::overwrite_existing, ec);
     }
@@ -81,7 +82,8 @@ const BenchDem& bench_dem() {
           const auto ix = static_cast<std::size_t>(fx);
           const float wx = fx - static_cast<float>(ix);
           const float a = lattice[iy * g + ix] * (1 - wx) + lattice[iy * g + ix + 1] * wx;
-          const float b = lattice[(iy + 1) * g + ix] * (1 - wx) + lattice[(iy + 1) * g + ix + 1] * wx;
+          const float b =
+              lattice[(iy + 1) * g + ix] * (1 - wx) + lattice[(iy + 1) * g + ix + 1] * wx;
           d.z[y * n + x] += amplitude * (a * (1 - wy) + b * wy);
         }
       }
@@ -129,7 +131,8 @@ double seconds_of(const std::string& cmd, std::string* output = nullptr) {
   std::string out;
   std::array<char, 256> buf{};
   std::size_t got = 0;
-  while (p != nullptr && (got = std::fread(buf.data(), 1, buf.size(), p)) > 0) out.append(buf.data(), got);
+  while (p != nullptr && (got = std::fread(buf.data(), 1, buf.size(), p)) > 0)
+    out.append(buf.data(), got);
   const int status = p != nullptr ? pclose(p) : -1;
   const auto t1 = std::chrono::steady_clock::now();
   if (output != nullptr) *output = out;
@@ -142,8 +145,8 @@ void BM_TerrainFloodThreshold(benchmark::State& state) {
     auto t = tw::flood_threshold_barnes2014(d.shape, d.z, d.sea, tw::Connectivity::eight);
     benchmark::DoNotOptimize(t.data());
   }
-  state.counters["cells_per_s"] = benchmark::Counter(
-      static_cast<double>(d.shape.cells()), benchmark::Counter::kIsIterationInvariantRate);
+  state.counters["cells_per_s"] = benchmark::Counter(static_cast<double>(d.shape.cells()),
+                                                     benchmark::Counter::kIsIterationInvariantRate);
 }
 
 // Peer: skimage.morphology.reconstruction (erosion) on the same array; the CPU time of the
@@ -164,8 +167,8 @@ void BM_TerrainPeerSkimageReconstruction(benchmark::State& state) {
     state.SetIterationTime(cpu_s);
     state.counters["wall_s"] = std::stod(out.substr(used));
   }
-  state.counters["cells_per_s"] = benchmark::Counter(
-      static_cast<double>(d.shape.cells()), benchmark::Counter::kIsIterationInvariantRate);
+  state.counters["cells_per_s"] = benchmark::Counter(static_cast<double>(d.shape.cells()),
+                                                     benchmark::Counter::kIsIterationInvariantRate);
 }
 
 // I/O floor: gdal_translate with the map's creation options.
@@ -175,8 +178,10 @@ void BM_TerrainPeerGdalTranslate(benchmark::State& state) {
   for (auto _ : state) {
     std::filesystem::remove(out);
     const double s = seconds_of(
-        "gdal_translate -q -co TILED=YES -co BLOCKXSIZE=256 -co BLOCKYSIZE=256 -co COMPRESS=DEFLATE "
-        "-co PREDICTOR=3 -co BIGTIFF=IF_SAFER '" + d.path + "' '" + out + "'");
+        "gdal_translate -q -co TILED=YES -co BLOCKXSIZE=256 -co BLOCKYSIZE=256 -co "
+        "COMPRESS=DEFLATE "
+        "-co PREDICTOR=3 -co BIGTIFF=IF_SAFER '" +
+        d.path + "' '" + out + "'");
     if (s < 0) {
       state.SkipWithError("gdal_translate (Debian gdal-bin) failed");
       return;
@@ -200,13 +205,19 @@ void BM_TerrainMapRun(benchmark::State& state) {
     auto s = tw::make_flood_maps(req);
     benchmark::DoNotOptimize(s.levels.data());
   }
-  state.counters["cells_per_s"] = benchmark::Counter(
-      static_cast<double>(d.shape.cells()), benchmark::Counter::kIsIterationInvariantRate);
+  state.counters["cells_per_s"] = benchmark::Counter(static_cast<double>(d.shape.cells()),
+                                                     benchmark::Counter::kIsIterationInvariantRate);
 }
 
 }  // namespace
 
 BENCHMARK(BM_TerrainFloodThreshold)->Unit(benchmark::kMillisecond)->Iterations(3);
-BENCHMARK(BM_TerrainPeerSkimageReconstruction)->Unit(benchmark::kMillisecond)->UseManualTime()->Iterations(1);
-BENCHMARK(BM_TerrainPeerGdalTranslate)->Unit(benchmark::kMillisecond)->UseManualTime()->Iterations(3);
+BENCHMARK(BM_TerrainPeerSkimageReconstruction)
+    ->Unit(benchmark::kMillisecond)
+    ->UseManualTime()
+    ->Iterations(1);
+BENCHMARK(BM_TerrainPeerGdalTranslate)
+    ->Unit(benchmark::kMillisecond)
+    ->UseManualTime()
+    ->Iterations(3);
 BENCHMARK(BM_TerrainMapRun)->Arg(1)->Arg(20)->Unit(benchmark::kMillisecond)->Iterations(1);

@@ -10,6 +10,8 @@
 #include "support/run_cli.hpp"
 #include "terrain/terrain_fixtures.hpp"
 
+using ::testing::HasSubstr;
+using ::testing::StartsWith;
 using tidewright::testing::count_lines;
 using tidewright::testing::read_all;
 using tidewright::testing::run_cli;
@@ -18,8 +20,6 @@ using tidewright::testing::TempDir;
 using tidewright::testing::utm_10m;
 using tidewright::testing::write_raster;
 using tidewright::testing::write_vector;
-using ::testing::HasSubstr;
-using ::testing::StartsWith;
 
 namespace {
 
@@ -74,9 +74,9 @@ TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
     EXPECT_TRUE(std::filesystem::exists(out / f)) << f;
   }
   // Printed table without --quiet; the existing folder is refused without --force.
-  const auto again = run_cli("map --dem " + shell_quote(dem) +
-                             " --same-datum --sea-edge-below 0 --level 1.5 --out " +
-                             shell_quote(out.string()));
+  const auto again =
+      run_cli("map --dem " + shell_quote(dem) +
+              " --same-datum --sea-edge-below 0 --level 1.5 --out " + shell_quote(out.string()));
   EXPECT_EQ(again.exit_code, 2);
   EXPECT_THAT(again.err, HasSubstr("already exists"));
   EXPECT_THAT(again.err, HasSubstr("--force"));
@@ -133,8 +133,9 @@ TEST(MapCommand, BadInputsAreOneLineExitTwoAndLeaveNothing) {
 
   TempDir other;
   const auto no_crs = profile_dem(other, 0);
-  expect_input_error(run_cli("map --dem " + shell_quote(no_crs) + " --same-datum --sea-edge-below 0" + tail),
-                     "no coordinate reference system", out);
+  expect_input_error(
+      run_cli("map --dem " + shell_quote(no_crs) + " --same-datum --sea-edge-below 0" + tail),
+      "no coordinate reference system", out);
 
   const auto far = (tmp / "far.gpkg").string();
   write_vector(far, "GPKG", 32633, {{"POLYGON((0 0,10 0,10 10,0 10,0 0))", {}}}, "");
@@ -153,8 +154,9 @@ TEST(MapCommand, BadInputsAreOneLineExitTwoAndLeaveNothing) {
 
   const auto blank = (tmp / "blank.tif").string();
   write_raster(blank, 2, 2, utm_10m, 32633, {-1, -1, -1, -1}, -1.0);
-  expect_input_error(run_cli("map --dem " + shell_quote(blank) + " --same-datum --sea-edge-below 0" + tail),
-                     "every cell of the DEM is nodata", out);
+  expect_input_error(
+      run_cli("map --dem " + shell_quote(blank) + " --same-datum --sea-edge-below 0" + tail),
+      "every cell of the DEM is nodata", out);
 
   expect_input_error(run_cli(good + " --datum-offset 0.1 --sea-edge-below 0" + tail),
                      "more than one datum relation", out);
@@ -172,17 +174,19 @@ TEST(MapCommand, ModelJsonGivesTheSameAepAsTheOptions) {
     std::ofstream out(json);
     out << R"({"family": "gumbel", "location_m": 1.0, "scale_m": 0.5})";
   }
-  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --quiet";
+  const std::string base =
+      "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --quiet";
   ASSERT_EQ(run_cli(base + " --model-json " + shell_quote(json.string()) + " --out " +
                     shell_quote((tmp / "a").string()))
                 .exit_code,
             0);
-  ASSERT_EQ(run_cli(base + " --gumbel 1.0,0.5 --out " + shell_quote((tmp / "b").string())).exit_code, 0);
+  ASSERT_EQ(
+      run_cli(base + " --gumbel 1.0,0.5 --out " + shell_quote((tmp / "b").string())).exit_code, 0);
   const auto band = [](const std::filesystem::path& p) {
     GDALDatasetUniquePtr ds(GDALDataset::Open(p.c_str(), GDAL_OF_RASTER));
     std::vector<float> v(15);
-    if (!ds || ds->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, v.data(), 5, 3, GDT_Float32, 0, 0,
-                                              nullptr) != CE_None) {
+    if (!ds || ds->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, v.data(), 5, 3, GDT_Float32, 0,
+                                              0, nullptr) != CE_None) {
       v.clear();
     }
     return v;

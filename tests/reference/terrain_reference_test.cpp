@@ -29,7 +29,8 @@ struct Run {
 };
 
 Run python(const std::string& args) {
-  const std::string cmd = shell_quote(TIDEWRIGHT_PYTHON) + " " + shell_quote(script) + " " + args + " 2>&1";
+  const std::string cmd =
+      shell_quote(TIDEWRIGHT_PYTHON) + " " + shell_quote(script) + " " + args + " 2>&1";
   Run r;
   FILE* p = popen(cmd.c_str(), "r");
   if (p == nullptr) return r;
@@ -49,7 +50,8 @@ TEST(TerrainReference, ThresholdAndExtentsAgreeWithScikitImageAndScipy) {
   for (int seed = 1; seed <= 3; ++seed) {
     TempDir tmp;
     const auto dem = (tmp / "dem.tif").string();
-    const auto gen = python("generate " + shell_quote(dem) + " " + std::to_string(seed) + " 200 300");
+    const auto gen =
+        python("generate " + shell_quote(dem) + " " + std::to_string(seed) + " 200 300");
     ASSERT_EQ(gen.status, 0) << "Debian's /usr/bin/python3 with python3-numpy, python3-gdal, "
                                 "python3-scipy and python3-skimage is needed: "
                              << gen.out;

@@ -42,6 +42,13 @@ std::string input_error(F&& f) {
   return "";
 }
 
+// Expects f to throw an InputError whose message contains `text`.
+template <typename F>
+void expect_refused(F&& f, const std::string& text) {
+  const std::string message = input_error(std::forward<F>(f));
+  EXPECT_NE(message.find(text), std::string::npos) << "message: '" << message << "'";
+}
+
 // Area (m^2) of the WGS 84 cell between the parallels phi1 < phi2 and meridians dlon degrees
 // apart: (a^2 / 2) (q(phi2) - q(phi1)) dlon, with q(phi) = (1 - e^2) [sin phi / (1 - e^2 sin^2
 // phi) - 1/(2e) ln((1 - e sin phi) / (1 + e sin phi))] (Snyder 1987, "Map Projections: A Working
@@ -54,7 +61,8 @@ double zone_area_m2(double phi1_deg, double phi2_deg, double dlon_deg) {
   const double e = std::sqrt(e2);
   const auto q = [&](double phi_deg) {
     const double s = std::sin(phi_deg * M_PI / 180.0);
-    return (1.0 - e2) * (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
+    return (1.0 - e2) *
+           (s / (1.0 - e2 * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
   };
   return wgs84_a_m * wgs84_a_m / 2.0 * (q(phi2_deg) - q(phi1_deg)) * (dlon_deg * M_PI / 180.0);
 }
@@ -129,35 +137,30 @@ TEST(TerrainDem, OffsetRasterNotCoveringTheDemIsRefused) {
   write_raster(off_path, 2, 2, {20.0, 0.1, 0.0, 10.0, 0.0, -0.1}, 4326, {0, 0, 0, 0});
   auto src = same_datum(dem_path);
   src.datum = {tw::DatumRelation::Kind::raster, 0.0, off_path};
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(src); }).find("does not cover 16 valid DEM cells"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(src); }, "does not cover 16 valid DEM cells");
 }
 
 TEST(TerrainDem, BadDemsAreInputErrors) {
   TempDir tmp;
   const auto no_crs = (tmp / "nocrs.tif").string();
   write_raster(no_crs, 2, 2, utm_10m, 0, {0, 1, 2, 3});
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(same_datum(no_crs)); })
-                .find("has no coordinate reference system"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(same_datum(no_crs)); },
+                 "has no coordinate reference system");
   auto with_crs = same_datum(no_crs);
   with_crs.crs_override = "EPSG:32633";
   EXPECT_EQ(tw::read_dem(with_crs).grid.shape.cells(), 4U);
 
   const auto all_nodata = (tmp / "empty.tif").string();
   write_raster(all_nodata, 2, 1, utm_10m, 32633, {-1, -1}, -1.0);
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(same_datum(all_nodata)); }).find("every cell"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(same_datum(all_nodata)); }, "every cell");
 
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(same_datum((tmp / "missing.tif").string())); })
-                .find("GDAL cannot open the DEM"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(same_datum((tmp / "missing.tif").string())); },
+                 "GDAL cannot open the DEM");
 
   tw::DemSource unstated;
   unstated.path = all_nodata;
   write_raster(all_nodata, 2, 1, utm_10m, 32633, {1, 2});
-  EXPECT_NE(input_error([&] { (void)tw::read_dem(unstated); }).find("--same-datum"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::read_dem(unstated); }, "--same-datum");
 }
 
 TEST(TerrainSea, PolygonInAnotherCrsIsReprojected) {
@@ -174,8 +177,11 @@ TEST(TerrainSea, PolygonInAnotherCrsIsReprojected) {
   wgs.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
   std::unique_ptr<OGRCoordinateTransformation> ct(OGRCreateCoordinateTransformation(&utm, &wgs));
   std::string ring;
-  for (auto [x, y] : std::vector<std::pair<double, double>>{
-           {499990, 6000010}, {500010, 6000010}, {500010, 5999960}, {499990, 5999960}, {499990, 6000010}}) {
+  for (auto [x, y] : std::vector<std::pair<double, double>>{{499990, 6000010},
+                                                            {500010, 6000010},
+                                                            {500010, 5999960},
+                                                            {499990, 5999960},
+                                                            {499990, 6000010}}) {
     ct->Transform(1, &x, &y);
     ring += (ring.empty() ? "" : ",") + std::to_string(x) + " " + std::to_string(y);
   }
@@ -209,24 +215,20 @@ TEST(TerrainSea, PointsEdgesAndNodataAndTheirErrors) {
   point.points_xy = {{500025.0, 5999975.0}};  // centre of the bottom-right cell
   EXPECT_EQ(tw::find_sea_cells(dem, point, tw::Connectivity::four).is_sea[8], 1);
   point.points_xy = {{0.0, 0.0}};
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, point, tw::Connectivity::four); })
-                .find("outside the DEM"),
-            std::string::npos);
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, {}, tw::Connectivity::four); })
-                .find("no sea is given"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, point, tw::Connectivity::four); },
+                 "outside the DEM");
+  expect_refused([&] { (void)tw::find_sea_cells(dem, {}, tw::Connectivity::four); },
+                 "no sea is given");
   tw::SeaSource none;
   none.edge_at_or_below_m = -5.0;
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, none, tw::Connectivity::four); })
-                .find("no sea cell found"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, none, tw::Connectivity::four); },
+                 "no sea cell found");
   const auto far_path = (tmp / "far.gpkg").string();
   write_vector(far_path, "GPKG", 32633, {{"POLYGON((0 0,10 0,10 10,0 10,0 0))", {}}}, "");
   tw::SeaSource far;
   far.mask_path = far_path;
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, far, tw::Connectivity::four); })
-                .find("covers no cell of the DEM"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, far, tw::Connectivity::four); },
+                 "covers no cell of the DEM");
 }
 
 TEST(TerrainSea, SeaThatTouchesNoValidCellIsRefused) {
@@ -239,9 +241,8 @@ TEST(TerrainSea, SeaThatTouchesNoValidCellIsRefused) {
   const auto dem = tw::read_dem(src);
   tw::SeaSource sea;
   sea.points_xy = {{500005.0, 5999995.0}, {500005.0, 5999985.0}};
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, sea, tw::Connectivity::eight); })
-                .find("touches no valid land cell"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, sea, tw::Connectivity::eight); },
+                 "touches no valid land cell");
 }
 
 TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
@@ -253,8 +254,7 @@ TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
   const auto dem_path = (tmp / "dem.tif").string();
   write_raster(dem_path, 20, 20, utm_10m, 32633, std::vector<double>(400, 0.0));
   const auto wall_path = (tmp / "wall.gpkg").string();
-  write_vector(wall_path, "GPKG", 32633,
-               {{"LINESTRING(499990 6000010,500210 5999790)", 5.0}});
+  write_vector(wall_path, "GPKG", 32633, {{"LINESTRING(499990 6000010,500210 5999790)", 5.0}});
   tw::SeaSource sea;
   sea.points_xy = {{500005.0, 5999805.0}};
   const auto map = tw::prepare_flood_threshold(same_datum(dem_path), sea,
@@ -262,9 +262,9 @@ TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
                                                tw::Connectivity::eight);
   ASSERT_TRUE(map.defences);
   EXPECT_GE(map.defences->cells_raised, 20U);
-  EXPECT_EQ(map.threshold_m[19], 5.0F);  // top-right corner cell, behind the wall
+  EXPECT_EQ(map.threshold_m[19], 5.0F);             // top-right corner cell, behind the wall
   EXPECT_EQ(map.threshold_m[19 * 20 + 0], -inf_f);  // the sea cell
-  EXPECT_EQ(map.threshold_m[19 * 20 + 5], 0.0F);   // seaward of the wall
+  EXPECT_EQ(map.threshold_m[19 * 20 + 5], 0.0F);    // seaward of the wall
   std::size_t behind = 0;
   for (std::size_t r = 0; r < 20; ++r) {
     for (std::size_t c = r + 2; c < 20; ++c) behind += map.threshold_m[r * 20 + c] == 5.0F;
@@ -278,15 +278,20 @@ TEST(TerrainDefences, CrestAttributeMustExistAndBeSet) {
   write_raster(dem_path, 4, 4, utm_10m, 32633, std::vector<double>(16, 0.0));
   auto dem = tw::read_dem(same_datum(dem_path));
   const auto no_field = (tmp / "nofield.gpkg").string();
-  write_vector(no_field, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}}, "height");
-  EXPECT_NE(input_error([&] { (void)tw::burn_defences(dem, {no_field, "", "crest_m", false}); })
-                .find("no crest-level attribute 'crest_m' (its attributes: height, name)"),
-            std::string::npos);
+  write_vector(no_field, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}},
+               "height");
+  expect_refused(
+      [&] {
+        (void)tw::burn_defences(dem, {no_field, "", "crest_m", false});
+      },
+      "no crest-level attribute 'crest_m' (its attributes: height, name)");
   const auto unset = (tmp / "unset.gpkg").string();
   write_vector(unset, "GPKG", 32633, {{"LINESTRING(500000 6000000,500040 5999960)", {}}});
-  EXPECT_NE(input_error([&] { (void)tw::burn_defences(dem, {unset, "", "crest_m", false}); })
-                .find("has no value in 'crest_m'"),
-            std::string::npos);
+  expect_refused(
+      [&] {
+        (void)tw::burn_defences(dem, {unset, "", "crest_m", false});
+      },
+      "has no value in 'crest_m'");
 }
 
 TEST(TerrainAreas, GeographicCellsMatchTheEllipsoidalZoneFormula) {
@@ -365,17 +370,17 @@ TEST(TerrainMap, WritesEveryProductAndSummarisesByHand) {
             (std::vector<std::uint8_t>{3, 1, 0, 2, 0}));
   GDALDatasetUniquePtr aep(GDALDataset::Open((tmp / "out" / "aep.tif").c_str(), GDAL_OF_RASTER));
   std::vector<float> p(15);
-  ASSERT_EQ(aep->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, p.data(), 5, 3, GDT_Float32, 0,
-                                            0, nullptr),
+  ASSERT_EQ(aep->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 3, p.data(), 5, 3, GDT_Float32, 0, 0,
+                                            nullptr),
             CE_None);
   EXPECT_NEAR(p[3], -std::expm1(-std::exp(-(3.0 - 1.0) / 0.5)), 1e-7);  // the bowl: T = 3
   EXPECT_TRUE(std::isnan(p[0]));
-  GDALDatasetUniquePtr gpkg(GDALDataset::Open((tmp / "out" / "extent.gpkg").c_str(), GDAL_OF_VECTOR));
+  GDALDatasetUniquePtr gpkg(
+      GDALDataset::Open((tmp / "out" / "extent.gpkg").c_str(), GDAL_OF_VECTOR));
   ASSERT_TRUE(gpkg);
   EXPECT_EQ(gpkg->GetLayerByName("extent")->GetFeatureCount(), 3);  // beach, bowl; all land
   // Refused without force; replaced with it.
-  EXPECT_NE(input_error([&] { (void)tw::make_flood_maps(req); }).find("already exists"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::make_flood_maps(req); }, "already exists");
   req.force = true;
   req.levels.pop_back();
   EXPECT_EQ(tw::make_flood_maps(req).levels.size(), 1U);
@@ -430,11 +435,11 @@ TEST(TerrainSea, RasterMaskNonZeroCellsAreSea) {
   const auto sea = tw::find_sea_cells(dem, src, tw::Connectivity::four);
   EXPECT_EQ(sea.is_sea, (std::vector<std::uint8_t>{1, 0, 0, 1, 0, 0}));
   const auto far_path = (tmp / "far.tif").string();
-  write_raster(far_path, 2, 2, {100.0, 0.1, 0.0, -10.0, 0.0, -0.1}, 4326, {1, 1, 1, 1}, 0.0, GDT_Byte);
+  write_raster(far_path, 2, 2, {100.0, 0.1, 0.0, -10.0, 0.0, -0.1}, 4326, {1, 1, 1, 1}, 0.0,
+               GDT_Byte);
   src.mask_path = far_path;
-  EXPECT_NE(input_error([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); })
-                .find("covers no cell of the DEM"),
-            std::string::npos);
+  expect_refused([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); },
+                 "covers no cell of the DEM");
 }
 
 TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
@@ -456,7 +461,8 @@ TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
     const char* compression = ds->GetMetadataItem("COMPRESSION", "IMAGE_STRUCTURE");
     EXPECT_STREQ(layout, "COG") << f;
     EXPECT_STREQ(compression, "ZSTD") << f;
-    EXPECT_NE(std::string(ds->GetMetadataItem("TIDEWRIGHT_METHOD")).find("Barnes"), std::string::npos);
+    EXPECT_NE(std::string(ds->GetMetadataItem("TIDEWRIGHT_METHOD")).find("Barnes"),
+              std::string::npos);
   }
   std::size_t side_files = 0;
   for (const auto& e : std::filesystem::directory_iterator(tmp / "out")) {

@@ -48,7 +48,8 @@ std::vector<float> relaxation_reference(const Case& c, tw::Connectivity k) {
         float best = inf_f;
         for (int dy = -1; dy <= 1; ++dy) {
           for (int dx = -1; dx <= 1; ++dx) {
-            if ((dx == 0 && dy == 0) || (k == tw::Connectivity::four && dx != 0 && dy != 0)) continue;
+            if ((dx == 0 && dy == 0) || (k == tw::Connectivity::four && dx != 0 && dy != 0))
+              continue;
             const int nx = x + dx;
             const int ny = y + dy;
             if (nx < 0 || ny < 0 || nx >= cols || ny >= rows) continue;

@@ -32,7 +32,7 @@ TEST(Inundation, ClassifiesByThresholdThenElevation) {
 TEST(Inundation, DepthIsLevelMinusGroundOnConnectedLandOnly) {
   EXPECT_FLOAT_EQ(tw::flood_depth_m(0.25F, 0.5F, 1.5), 1.25F);
   EXPECT_FLOAT_EQ(tw::flood_depth_m(0.5F, 0.5F, 0.5), 0.0F);
-  EXPECT_TRUE(std::isnan(tw::flood_depth_m(0.2F, 3.0F, 1.0)));  // disconnected
+  EXPECT_TRUE(std::isnan(tw::flood_depth_m(0.2F, 3.0F, 1.0)));    // disconnected
   EXPECT_TRUE(std::isnan(tw::flood_depth_m(0.2F, -inf_f, 1.0)));  // sea
 }
 

@@ -94,7 +94,7 @@ struct LevelSummary {
 
 struct MapSummary {
   std::size_t cells = 0;
-  std::size_t valid_cells = 0;      // not nodata (sea cells included)
+  std::size_t valid_cells = 0;  // not nodata (sea cells included)
   std::size_t sea_cells = 0;
   std::size_t unreached_cells = 0;  // valid land no path of valid cells joins to the sea
   double lowest_threshold_m = 0.0;  // over finite thresholds

@@ -45,8 +45,7 @@ using RateFunction = std::function<double(double level_m)>;
 // with T. Default points: 4097 (about 2.5 mm spacing over 10 m; chosen here, not from a source).
 class AepLookup {
  public:
-  AepLookup(const RateFunction& rate, double lowest_m, double highest_m,
-            std::size_t points = 4097);
+  AepLookup(const RateFunction& rate, double lowest_m, double highest_m, std::size_t points = 4097);
   // P for a cell with threshold T: NaN for NaN (nodata) and for -inf (sea: no land AEP),
   // 0 for +inf (never reached), otherwise from the table (T clamped to the table's range).
   [[nodiscard]] float operator()(float threshold_m) const noexcept;
@@ -75,7 +74,9 @@ class FirstPassingYear {
                    double highest_m);
   [[nodiscard]] std::int16_t operator()(float threshold_m) const noexcept;
   // c_t per year: -inf when no land in range reaches p*, +inf when all of it does.
-  [[nodiscard]] const std::vector<double>& critical_levels_m() const noexcept { return critical_m_; }
+  [[nodiscard]] const std::vector<double>& critical_levels_m() const noexcept {
+    return critical_m_;
+  }
   [[nodiscard]] const std::vector<int>& years() const noexcept { return years_; }
 
  private:

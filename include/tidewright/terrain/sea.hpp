@@ -15,9 +15,9 @@
 namespace tidewright::terrain {
 
 struct SeaSource {
-  std::string mask_path;                        // vector (polygons) or raster; empty = none
+  std::string mask_path;                         // vector (polygons) or raster; empty = none
   std::vector<std::array<double, 2>> points_xy;  // in the DEM's CRS
-  std::optional<double> edge_at_or_below_m;     // above the water-level datum
+  std::optional<double> edge_at_or_below_m;      // above the water-level datum
   bool nodata_is_sea = false;
 };
 
