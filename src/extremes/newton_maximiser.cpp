@@ -61,6 +61,11 @@ MaximiserResult maximise_newton(const Objective& objective, ParamVector start,
         moved = true;
         break;
       }
+      // A full Newton step that predicts a rise below 1e-10 (1 + |l|) and is refused is lost
+      // in the rounding of the summed log-likelihood (about n eps max|term|): converged.
+      // Without this the search crept on with steps of 2^-7 forever (regression test:
+      // tests/extremes/fit_test.cpp, RoundingLevelRiseEndsTheSearch).
+      if (half == 0 && newton && rise < 1e-10 * scale) return r;
     }
     if (!moved) {
       if (newton && rise < 1e-10 * scale) return r;  // round-off floor reached
