@@ -4,6 +4,8 @@
 #include <sstream>
 
 #include "command.hpp"
+#include "plot_output.hpp"
+#include "tidewright/report/plots.hpp"
 #include "planning_options.hpp"
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/error.hpp"
@@ -19,7 +21,7 @@ struct AmplifyArgs {
   std::vector<double> periods;
   std::vector<double> levels;
   double frequency = 1.0;
-  std::string json, csv;
+  std::string json, csv, plot;
 };
 
 std::string period_text(double t) {
@@ -43,12 +45,15 @@ void configure(CLI::App& app, CommonOptions& common) {
       ->check(CLI::PositiveNumber);
   add_json_option(app, a->json);
   add_csv_option(app, a->csv);
+  app.add_option("--plot", a->plot, "Write the amplification factor of each level against year (.svg or .png)")
+      ->type_name("FILE");
   add_force_flag(app, common);
   add_quiet_flag(app, common);
 
   app.callback([a, &common] {
     if (!a->json.empty()) check_output_path(a->json, common.force, "--json");
     if (!a->csv.empty()) check_output_path(a->csv, common.force, "--csv");
+    if (!a->plot.empty()) check_plot_path(a->plot, common.force);
     std::vector<double> periods = a->periods;
     if (periods.empty() && a->levels.empty()) periods = {10.0, 100.0};
     for (double t : periods) {
@@ -121,6 +126,19 @@ void configure(CLI::App& app, CommonOptions& common) {
          "and datums.\n";
     if (!a->json.empty()) write_json_file(a->json, j, common.force, "--json");
     if (!a->csv.empty()) write_text_file(a->csv, csv.str(), common.force, "--csv");
+    if (!a->plot.empty()) {
+      std::vector<double> years;
+      for (int y = in.rise.years.front(); y <= in.rise.years.back(); ++y) years.push_back(y);
+      std::vector<report::NamedSeries> series;
+      for (const auto& target : targets) {
+        report::NamedSeries s{target.period_yr > 0 ? "today's " + report::fixed(target.period_yr, 0) + "-year level"
+                                                   : report::fixed(target.level_m, 2) + " m",
+                              {}};
+        for (const auto& cond : span) s.values.push_back(planning::amplification(in.fit.model, cond, target.level_m).amplification_factor);
+        series.push_back(std::move(s));
+      }
+      write_plot(report::amplification_plot(years, series), a->plot, common.force);
+    }
     if (!common.quiet) std::cout << o.str();
   });
 }

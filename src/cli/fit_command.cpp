@@ -3,6 +3,7 @@
 #include <sstream>
 
 #include "command.hpp"
+#include "plot_output.hpp"
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/record/mean_sea_level_trend.hpp"
@@ -86,6 +87,7 @@ void print_result(const study::FitStageResult& r, const FitArgs& a) {
   o << "Planning estimates of still water only; a licensed coastal engineer must review them "
        "against local codes and datums (tidewright --help lists the cautions).\n";
   if (!a.json.empty()) o << "Wrote " << a.json << "\n";
+  if (!a.plot.empty()) o << "Wrote " << a.plot << "\n";
   std::cout << o.str();
 }
 
@@ -139,7 +141,7 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.callback([args, &common] {
     const FitArgs& a = *args;
     if (!a.json.empty()) check_output_path(a.json, common.force, "--json");
-    if (!a.plot.empty()) check_output_path(a.plot, common.force, "--plot");
+    if (!a.plot.empty()) check_plot_path(a.plot, common.force);
     study::FitRequest req;
     req.input = a.input;
     req.kind = a.kind == "series" ? study::RecordKind::series
@@ -171,6 +173,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     req.seed = a.seed;
     const auto result = study::run_fit_stage(req);
     if (!a.json.empty()) write_json_file(a.json, study::fit_result_json(result), common.force, "--json");
+    if (!a.plot.empty()) write_plot(report::return_level_plot(study::return_level_plot_input(result)), a.plot, common.force);
     if (!common.quiet) print_result(result, a);
   });
 }

@@ -3,6 +3,7 @@
 #include <sstream>
 
 #include "command.hpp"
+#include "plot_output.hpp"
 #include "tidewright/climate/scenario.hpp"
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/csv.hpp"
@@ -25,7 +26,7 @@ struct ProjectArgs {
   double land_motion = 0.0, land_motion_sd = 0.0;
   bool list = false;
   unsigned long long seed = default_seed;
-  std::string json, csv, members;
+  std::string json, csv, members, plot;
 };
 
 climate::YearSpan parse_reference(const std::string& text) {
@@ -95,6 +96,8 @@ void configure(CLI::App& app, CommonOptions& common) {
   add_json_option(app, a->json);
   add_csv_option(app, a->csv);
   app.add_option("--members", a->members, "Write every member's path (CSV, docs/file-formats.md)")->type_name("FILE");
+  app.add_option("--plot", a->plot, "Write a fan chart of the total with the components (.svg or .png)")
+      ->type_name("FILE");
   add_force_flag(app, common);
   add_quiet_flag(app, common);
 
@@ -110,6 +113,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     for (const auto& [path, opt] : {std::pair{a->json, "--json"}, {a->csv, "--csv"}, {a->members, "--members"}}) {
       if (!path.empty()) check_output_path(path, common.force, opt);
     }
+    if (!a->plot.empty()) check_plot_path(a->plot, common.force);
     study::ProjectionRequest r;
     r.label = a->label;
     if (!a->pathway.empty()) {
@@ -148,6 +152,9 @@ void configure(CLI::App& app, CommonOptions& common) {
     if (!a->json.empty()) write_json_file(a->json, study::projection_json(result), common.force, "--json");
     if (!a->csv.empty()) write_text_file(a->csv, study::projection_csv(result), common.force, "--csv");
     if (!a->members.empty()) study::write_members_csv(a->members, result.local.total, common.force);
+    if (!a->plot.empty()) {
+      write_plot(report::projection_fan_chart(study::fan_chart_input(result, result.local.total)), a->plot, common.force);
+    }
     if (!common.quiet) print_result(result);
   });
 }

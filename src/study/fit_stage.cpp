@@ -1,5 +1,6 @@
 #include "tidewright/study/fit_stage.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <limits>
@@ -155,6 +156,28 @@ FitStageResult run_fit_stage(const FitRequest& request) {
     out.warnings.push_back("the fitted shape is above 0.5: a very heavy tail; long return levels are unreliable");
   }
   return out;
+}
+
+report::ReturnLevelPlotInput return_level_plot_input(const FitStageResult& fit, std::string* band_method) {
+  // One method for the whole band: the profile where every period has one, else the delta method.
+  const bool profile_complete = std::all_of(fit.profile.begin(), fit.profile.end(), [](const extremes::ReturnLevel& l) {
+    return !std::isnan(l.lower_m) && !std::isnan(l.upper_m);
+  });
+  if (band_method) *band_method = profile_complete ? "profile-likelihood" : "delta-method";
+  report::ReturnLevelPlotInput rlp;
+  rlp.datum = fit.datum;
+  rlp.model_name = fit.model + " fit";
+  if (fit.model != "gpd") {
+    for (const auto& p : fit.plot_points) rlp.annual_maxima_m.push_back(p.level_m);
+  }
+  for (std::size_t i = 0; i < fit.profile.size(); ++i) {
+    const auto& band = profile_complete ? fit.profile[i] : fit.delta[i];
+    rlp.return_period_yr.push_back(fit.profile[i].return_period_yr);
+    rlp.level_m.push_back(fit.profile[i].level_m);
+    rlp.lower_m.push_back(std::isfinite(band.lower_m) ? band.lower_m : std::numeric_limits<double>::quiet_NaN());
+    rlp.upper_m.push_back(std::isfinite(band.upper_m) ? band.upper_m : std::numeric_limits<double>::quiet_NaN());
+  }
+  return rlp;
 }
 
 nlohmann::ordered_json fit_result_json(const FitStageResult& r) {

@@ -215,6 +215,22 @@ nlohmann::ordered_json projection_json(const ProjectionStageResult& r) {
   return j;
 }
 
+report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const local::RiseEnsemble& t) {
+  report::FanChartInput fan;
+  fan.title = "Relative sea-level rise, " + t.scenario;
+  fan.baseline = "since " + t.reference;
+  for (int y : t.years) fan.years.push_back(y);
+  fan.q05_m = year_quantiles(t.rise_m, 0.05);
+  fan.q17_m = year_quantiles(t.rise_m, 0.17);
+  fan.q50_m = year_quantiles(t.rise_m, 0.50);
+  fan.q83_m = year_quantiles(t.rise_m, 0.83);
+  fan.q95_m = year_quantiles(t.rise_m, 0.95);
+  for (std::size_t k = 0; k < r.local.component_names.size(); ++k) {
+    fan.component_medians_m.push_back({r.local.component_names[k], year_quantiles(r.local.contribution_m[k], 0.5)});
+  }
+  return fan;
+}
+
 std::string projection_csv(const ProjectionStageResult& r) {
   const auto& total = r.local.total;
   std::vector<std::vector<double>> cols;

@@ -474,14 +474,6 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                    {{"Return period", "years"}, {"Level", level_unit}, {"Profile lower", level_unit},
                     {"Profile upper", level_unit}, {"Delta lower", level_unit}, {"Delta upper", level_unit}},
                    {}};
-  report::ReturnLevelPlotInput rlp;
-  rlp.datum = datum;
-  rlp.model_name = fit.model + " fit";
-  for (const auto& p : fit.plot_points) rlp.annual_maxima_m.push_back(p.level_m);
-  // One method for the whole band: the profile where every period has one, else the delta method.
-  const bool profile_complete = std::all_of(fit.profile.begin(), fit.profile.end(), [](const extremes::ReturnLevel& l) {
-    return !std::isnan(l.lower_m) && !std::isnan(l.upper_m);
-  });
   for (std::size_t i = 0; i < fit.profile.size(); ++i) {
     const auto& p = fit.profile[i];
     const auto& d = fit.delta[i];
@@ -490,35 +482,21 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     };
     rl.add_row({fixed(p.return_period_yr, 0), fixed(p.level_m, 2), end(p.lower_m), end(p.upper_m), end(d.lower_m),
                 end(d.upper_m)});
-    rlp.return_period_yr.push_back(p.return_period_yr);
-    rlp.level_m.push_back(p.level_m);
-    const auto& band = profile_complete ? p : d;
-    rlp.lower_m.push_back(std::isfinite(band.lower_m) ? band.lower_m : std::numeric_limits<double>::quiet_NaN());
-    rlp.upper_m.push_back(std::isfinite(band.upper_m) ? band.upper_m : std::numeric_limits<double>::quiet_NaN());
   }
+  std::string band_method;
+  const report::ReturnLevelPlotInput rlp = return_level_plot_input(fit, &band_method);
   evidence.blocks.emplace_back(rl);
   for (const auto& w : fit.warnings) evidence.blocks.emplace_back(report::Paragraph{"Warning: " + w + "."});
   evidence.blocks.emplace_back(report::Figure{"return_levels",
                                               std::string("Annual maxima at Gringorten plotting positions, the fitted curve "
                                                           "and its 95% ") +
-                                                  (profile_complete ? "profile-likelihood" : "delta-method") + " band.",
+                                                  band_method + " band.",
                                               report::return_level_plot(rlp)});
   evidence.blocks.emplace_back(report::Subheading{"Sea-level projections"});
   for (const auto& run : runs) {
     const auto& t = run.inputs.rise;
-    report::FanChartInput fan;
+    report::FanChartInput fan = fan_chart_input(run.projection, t);
     fan.title = "Relative sea-level rise, " + run.settings.name;
-    fan.baseline = "since " + t.reference;
-    for (int y : t.years) fan.years.push_back(y);
-    fan.q05_m = year_quantiles(t.rise_m, 0.05);
-    fan.q17_m = year_quantiles(t.rise_m, 0.17);
-    fan.q50_m = year_quantiles(t.rise_m, 0.50);
-    fan.q83_m = year_quantiles(t.rise_m, 0.83);
-    fan.q95_m = year_quantiles(t.rise_m, 0.95);
-    for (std::size_t k = 0; k < run.projection.local.component_names.size(); ++k) {
-      fan.component_medians_m.push_back({run.projection.local.component_names[k],
-                                         year_quantiles(run.projection.local.contribution_m[k], 0.5)});
-    }
     std::string name = "projection_" + run.settings.name;
     for (auto& ch : name) {
       if (!std::isalnum(static_cast<unsigned char>(ch)) && ch != '_' && ch != '-') ch = '_';

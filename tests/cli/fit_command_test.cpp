@@ -105,3 +105,16 @@ TEST(FitCommand, BadInputsAreOneLineExitTwo) {
   expect_one_line_error(run_cli("fit " + shell_quote(portpirie) + " --level-column level_m --model gpd"),
                         "needs a water-level series");
 }
+
+TEST(FitCommand, PlotIsWrittenAsSvgOrPng) {
+  TempDir dir;
+  const auto base = "fit " + shell_quote(portpirie) + " --level-column level_m --quiet --plot ";
+  ASSERT_EQ(run_cli(base + shell_quote((dir / "rl.png").string())).exit_code, 0);
+  EXPECT_EQ(read_all(dir / "rl.png").substr(1, 3), "PNG");
+  ASSERT_EQ(run_cli(base + shell_quote((dir / "rl.svg").string())).exit_code, 0);
+  const auto svg = read_all(dir / "rl.svg");
+  EXPECT_THAT(svg, HasSubstr("<svg"));
+  EXPECT_THAT(svg, HasSubstr("Return period (years)"));
+  expect_one_line_error(run_cli(base + shell_quote((dir / "rl.pdf").string())), "neither a .svg nor a .png");
+  EXPECT_FALSE(std::filesystem::exists(dir / "rl.pdf"));
+}

@@ -131,6 +131,9 @@ TEST(StageCommands, ProjectWritesContractAndMembersThatAllowanceReads) {
   EXPECT_EQ(e.member_count(), 200);
   EXPECT_EQ(e.years.front(), 2020);
   EXPECT_EQ(e.years.back(), 2100);
+  const auto plot = (dir / "fan.svg").string();
+  ASSERT_EQ(run_cli("project --pathway midway --samples 50 --last-year 2100 --quiet --plot " + shell_quote(plot)).exit_code, 0);
+  EXPECT_THAT(read_all(plot), HasSubstr("Median, total"));
   // The same seed gives the same bytes.
   const auto members2 = (dir / "m2.csv").string();
   ASSERT_EQ(run_cli("project --pathway midway --samples 200 --last-year 2100 --members " + shell_quote(members2) +

@@ -17,6 +17,7 @@
 #include "tidewright/record/block_maxima.hpp"
 #include "tidewright/record/peaks_over_threshold.hpp"
 #include "tidewright/record/read_options.hpp"
+#include "tidewright/report/plots.hpp"
 
 namespace tidewright::study {
 
@@ -55,6 +56,11 @@ struct FitStageResult {
 };
 
 [[nodiscard]] FitStageResult run_fit_stage(const FitRequest& request);
+
+// The return-level plot of a fit: the profile band where every period has one, else the delta
+// method's (`band_method` says which).
+[[nodiscard]] report::ReturnLevelPlotInput return_level_plot_input(const FitStageResult& result,
+                                                                   std::string* band_method = nullptr);
 
 // The JSON of `tidewright fit --json` (docs/file-formats.md).
 [[nodiscard]] nlohmann::ordered_json fit_result_json(const FitStageResult& result);

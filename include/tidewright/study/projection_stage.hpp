@@ -14,6 +14,7 @@
 #include "tidewright/climate/projection.hpp"
 #include "tidewright/local/relative_sea_level.hpp"
 #include "tidewright/local/rise_ensemble.hpp"
+#include "tidewright/report/plots.hpp"
 
 namespace tidewright::study {
 
@@ -48,6 +49,10 @@ struct ProjectionStageResult {
 inline const std::vector<double> summary_probabilities{0.05, 0.17, 0.50, 0.83, 0.95, 0.99};
 
 [[nodiscard]] nlohmann::ordered_json projection_json(const ProjectionStageResult& r);
+
+// Fan chart of the total (5/17/50/83/95 %) with the component medians. `total` may be a
+// re-referenced copy of r.local.total (the study measures rise from the record's epoch).
+[[nodiscard]] report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const local::RiseEnsemble& total);
 // "year,p05,p17,p50,p83,p95,p99,<component>_p50,..." one row per year.
 [[nodiscard]] std::string projection_csv(const ProjectionStageResult& r);
 
