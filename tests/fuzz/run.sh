@@ -7,7 +7,7 @@ root=$(cd "$(dirname "$0")/../.." && pwd)
 seconds=${1:-30}
 cd "$root"
 cmake --preset fuzz >/dev/null
-cmake --build --preset fuzz -j "$(nproc 2>/dev/null || echo 2)"
+cmake --build --preset fuzz -j "$(nproc 2>/dev/null || echo 2)" --target fuzz_targets
 status=0
 for src in tests/fuzz/*_fuzz.cpp; do
   name=$(basename "$src" .cpp)

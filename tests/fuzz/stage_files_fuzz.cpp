@@ -1,0 +1,35 @@
+// libFuzzer target: the files later stages read back (members CSV, fit JSON, quantile table)
+// on arbitrary bytes. Anything but an InputError is a bug.
+#include <unistd.h>
+
+#include <cstddef>
+#include <cstdint>
+#include <filesystem>
+#include <fstream>
+#include <string>
+
+#include "tidewright/common/error.hpp"
+#include "tidewright/local/quantile_table.hpp"
+#include "tidewright/study/stage_files.hpp"
+
+extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
+  static const std::filesystem::path file =
+      std::filesystem::temp_directory_path() / ("tidewright-fuzz-stage-" + std::to_string(::getpid()));
+  {
+    std::ofstream out(file, std::ios::binary | std::ios::trunc);
+    out.write(reinterpret_cast<const char*>(data), static_cast<std::streamsize>(size));
+  }
+  try {
+    (void)tidewright::study::read_members_csv(file);
+  } catch (const tidewright::InputError&) {
+  }
+  try {
+    (void)tidewright::study::read_fit_json(file);
+  } catch (const tidewright::InputError&) {
+  }
+  try {
+    (void)tidewright::local::parse_quantile_table(std::string(reinterpret_cast<const char*>(data), size), "fuzz.csv");
+  } catch (const tidewright::InputError&) {
+  }
+  return 0;
+}
