@@ -1,4 +1,5 @@
-// Model choice and goodness of fit. Glossary and sources: include/tidewright/extremes/diagnostics.hpp.
+// Model choice and goodness of fit. Glossary and sources:
+// include/tidewright/extremes/diagnostics.hpp.
 #include "tidewright/extremes/diagnostics.hpp"
 
 #include <algorithm>
@@ -42,18 +43,24 @@ AutoFit fit_annual_maxima_auto(std::span<const double> annual_maxima_m, double a
 
 double fitted_cdf(const FitResult& fit, double level_m) {
   switch (fit.family) {
-    case Family::gumbel: return cdf(Gumbel(fit.location(), fit.scale()), level_m);
-    case Family::gev: return cdf(Gev(fit.location(), fit.scale(), fit.shape()), level_m);
-    case Family::gpd: return cdf(Gpd(fit.threshold_m, fit.scale(), fit.shape()), level_m);
+    case Family::gumbel:
+      return cdf(Gumbel(fit.location(), fit.scale()), level_m);
+    case Family::gev:
+      return cdf(Gev(fit.location(), fit.scale(), fit.shape()), level_m);
+    case Family::gpd:
+      return cdf(Gpd(fit.threshold_m, fit.scale(), fit.shape()), level_m);
   }
   return 0.0;
 }
 
 double fitted_quantile(const FitResult& fit, double p) {
   switch (fit.family) {
-    case Family::gumbel: return quantile(Gumbel(fit.location(), fit.scale()), p);
-    case Family::gev: return quantile(Gev(fit.location(), fit.scale(), fit.shape()), p);
-    case Family::gpd: return quantile(Gpd(fit.threshold_m, fit.scale(), fit.shape()), p);
+    case Family::gumbel:
+      return quantile(Gumbel(fit.location(), fit.scale()), p);
+    case Family::gev:
+      return quantile(Gev(fit.location(), fit.scale(), fit.shape()), p);
+    case Family::gpd:
+      return quantile(Gpd(fit.threshold_m, fit.scale(), fit.shape()), p);
   }
   return 0.0;
 }
@@ -61,7 +68,8 @@ double fitted_quantile(const FitResult& fit, double p) {
 namespace {
 double fitted_sf(const FitResult& fit, double level_m) {
   switch (fit.family) {
-    case Family::gumbel: return cdf(complement(Gumbel(fit.location(), fit.scale()), level_m));
+    case Family::gumbel:
+      return cdf(complement(Gumbel(fit.location(), fit.scale()), level_m));
     case Family::gev:
       return cdf(complement(Gev(fit.location(), fit.scale(), fit.shape()), level_m));
     case Family::gpd:

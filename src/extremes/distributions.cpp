@@ -60,8 +60,8 @@ std::string number(double v) {
 
 void check_finite(std::string_view function, std::string_view parameter, double value) {
   if (!std::isfinite(value)) {
-    throw InputError(std::string(function), std::string(parameter) + " = " + number(value) +
-                                                " is not a finite number",
+    throw InputError(std::string(function),
+                     std::string(parameter) + " = " + number(value) + " is not a finite number",
                      "give a finite value");
   }
 }
@@ -153,7 +153,8 @@ ExpShape expm1_over_shape(double s, double xi) {
     r.d2a_dxi2 = s * s * s * a2;
     return r;
   }
-  // Closed forms: a = expm1(xi s)/xi; da/dxi = (s e^(xi s) - a)/xi; d2a/dxi2 = (s^2 e^(xi s) - 2 da/dxi)/xi.
+  // Closed forms: a = expm1(xi s)/xi; da/dxi = (s e^(xi s) - a)/xi; d2a/dxi2 = (s^2 e^(xi s) - 2
+  // da/dxi)/xi.
   const double e = std::exp(x);
   r.a = std::expm1(x) / xi;
   r.da_dxi = (s * e - r.a) / xi;

@@ -53,8 +53,9 @@ void finish(FitResult& f, const MaximiserResult& m, const std::string& what) {
   const ParamMatrix info = -m.at_estimate.hessian;
   Eigen::LLT<ParamMatrix> llt(info);
   if (llt.info() != Eigen::Success) {
-    throw ComputationError(what, "the observed information matrix at the maximum is not positive "
-                                 "definite",
+    throw ComputationError(what,
+                           "the observed information matrix at the maximum is not positive "
+                           "definite",
                            "the fit is not trustworthy; try a simpler model");
   }
   f.covariance = llt.solve(ParamMatrix::Identity(info.rows(), info.cols()));
@@ -102,25 +103,25 @@ double FitResult::parameter(const std::string& name) const {
   for (std::size_t i = 0; i < parameter_names.size(); ++i) {
     if (parameter_names[i] == name) return estimate(static_cast<Eigen::Index>(i));
   }
-  throw InputError("FitResult", "no parameter named " + name + " in a " +
-                                    std::string(family_name(family)) + " fit",
-                   "use one of the parameter_names");
+  throw InputError(
+      "FitResult",
+      "no parameter named " + name + " in a " + std::string(family_name(family)) + " fit",
+      "use one of the parameter_names");
 }
-double FitResult::location() const {
-  return family == Family::gpd ? threshold_m : estimate(0);
-}
+double FitResult::location() const { return family == Family::gpd ? threshold_m : estimate(0); }
 double FitResult::scale() const { return family == Family::gpd ? estimate(0) : estimate(1); }
 double FitResult::shape() const {
   switch (family) {
-    case Family::gumbel: return 0.0;
-    case Family::gev: return estimate(2);
-    case Family::gpd: return estimate(1);
+    case Family::gumbel:
+      return 0.0;
+    case Family::gev:
+      return estimate(2);
+    case Family::gpd:
+      return estimate(1);
   }
   return 0.0;
 }
-std::size_t FitResult::parameter_count() const {
-  return family == Family::gumbel ? 2 : 3;
-}
+std::size_t FitResult::parameter_count() const { return family == Family::gumbel ? 2 : 3; }
 
 StillWaterModel FitResult::model() const {
   StillWaterModel m;
@@ -183,15 +184,16 @@ FitResult fit_gev_r_largest(const std::vector<std::vector<double>>& largest_per_
   for (std::size_t i = 0; i < largest_per_year_m.size(); ++i) {
     std::vector<double> year = largest_per_year_m[i];
     if (year.empty()) {
-      throw InputError("fit_gev_r_largest", "year number " + std::to_string(i + 1) +
-                                                " holds no values",
+      throw InputError("fit_gev_r_largest",
+                       "year number " + std::to_string(i + 1) + " holds no values",
                        "give at least the annual maximum of every year");
     }
     for (double v : year) {
       if (!std::isfinite(v)) {
-        throw InputError("fit_gev_r_largest",
-                         "year number " + std::to_string(i + 1) + " holds a value that is not finite",
-                         "remove missing values before fitting");
+        throw InputError(
+            "fit_gev_r_largest",
+            "year number " + std::to_string(i + 1) + " holds a value that is not finite",
+            "remove missing values before fitting");
       }
     }
     std::sort(year.begin(), year.end(), std::greater<>());
@@ -213,8 +215,8 @@ FitResult fit_gpd(std::span<const double> exceedance_levels_m, double threshold_
                   double years_of_record, const FitOptions& options) {
   check_finite("fit_gpd", "threshold", threshold_m);
   if (!std::isfinite(years_of_record) || years_of_record <= 0.0) {
-    throw InputError("fit_gpd", "years of record = " + std::to_string(years_of_record) +
-                                    " must be > 0",
+    throw InputError("fit_gpd",
+                     "years of record = " + std::to_string(years_of_record) + " must be > 0",
                      "give the length of the record in years");
   }
   check_values("fit_gpd", exceedance_levels_m, min_values_gpd, "exceedances");
@@ -226,17 +228,18 @@ FitResult fit_gpd(std::span<const double> exceedance_levels_m, double threshold_
   std::vector<double> excess;
   for (double x : exceedance_levels_m) {
     if (x < threshold_m) {
-      throw InputError("fit_gpd", "level " + std::to_string(x) + " lies below the threshold " +
-                                      std::to_string(threshold_m),
-                       "pass only the exceedances of the threshold");
+      throw InputError(
+          "fit_gpd",
+          "level " + std::to_string(x) + " lies below the threshold " + std::to_string(threshold_m),
+          "pass only the exceedances of the threshold");
     }
     excess.push_back(x - threshold_m);
   }
   f.data.assign(exceedance_levels_m.begin(), exceedance_levels_m.end());
   f.n = f.data.size();
   const double k = static_cast<double>(f.n);
-  f.rate_per_yr = k / years_of_record;                                // Poisson ML estimate
-  f.rate_standard_error_per_yr = std::sqrt(k) / years_of_record;      // inverse information
+  f.rate_per_yr = k / years_of_record;                            // Poisson ML estimate
+  f.rate_standard_error_per_yr = std::sqrt(k) / years_of_record;  // inverse information
   const Objective obj = objective_for(f);
   ParamVector start;
   if (options.start) {

@@ -19,7 +19,8 @@ SampleLMoments sample_l_moments(std::span<const double> values) {
   }
   std::vector<double> x(values.begin(), values.end());
   std::sort(x.begin(), x.end());
-  // b_r = n^-1 sum_j [(j-1)...(j-r)]/[(n-1)...(n-r)] x_(j), ascending order (Hosking 1990, eq. 2.3).
+  // b_r = n^-1 sum_j [(j-1)...(j-r)]/[(n-1)...(n-r)] x_(j), ascending order (Hosking 1990,
+  // eq. 2.3).
   const double nd = static_cast<double>(n);
   double b0 = 0.0;
   double b1 = 0.0;
@@ -49,7 +50,7 @@ SampleLMoments sample_l_moments(std::span<const double> values) {
 StartValues gumbel_l_moment_estimates(std::span<const double> maxima) {
   const SampleLMoments m = sample_l_moments(maxima);
   StartValues s;
-  s.scale = m.l2 / boost::math::constants::ln_two<double>();               // Hosking 1990, Table 1
+  s.scale = m.l2 / boost::math::constants::ln_two<double>();              // Hosking 1990, Table 1
   s.location = m.l1 - boost::math::constants::euler<double>() * s.scale;  // Hosking 1990, Table 1
   return s;
 }
@@ -63,7 +64,8 @@ StartValues gev_l_moment_estimates(std::span<const double> maxima) {
   // HWW 1985, with a margin) so that Gamma(1 + k) stays finite.
   k = std::clamp(k, -0.9, 0.9);
   if (std::abs(k) < 1e-6) return gumbel_l_moment_estimates(maxima);
-  // sigma = l2 k / ((1 - 2^-k) Gamma(1 + k)); mu = l1 + sigma (Gamma(1 + k) - 1)/k (HWW 1985, eq. 15).
+  // sigma = l2 k / ((1 - 2^-k) Gamma(1 + k)); mu = l1 + sigma (Gamma(1 + k) - 1)/k (HWW 1985, eq.
+  // 15).
   const double g = boost::math::tgamma(1.0 + k);
   StartValues s;
   s.scale = m.l2 * k / (-std::expm1(-k * std::log(2.0)) * g);

@@ -129,8 +129,7 @@ LogLikelihood gev_log_likelihood(std::span<const double> maxima, double location
   return acc.result({0, 1, 2});
 }
 
-LogLikelihood gumbel_log_likelihood(std::span<const double> maxima, double location,
-                                    double scale) {
+LogLikelihood gumbel_log_likelihood(std::span<const double> maxima, double location, double scale) {
   if (!valid_scale(scale) || !std::isfinite(location)) return outside(2);
   Accumulator acc{location, scale, 0.0};
   for (double z : maxima) acc.add(z, 1.0, 1.0);
@@ -143,10 +142,10 @@ LogLikelihood gpd_log_likelihood(std::span<const double> levels, double threshol
   Accumulator acc{threshold, scale, shape};
   for (double x : levels) {
     if (x < threshold) {
-      throw InputError("gpd_log_likelihood", "level " + std::to_string(x) +
-                                                 " lies below the threshold " +
-                                                 std::to_string(threshold),
-                       "pass only the exceedances of the threshold");
+      throw InputError(
+          "gpd_log_likelihood",
+          "level " + std::to_string(x) + " lies below the threshold " + std::to_string(threshold),
+          "pass only the exceedances of the threshold");
     }
     acc.add(x, 1.0, 0.0);
   }
@@ -165,7 +164,8 @@ LogLikelihood gev_r_largest_log_likelihood(const std::vector<std::vector<double>
                        "give at least the annual maximum for every year");
     }
     const auto smallest = std::min_element(year.begin(), year.end());
-    for (auto it = year.begin(); it != year.end(); ++it) acc.add(*it, 1.0, it == smallest ? 1.0 : 0.0);
+    for (auto it = year.begin(); it != year.end(); ++it)
+      acc.add(*it, 1.0, it == smallest ? 1.0 : 0.0);
   }
   return acc.result({0, 1, 2});
 }

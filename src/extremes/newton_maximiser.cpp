@@ -34,8 +34,8 @@ MaximiserResult maximise_newton(const Objective& objective, ParamVector start,
       const auto& ev = eig.eigenvalues();
       const double floor_ev = 1e-8 * std::max(ev.cwiseAbs().maxCoeff(), 1e-300);
       const ParamVector absev = ev.cwiseAbs().cwiseMax(floor_ev);
-      step = eig.eigenvectors() *
-             (eig.eigenvectors().transpose() * cur.gradient).cwiseQuotient(absev);
+      step =
+          eig.eigenvectors() * (eig.eigenvectors().transpose() * cur.gradient).cwiseQuotient(absev);
     }
     const double rise = cur.gradient.dot(step);  // >= 0 for both kinds of step
     const double scale = 1.0 + std::abs(cur.value);
@@ -69,14 +69,15 @@ MaximiserResult maximise_newton(const Objective& objective, ParamVector start,
     }
     if (!moved) {
       if (newton && rise < 1e-10 * scale) return r;  // round-off floor reached
-      throw ComputationError(what, "the likelihood maximisation stalled after " +
-                                       std::to_string(it) + " iterations",
-                             "the maximum may lie on the edge of the parameter space; try "
-                             "another model or check the data");
+      throw ComputationError(
+          what, "the likelihood maximisation stalled after " + std::to_string(it) + " iterations",
+          "the maximum may lie on the edge of the parameter space; try "
+          "another model or check the data");
     }
   }
-  throw ComputationError(what, "the likelihood maximisation did not converge in " +
-                                   std::to_string(max_iterations) + " iterations",
+  throw ComputationError(what,
+                         "the likelihood maximisation did not converge in " +
+                             std::to_string(max_iterations) + " iterations",
                          "try another model or check the data");
 }
 

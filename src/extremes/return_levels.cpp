@@ -1,7 +1,8 @@
-// Return levels and their intervals. Glossary and sources: include/tidewright/extremes/return_levels.hpp
-// (T, p, y_p, z_T), fit.hpp (mu, sigma, xi, u, lambda_u). Further symbols here: s the argument
-// of a(xi) = expm1(xi s)/xi, so that z_T = mu + sigma a(xi) with s = -log y_p (annual maxima)
-// or z_T = u + sigma a(xi) with s = log(lambda_u T) (GPD); D = 2 (l_max - l_p) the deviance.
+// Return levels and their intervals. Glossary and sources:
+// include/tidewright/extremes/return_levels.hpp (T, p, y_p, z_T), fit.hpp (mu, sigma, xi, u,
+// lambda_u). Further symbols here: s the argument of a(xi) = expm1(xi s)/xi, so that z_T = mu +
+// sigma a(xi) with s = -log y_p (annual maxima) or z_T = u + sigma a(xi) with s = log(lambda_u T)
+// (GPD); D = 2 (l_max - l_p) the deviance.
 #include "tidewright/extremes/return_levels.hpp"
 
 #include <algorithm>
@@ -18,6 +19,7 @@
 #include "tidewright/common/error.hpp"
 #include "tidewright/extremes/distributions.hpp"
 #include "tidewright/extremes/newton_maximiser.hpp"
+#include "tidewright/extremes/sampling.hpp"
 
 namespace tidewright::extremes {
 namespace {
@@ -44,9 +46,10 @@ double level_argument(const FitResult& fit, double t) {
   if (fit.family == Family::gpd) {
     const double m = fit.rate_per_yr * t;  // expected exceedances in T years
     if (m <= 1.0) {
-      throw InputError("return period", "T = " + std::to_string(t) +
-                                            " years gives a level below the threshold (rate " +
-                                            std::to_string(fit.rate_per_yr) + " per year)",
+      throw InputError("return period",
+                       "T = " + std::to_string(t) +
+                           " years gives a level below the threshold (rate " +
+                           std::to_string(fit.rate_per_yr) + " per year)",
                        "ask for return periods longer than 1/rate or lower the threshold");
     }
     return std::log(m);
@@ -75,9 +78,12 @@ struct Profile {
 
   [[nodiscard]] LogLikelihood operator()(const ParamVector& q) const {
     switch (fit.family) {
-      case Family::gumbel: return gumbel(q);
-      case Family::gev: return gev(q);
-      case Family::gpd: return gpd(q);
+      case Family::gumbel:
+        return gumbel(q);
+      case Family::gev:
+        return gev(q);
+      case Family::gpd:
+        return gpd(q);
     }
     return gumbel(q);
   }
@@ -155,8 +161,8 @@ struct Profile {
     if (!(sl > 0.0) || !(d > 0.0)) return r;
     const ExpShape b = expm1_over_shape(sl, xi);
     const double e = std::exp(xi * sl);
-    // b and its derivatives in (lambda, xi): b_s = e^(xi s), b_ss = xi e^(xi s), b_sxi = s e^(xi s),
-    // s_lambda = 1/lambda, s_lambdalambda = -1/lambda^2.
+    // b and its derivatives in (lambda, xi): b_s = e^(xi s), b_ss = xi e^(xi s), b_sxi = s e^(xi
+    // s), s_lambda = 1/lambda, s_lambdalambda = -1/lambda^2.
     const double b_l = e / lambda;
     const double b_ll = (xi * e - e) / (lambda * lambda);
     const double b_lx = sl * e / lambda;
@@ -206,8 +212,10 @@ ParamVector nuisance_at_maximum(const FitResult& fit) {
       p << fit.scale();
       return p;
     }
-    case Family::gev: return vec2(fit.scale(), fit.shape());
-    case Family::gpd: return vec2(fit.rate_per_yr, fit.shape());
+    case Family::gev:
+      return vec2(fit.scale(), fit.shape());
+    case Family::gpd:
+      return vec2(fit.rate_per_yr, fit.shape());
   }
   return vec2(fit.scale(), fit.shape());
 }
@@ -284,8 +292,8 @@ double delta_se(const FitResult& fit, double t);
 // One end of the profile interval on side dir (-1 lower, +1 upper), by stepping outward until
 // the deviance passes the critical value and then TOMS 748 on the bracket. The fallback of
 // profile_end when Newton's method does not find the end (e.g. an unbounded side).
-double profile_end_bracketed(const FitResult& fit, double t, double z_hat, double se, double critical,
-                   int dir) {
+double profile_end_bracketed(const FitResult& fit, double t, double z_hat, double se,
+                             double critical, int dir) {
   const double l_max = full_maximum(fit);
   Profile prof{fit, fit.family == Family::gpd ? 0.0 : level_argument(fit, t), t, z_hat};
   ParamVector last = nuisance_at_maximum(fit);
@@ -314,8 +322,8 @@ double profile_end_bracketed(const FitResult& fit, double t, double z_hat, doubl
       double f_hi = dir > 0 ? f : f_prev;
       std::uintmax_t max_iter = 60;
       const auto root = boost::math::tools::toms748_solve(
-          deviance_minus_critical, lo, hi, f_lo, f_hi, boost::math::tools::eps_tolerance<double>(36),
-          max_iter);
+          deviance_minus_critical, lo, hi, f_lo, f_hi,
+          boost::math::tools::eps_tolerance<double>(36), max_iter);
       return 0.5 * (root.first + root.second);
     }
     z_prev = z;
@@ -326,14 +334,14 @@ double profile_end_bracketed(const FitResult& fit, double t, double z_hat, doubl
   return dir > 0 ? inf : -inf;
 }
 
-
 // One end of the profile interval: the root of sqrt(D(z)) = sqrt(critical) on side dir, by
 // Boost.Math's newton_raphson_iterate started at the delta-method end. The signed root of the
 // deviance is close to linear in z, so Newton converges in a few steps; its derivative is
 // -l_p'(z)/sqrt(D) with l_p' from the envelope theorem (Profile::level_derivative).
 double profile_end(const FitResult& fit, double t, double z_hat, double se, double critical,
                    int dir) {
-  if (!(std::isfinite(se) && se > 0.0)) return profile_end_bracketed(fit, t, z_hat, se, critical, dir);
+  if (!(std::isfinite(se) && se > 0.0))
+    return profile_end_bracketed(fit, t, z_hat, se, critical, dir);
   const double l_max = full_maximum(fit);
   const double target = std::sqrt(critical);
   Profile prof{fit, fit.family == Family::gpd ? 0.0 : level_argument(fit, t), t, z_hat};
@@ -380,9 +388,12 @@ double profile_end(const FitResult& fit, double t, double z_hat, double se, doub
 
 const char* interval_method_name(IntervalMethod method) {
   switch (method) {
-    case IntervalMethod::delta: return "delta";
-    case IntervalMethod::profile: return "profile";
-    case IntervalMethod::bootstrap: return "bootstrap";
+    case IntervalMethod::delta:
+      return "delta";
+    case IntervalMethod::profile:
+      return "profile";
+    case IntervalMethod::bootstrap:
+      return "bootstrap";
   }
   return "unknown";
 }
@@ -452,8 +463,7 @@ std::vector<ReturnLevel> return_levels_profile(const FitResult& fit,
                                                double confidence) {
   check_confidence(confidence);
   // chi-square_1 quantile: 3.841 at 95% (Coles 2001, sec. 2.6.5).
-  const double critical =
-      boost::math::quantile(boost::math::chi_squared(1.0), confidence);
+  const double critical = boost::math::quantile(boost::math::chi_squared(1.0), confidence);
   std::vector<ReturnLevel> out;
   for (double t : periods_yr) {
     ReturnLevel r;
@@ -469,12 +479,6 @@ std::vector<ReturnLevel> return_levels_profile(const FitResult& fit,
 }
 
 namespace {
-
-// Uniform in (0, 1) from the top 53 bits (never 0 or 1), independent of the library's
-// uniform_real_distribution.
-double uniform01(std::mt19937_64& rng) {
-  return (static_cast<double>(rng() >> 11) + 0.5) * 0x1p-53;
-}
 
 // Type-7 sample quantile of sorted values (Hyndman & Fan 1996, definition 7; R's default).
 double type7_quantile(const std::vector<double>& sorted, double p) {
@@ -512,7 +516,7 @@ BootstrapResult return_levels_bootstrap(const FitResult& fit, std::span<const do
         const auto k = static_cast<std::size_t>(count(rng));
         sample.resize(k);
         const Gpd d(fit.threshold_m, fit.scale(), fit.shape());
-        for (double& x : sample) x = quantile(d, uniform01(rng));
+        draw_into(d, sample, rng);
         if (k < min_values_gpd) throw ComputationError("bootstrap", "too few exceedances", "");
         try {
           refit = fit_gpd(sample, fit.threshold_m, fit.years_of_record, fo);
@@ -521,7 +525,7 @@ BootstrapResult return_levels_bootstrap(const FitResult& fit, std::span<const do
         }
       } else if (fit.family == Family::gev) {
         const Gev d(fit.location(), fit.scale(), fit.shape());
-        for (double& x : sample) x = quantile(d, uniform01(rng));
+        draw_into(d, sample, rng);
         try {
           refit = fit_gev(sample, fo);
         } catch (const ComputationError&) {
@@ -529,7 +533,7 @@ BootstrapResult return_levels_bootstrap(const FitResult& fit, std::span<const do
         }
       } else {
         const Gumbel d(fit.location(), fit.scale());
-        for (double& x : sample) x = quantile(d, uniform01(rng));
+        draw_into(d, sample, rng);
         refit = fit_gumbel(sample, fo);
       }
       std::vector<double> levels;
@@ -541,8 +545,9 @@ BootstrapResult return_levels_bootstrap(const FitResult& fit, std::span<const do
     }
   }
   if (out.failed_fits * 10 > options.samples) {
-    throw ComputationError("bootstrap", std::to_string(out.failed_fits) + " of " +
-                                            std::to_string(options.samples) + " refits failed",
+    throw ComputationError("bootstrap",
+                           std::to_string(out.failed_fits) + " of " +
+                               std::to_string(options.samples) + " refits failed",
                            "the fitted model is not stable enough for a bootstrap; use the "
                            "profile intervals");
   }

@@ -106,15 +106,17 @@ void peer(benchmark::State& state, const std::string& command, const std::string
 }
 
 void BM_ExtremesPeerEvdFgev(benchmark::State& state) {
-  peer(state, "Rscript " + std::string(TIDEWRIGHT_SOURCE_DIR) +
-                  "/tests/benchmarks/extremes_peer.R " + data_path + " 200",
+  peer(state,
+       "Rscript " + std::string(TIDEWRIGHT_SOURCE_DIR) + "/tests/benchmarks/extremes_peer.R " +
+           data_path + " 200",
        "fgev_seconds_per_fit");
 }
 BENCHMARK(BM_ExtremesPeerEvdFgev)->UseManualTime()->Iterations(1)->Unit(benchmark::kMicrosecond);
 
 void BM_ExtremesPeerScipyGenextreme(benchmark::State& state) {
-  peer(state, "/usr/bin/python3 " + std::string(TIDEWRIGHT_SOURCE_DIR) +
-                  "/tests/benchmarks/extremes_peer.py " + data_path + " 50",
+  peer(state,
+       "/usr/bin/python3 " + std::string(TIDEWRIGHT_SOURCE_DIR) +
+           "/tests/benchmarks/extremes_peer.py " + data_path + " 50",
        "genextreme_seconds_per_fit");
 }
 BENCHMARK(BM_ExtremesPeerScipyGenextreme)

@@ -11,25 +11,14 @@
 #include <vector>
 
 #include "tidewright/extremes/distributions.hpp"
+#include "tidewright/extremes/sampling.hpp"
 
 namespace tx = tidewright::extremes;
-
-namespace {
-
-template <class Dist>
-std::vector<double> draw(const Dist& d, std::size_t n, std::uint64_t seed) {
-  std::mt19937_64 rng(seed);
-  std::vector<double> v(n);
-  for (double& x : v) x = tx::quantile(d, (static_cast<double>(rng() >> 11) + 0.5) * 0x1p-53);
-  return v;
-}
-
-}  // namespace
 
 // Gringorten (1963): P_i = (i - 0.44)/(n + 0.12), i = 1 for the smallest; the model columns are
 // F(x_(i)) and F^-1(P_i).
 TEST(ExtremesDiagnostics, GringortenPlotPoints) {
-  const auto data = draw(tx::Gumbel(1.0, 0.1), 30, 31);
+  const auto data = tx::draw(tx::Gumbel(1.0, 0.1), 30, 31);
   const auto f = tx::fit_gumbel(data);
   const auto pts = tx::diagnostic_plot_points(f);
   ASSERT_EQ(pts.size(), 30U);
@@ -50,7 +39,7 @@ TEST(ExtremesDiagnostics, GringortenPlotPoints) {
 
 // Stephens (1974) eq. 2 evaluated here with Boost.Math's extreme_value cdf and complement.
 TEST(ExtremesDiagnostics, AndersonDarlingMatchesDirectEvaluation) {
-  const auto data = draw(tx::Gumbel(1.0, 0.1), 40, 32);
+  const auto data = tx::draw(tx::Gumbel(1.0, 0.1), 40, 32);
   const auto f = tx::fit_gumbel(data);
   const boost::math::extreme_value_distribution<double> b(f.location(), f.scale());
   std::vector<double> x = data;
@@ -74,7 +63,7 @@ TEST(ExtremesDiagnostics, AndersonDarlingMatchesDirectEvaluation) {
 // (xi = 0.3, n = 300: se(xi) ~ 0.05, so D is far beyond chi-square_1's 3.84) and the automatic
 // choice then keeps the GEV.
 TEST(ExtremesDiagnostics, AicAndAutomaticChoice) {
-  const auto data = draw(tx::Gev(10.0, 2.0, 0.3), 300, 33);
+  const auto data = tx::draw(tx::Gev(10.0, 2.0, 0.3), 300, 33);
   const auto g = tx::fit_gumbel(data);
   const auto e = tx::fit_gev(data);
   EXPECT_DOUBLE_EQ(tx::aic(g), 4.0 - 2.0 * g.log_likelihood);

@@ -38,8 +38,8 @@ TEST(ExtremesDistributions, GevMatchesClosedFormAwayFromZeroShape) {
       if (t <= 0.0) continue;
       const double tp = std::pow(t, -1.0 / xi);
       EXPECT_NEAR(tx::cdf(d, z), std::exp(-tp), 1e-14) << xi << " " << z;
-      EXPECT_NEAR(tx::pdf(d, z), std::pow(t, -1.0 / xi - 1.0) * std::exp(-tp) / 0.5,
-                  1e-13) << xi << " " << z;
+      EXPECT_NEAR(tx::pdf(d, z), std::pow(t, -1.0 / xi - 1.0) * std::exp(-tp) / 0.5, 1e-13)
+          << xi << " " << z;
     }
   }
   // Outside the support: below the lower end point (xi > 0) F = 0, above the upper (xi < 0) F = 1.
@@ -62,8 +62,7 @@ TEST(ExtremesDistributions, UpperTailKeepsRelativeAccuracy) {
   }
   EXPECT_LT(tx::cdf(tx::complement(d, 1000.0)), 1e-20);  // 101^-10: far below epsilon
   const tx::Gpd g(2.0, 0.3, -0.1);
-  EXPECT_NEAR(tx::cdf(tx::complement(g, 2.0 + 2.9)), std::pow(1.0 - 0.1 * 2.9 / 0.3, 10.0),
-              1e-15);
+  EXPECT_NEAR(tx::cdf(tx::complement(g, 2.0 + 2.9)), std::pow(1.0 - 0.1 * 2.9 / 0.3, 10.0), 1e-15);
 }
 
 TEST(ExtremesDistributions, QuantileRoundTrips) {
@@ -104,7 +103,8 @@ TEST(ExtremesDistributions, ShapeNearZeroIsContinuous) {
     const double f0 = tx::cdf(g, z);
     const double slope = -f0 * std::exp(-z) * z * z / 2.0;
     for (double xi : {1e-12, -1e-12}) {
-      EXPECT_NEAR(tx::cdf(tx::Gev(0.0, 1.0, xi), z) - f0, slope * xi, 1e-3 * std::abs(slope * xi) + 4e-16);
+      EXPECT_NEAR(tx::cdf(tx::Gev(0.0, 1.0, xi), z) - f0, slope * xi,
+                  1e-3 * std::abs(slope * xi) + 4e-16);
     }
     EXPECT_NEAR((tx::cdf(tx::Gev(0.0, 1.0, 1e-6), z) - f0) / 1e-6, slope, 1e-5);
     EXPECT_NEAR(tx::pdf(tx::Gev(0.0, 1.0, 1e-13), z), tx::pdf(g, z), 1e-12);
@@ -171,13 +171,14 @@ TEST(ExtremesDistributions, BadParametersThrowNamingTheParameter) {
   EXPECT_NE(message([] { (void)tx::Gev(0.0, 0.0, 0.1); }).find("scale = 0"), std::string::npos);
   EXPECT_NE(message([] { (void)tx::Gev(0.0, 1.0, std::nan("")); }).find("shape = nan"),
             std::string::npos);
-  EXPECT_NE(message([] { (void)tx::Gumbel(std::numeric_limits<double>::infinity(), 1.0); })
-                .find("location = inf"),
+  EXPECT_NE(message([] {
+              (void)tx::Gumbel(std::numeric_limits<double>::infinity(), 1.0);
+            }).find("location = inf"),
             std::string::npos);
   EXPECT_NE(message([] { (void)tx::Gpd(0.0, -2.0, 0.0); }).find("Gpd"), std::string::npos);
-  EXPECT_NE(message([] { (void)tx::quantile(tx::Gev(0.0, 1.0, 0.0), 1.5); })
-                .find("probability = 1.5"),
-            std::string::npos);
+  EXPECT_NE(
+      message([] { (void)tx::quantile(tx::Gev(0.0, 1.0, 0.0), 1.5); }).find("probability = 1.5"),
+      std::string::npos);
   EXPECT_THROW((void)tx::quantile(tx::complement(tx::Gpd(0.0, 1.0, 0.0), -0.1)),
                tidewright::InputError);
 }

@@ -127,7 +127,8 @@ TEST(ExtremesLikelihood, RLargestReducesToGevAndHasMatchingDerivatives) {
   const double xi = 0.2;
   const std::vector<std::vector<double>> one{{4.0, 3.7}};
   auto t = [&](double z) { return 1.0 + xi * (z - mu) / s; };
-  const double expect = -2.0 * std::log(s) - (1.0 + 1.0 / xi) * (std::log(t(4.0)) + std::log(t(3.7))) -
+  const double expect = -2.0 * std::log(s) -
+                        (1.0 + 1.0 / xi) * (std::log(t(4.0)) + std::log(t(3.7))) -
                         std::pow(t(3.7), -1.0 / xi);
   EXPECT_NEAR(tx::gev_r_largest_log_likelihood(one, mu, s, xi).value, expect, 1e-13);
 }

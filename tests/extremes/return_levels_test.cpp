@@ -11,18 +11,11 @@
 
 #include "tidewright/common/error.hpp"
 #include "tidewright/extremes/distributions.hpp"
+#include "tidewright/extremes/sampling.hpp"
 
 namespace tx = tidewright::extremes;
 
 namespace {
-
-template <class Dist>
-std::vector<double> sample(const Dist& d, std::size_t n, std::uint64_t seed) {
-  std::mt19937_64 rng(seed);
-  std::vector<double> v(n);
-  for (double& x : v) x = tx::quantile(d, (static_cast<double>(rng() >> 11) + 0.5) * 0x1p-53);
-  return v;
-}
 
 const double chi2_95 = boost::math::quantile(boost::math::chi_squared(1.0), 0.95);
 
@@ -31,20 +24,21 @@ const double chi2_95 = boost::math::quantile(boost::math::chi_squared(1.0), 0.95
 // Gumbel: z_T = mu - sigma log y_p, var = V_mumu + 2 s V_musigma + s^2 V_sigmasigma with
 // s = -log y_p (Coles 2001, sec. 3.3.3 with xi = 0).
 TEST(ExtremesReturnLevels, GumbelClosedForms) {
-  const auto f = tx::fit_gumbel(sample(tx::Gumbel(1.0, 0.1), 50, 21));
+  const auto f = tx::fit_gumbel(tx::draw(tx::Gumbel(1.0, 0.1), 50, 21));
   const std::vector<double> periods{2.0, 100.0};
   const auto rl = tx::return_levels_delta(f, periods);
   for (const auto& r : rl) {
     const double s = -std::log(-std::log1p(-1.0 / r.return_period_yr));
     EXPECT_NEAR(r.level_m, f.location() + f.scale() * s, 1e-14);
-    const double var = f.covariance(0, 0) + 2.0 * s * f.covariance(0, 1) + s * s * f.covariance(1, 1);
+    const double var =
+        f.covariance(0, 0) + 2.0 * s * f.covariance(0, 1) + s * s * f.covariance(1, 1);
     EXPECT_NEAR(r.standard_error_m, std::sqrt(var), 1e-14);
     EXPECT_NEAR(r.upper_m - r.level_m, 1.959963984540054 * r.standard_error_m, 1e-12);
   }
 }
 
 TEST(ExtremesReturnLevels, GevLevelIsTheUpperQuantile) {
-  const auto f = tx::fit_gev(sample(tx::Gev(1.0, 0.2, 0.1), 80, 22));
+  const auto f = tx::fit_gev(tx::draw(tx::Gev(1.0, 0.2, 0.1), 80, 22));
   for (double t : tx::standard_return_periods_yr) {
     EXPECT_NEAR(tx::return_level(f, t),
                 tx::quantile(tx::complement(tx::Gev(f.location(), f.scale(), f.shape()), 1.0 / t)),
@@ -57,10 +51,10 @@ TEST(ExtremesReturnLevels, GevLevelIsTheUpperQuantile) {
 TEST(ExtremesReturnLevels, ProfileEndsSitOnTheCriticalDeviance) {
   const std::vector<double> periods{10.0, 100.0};
   std::vector<std::vector<double>> years;
-  for (double z : sample(tx::Gev(1.0, 0.2, 0.05), 40, 23)) years.push_back({z, z - 0.07});
+  for (double z : tx::draw(tx::Gev(1.0, 0.2, 0.05), 40, 23)) years.push_back({z, z - 0.07});
   const tx::FitResult fits[] = {
-      tx::fit_gumbel(sample(tx::Gumbel(1.0, 0.1), 50, 24)),
-      tx::fit_gpd(sample(tx::Gpd(2.0, 0.25, 0.1), 120, 25), 2.0, 30.0),
+      tx::fit_gumbel(tx::draw(tx::Gumbel(1.0, 0.1), 50, 24)),
+      tx::fit_gpd(tx::draw(tx::Gpd(2.0, 0.25, 0.1), 120, 25), 2.0, 30.0),
       tx::fit_gev_r_largest(years),
   };
   for (const auto& f : fits) {
@@ -86,7 +80,7 @@ TEST(ExtremesReturnLevels, ProfileEndsSitOnTheCriticalDeviance) {
 // GPD delta method with the rate's variance: the gradient term in lambda adds to the variance
 // (Coles 2001, sec. 4.4.1), so the interval is wider than with the rate held fixed.
 TEST(ExtremesReturnLevels, GpdDeltaIncludesRateUncertainty) {
-  auto f = tx::fit_gpd(sample(tx::Gpd(2.0, 0.25, 0.1), 120, 26), 2.0, 30.0);
+  auto f = tx::fit_gpd(tx::draw(tx::Gpd(2.0, 0.25, 0.1), 120, 26), 2.0, 30.0);
   const std::vector<double> periods{100.0};
   const double with_rate = tx::return_levels_delta(f, periods)[0].standard_error_m;
   f.rate_standard_error_per_yr = 0.0;
@@ -102,7 +96,7 @@ TEST(ExtremesReturnLevels, GpdDeltaIncludesRateUncertainty) {
 // (both estimate the sampling spread of z_T; with 1000 draws the Monte Carlo error of the
 // standard deviation is about 2%, and for n = 200 the two should be within 15%).
 TEST(ExtremesReturnLevels, BootstrapIsSeededAndAgreesWithDelta) {
-  const auto f = tx::fit_gev(sample(tx::Gev(1.0, 0.2, 0.0), 200, 27));
+  const auto f = tx::fit_gev(tx::draw(tx::Gev(1.0, 0.2, 0.0), 200, 27));
   const std::vector<double> periods{10.0};
   tx::BootstrapOptions o;
   o.samples = 1000;
@@ -119,16 +113,18 @@ TEST(ExtremesReturnLevels, BootstrapIsSeededAndAgreesWithDelta) {
   EXPECT_NEAR(a.levels[0].standard_error_m / d.standard_error_m, 1.0, 0.15);
   EXPECT_LT(a.levels[0].lower_m, d.level_m);
   EXPECT_GT(a.levels[0].upper_m, d.level_m);
-  std::printf("[ bootstrap ] 10-year: delta se %.4f, bootstrap sd %.4f, interval [%.4f, %.4f], %zu failed\n",
-              d.standard_error_m, a.levels[0].standard_error_m, a.levels[0].lower_m,
-              a.levels[0].upper_m, a.failed_fits);
+  std::printf(
+      "[ bootstrap ] 10-year: delta se %.4f, bootstrap sd %.4f, interval [%.4f, %.4f], %zu "
+      "failed\n",
+      d.standard_error_m, a.levels[0].standard_error_m, a.levels[0].lower_m, a.levels[0].upper_m,
+      a.failed_fits);
 }
 
 TEST(ExtremesReturnLevels, BadPeriodsThrow) {
-  const auto f = tx::fit_gev(sample(tx::Gev(1.0, 0.2, 0.1), 40, 28));
+  const auto f = tx::fit_gev(tx::draw(tx::Gev(1.0, 0.2, 0.1), 40, 28));
   EXPECT_THROW((void)tx::return_level(f, 1.0), tidewright::InputError);
   EXPECT_THROW((void)tx::return_level(f, std::nan("")), tidewright::InputError);
-  const auto g = tx::fit_gpd(sample(tx::Gpd(2.0, 0.25, 0.1), 20, 29), 2.0, 40.0);  // 0.5 per year
+  const auto g = tx::fit_gpd(tx::draw(tx::Gpd(2.0, 0.25, 0.1), 20, 29), 2.0, 40.0);  // 0.5 per year
   EXPECT_THROW((void)tx::return_level(g, 1.5), tidewright::InputError);
   EXPECT_NO_THROW((void)tx::return_level(g, 3.0));
   const std::vector<double> periods{10.0};

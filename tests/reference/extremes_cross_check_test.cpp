@@ -97,10 +97,10 @@ class ExtremesCrossCheck : public ::testing::Test {
                            dir_.string() + "\"",
                        err, "r-base-core and r-cran-evd");
     if (setup_error_.empty()) {
-      setup_error_ = run(python + " \"" + source_dir +
-                             "/tests/reference/scripts/extremes_scipy.py\" fit \"" +
-                             dir_.string() + "\"",
-                         err, "python3-numpy and python3-scipy");
+      setup_error_ =
+          run(python + " \"" + source_dir + "/tests/reference/scripts/extremes_scipy.py\" fit \"" +
+                  dir_.string() + "\"",
+              err, "python3-numpy and python3-scipy");
     }
     if (setup_error_.empty()) {
       evd_ = read_results(dir_ / "evd_results.csv");
@@ -240,8 +240,10 @@ TEST_F(ExtremesCrossCheck, EvdDefaultSettingsStopShortOfTheMaximum) {
   const double g_there = there.gradient.norm();
   const double g_ours = f.log_likelihood_at(f.estimate).gradient.norm();
   EXPECT_GT(g_there, 1000.0 * g_ours);
-  std::printf("[ evd   ] default fgev: shape %.8f vs ours %.8f; loglik %.10f vs ours %.10f; |grad| %.2e vs %.2e\n",
-              d->shape, f.shape(), d->loglik, f.log_likelihood, g_there, g_ours);
+  std::printf(
+      "[ evd   ] default fgev: shape %.8f vs ours %.8f; loglik %.10f vs ours %.10f; |grad| %.2e vs "
+      "%.2e\n",
+      d->shape, f.shape(), d->loglik, f.log_likelihood, g_there, g_ours);
 }
 
 // Venice, r largest values per year (Coles 2001, sec. 3.5.3). r = 1 against fgev on the annual
@@ -262,7 +264,9 @@ TEST_F(ExtremesCrossCheck, VeniceRLargestAgreesWithIndependentImplementation) {
     const auto f = tx::fit_gev_r_largest(years, rr);
     expect_agree(f, r, "scipy");
     char cmd[1024];
-    std::snprintf(cmd, sizeof cmd, "%s \"%s/tests/reference/scripts/extremes_scipy.py\" rlargest-loglik \"%s\" %zu %.17g %.17g %.17g",
+    std::snprintf(cmd, sizeof cmd,
+                  "%s \"%s/tests/reference/scripts/extremes_scipy.py\" rlargest-loglik \"%s\" %zu "
+                  "%.17g %.17g %.17g",
                   python.c_str(), source_dir.c_str(), dir_.string().c_str(), rr, f.location(),
                   f.scale(), f.shape());
     FILE* pipe = popen(cmd, "r");

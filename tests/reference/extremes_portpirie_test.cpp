@@ -45,9 +45,10 @@ TEST(ExtremesPortPirie, GevFitMatchesColes341) {
   EXPECT_NEAR(f.standard_error(2), 0.098, 0.0005);
   EXPECT_NEAR(f.log_likelihood, 4.34, 0.005);
   EXPECT_EQ(f.n, 65U);
-  std::printf("[ portpirie ] GEV mu %.6f sigma %.6f xi %.6f se %.6f %.6f %.6f llh %.6f in %d iterations\n",
-              f.location(), f.scale(), f.shape(), f.standard_error(0), f.standard_error(1),
-              f.standard_error(2), f.log_likelihood, f.iterations);
+  std::printf(
+      "[ portpirie ] GEV mu %.6f sigma %.6f xi %.6f se %.6f %.6f %.6f llh %.6f in %d iterations\n",
+      f.location(), f.scale(), f.shape(), f.standard_error(0), f.standard_error(1),
+      f.standard_error(2), f.log_likelihood, f.iterations);
 }
 
 // Coles (2001) sec. 3.4.1: 10-year level 4.30 with delta-method 95% interval [4.19, 4.41];
@@ -89,7 +90,8 @@ TEST(ExtremesPortPirie, ProfileIntervalsMatchColes341) {
   // At each end the profile deviance equals the chi-square_1 95% quantile 3.841.
   for (const auto& r : rl) {
     for (double z : {r.lower_m, r.upper_m}) {
-      const double d = 2.0 * (f.log_likelihood - tx::profile_log_likelihood(f, r.return_period_yr, z));
+      const double d =
+          2.0 * (f.log_likelihood - tx::profile_log_likelihood(f, r.return_period_yr, z));
       EXPECT_NEAR(d, 3.841459, 1e-6);
     }
     std::printf("[ portpirie ] %4.0f-year level %.4f profile [%.4f, %.4f]\n", r.return_period_yr,

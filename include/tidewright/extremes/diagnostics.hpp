@@ -46,11 +46,11 @@ struct AutoFit {
 [[nodiscard]] double anderson_darling(const FitResult& fit);
 
 struct PlotPoint {
-  double level_m = 0.0;               // x_(i), ascending
-  double plotting_position = 0.0;     // P_i (Gringorten 1963)
-  double model_probability = 0.0;     // F(x_(i)): probability plot (P_i, F(x_(i)))
-  double model_level_m = 0.0;         // F^-1(P_i): quantile plot (F^-1(P_i), x_(i))
-  double return_period_yr = 0.0;      // empirical: 1/(1 - P_i) (GPD: 1/(lambda_u (1 - P_i)))
+  double level_m = 0.0;            // x_(i), ascending
+  double plotting_position = 0.0;  // P_i (Gringorten 1963)
+  double model_probability = 0.0;  // F(x_(i)): probability plot (P_i, F(x_(i)))
+  double model_level_m = 0.0;      // F^-1(P_i): quantile plot (F^-1(P_i), x_(i))
+  double return_period_yr = 0.0;   // empirical: 1/(1 - P_i) (GPD: 1/(lambda_u (1 - P_i)))
 };
 [[nodiscard]] std::vector<PlotPoint> diagnostic_plot_points(const FitResult& fit);
 

@@ -27,9 +27,9 @@ inline constexpr double small_shape_argument = 0.1;
 
 // log(1 + xi y)/xi and its first two derivatives in xi, stable as xi -> 0.
 struct ShapeTransform {
-  double w = 0.0;        // log1p(xi y)/xi
-  double dw_dxi = 0.0;   // d w / d xi
-  double d2w_dxi2 = 0.0; // d^2 w / d xi^2
+  double w = 0.0;         // log1p(xi y)/xi
+  double dw_dxi = 0.0;    // d w / d xi
+  double d2w_dxi2 = 0.0;  // d^2 w / d xi^2
 };
 [[nodiscard]] ShapeTransform shape_transform(double y, double xi);
 // log1p(xi y)/xi alone (y when xi = 0); -inf scaled: returns NaN outside 1 + xi y > 0.

@@ -47,13 +47,13 @@ struct FitResult {
   double rate_per_yr = 1.0;
   double rate_standard_error_per_yr = 0.0;
   // The data the fit used (for the profile likelihood, bootstrap and diagnostics).
-  std::vector<double> data;                       // maxima, or GPD exceedance levels
+  std::vector<double> data;                         // maxima, or GPD exceedance levels
   std::vector<std::vector<double>> data_r_largest;  // r-largest only
 
   [[nodiscard]] double parameter(const std::string& name) const;
   [[nodiscard]] double location() const;  // GPD: the threshold
   [[nodiscard]] double scale() const;
-  [[nodiscard]] double shape() const;     // 0 for Gumbel
+  [[nodiscard]] double shape() const;  // 0 for Gumbel
   // Number of free parameters (the GPD counts its rate: 3).
   [[nodiscard]] std::size_t parameter_count() const;
   // N_0(z) as the planning stage sees it.
@@ -63,8 +63,8 @@ struct FitResult {
 };
 
 struct FitOptions {
-  int max_iterations = 200;                // generous; Port Pirie takes about 5 (measured)
-  std::optional<ParamVector> start;        // instead of the L-moment estimates
+  int max_iterations = 200;          // generous; Port Pirie takes about 5 (measured)
+  std::optional<ParamVector> start;  // instead of the L-moment estimates
 };
 
 [[nodiscard]] FitResult fit_gumbel(std::span<const double> annual_maxima_m,
@@ -73,8 +73,9 @@ struct FitOptions {
                                 const FitOptions& options = {});
 // largest_per_year_m[i]: the r_i largest values of year i (any order); r > 0 keeps only the r
 // largest of each year (Coles 2001, sec. 3.5.3).
-[[nodiscard]] FitResult fit_gev_r_largest(const std::vector<std::vector<double>>& largest_per_year_m,
-                                          std::size_t r = 0, const FitOptions& options = {});
+[[nodiscard]] FitResult fit_gev_r_largest(
+    const std::vector<std::vector<double>>& largest_per_year_m, std::size_t r = 0,
+    const FitOptions& options = {});
 // exceedance_levels_m: declustered peaks above threshold_m (levels, not excesses);
 // years_of_record > 0 gives the rate lambda_u = k / years.
 [[nodiscard]] FitResult fit_gpd(std::span<const double> exceedance_levels_m, double threshold_m,

@@ -31,8 +31,8 @@ struct LogLikelihood {
 
 [[nodiscard]] LogLikelihood gev_log_likelihood(std::span<const double> maxima, double location,
                                                double scale, double shape);
-[[nodiscard]] LogLikelihood gumbel_log_likelihood(std::span<const double> maxima,
-                                                  double location, double scale);
+[[nodiscard]] LogLikelihood gumbel_log_likelihood(std::span<const double> maxima, double location,
+                                                  double scale);
 // levels: the exceedances themselves (x >= u, not the excesses x - u).
 [[nodiscard]] LogLikelihood gpd_log_likelihood(std::span<const double> levels, double threshold,
                                                double scale, double shape);
