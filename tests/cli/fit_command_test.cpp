@@ -9,6 +9,7 @@
 #include "tidewright/common/atomic_output.hpp"
 
 using tidewright::testing::count_lines;
+using tidewright::testing::expect_one_line_error;
 using tidewright::testing::read_all;
 using tidewright::testing::run_cli;
 using tidewright::testing::shell_quote;
@@ -19,12 +20,6 @@ using ::testing::StartsWith;
 namespace {
 const std::string portpirie = std::string(TIDEWRIGHT_SOURCE_DIR) + "/tests/reference/data/portpirie.csv";
 
-void expect_one_line_error(const tidewright::testing::CliResult& r, const std::string& part) {
-  EXPECT_EQ(r.exit_code, 2) << r.err;
-  EXPECT_THAT(r.err, StartsWith("tidewright: error: "));
-  EXPECT_THAT(r.err, HasSubstr(part));
-  EXPECT_EQ(count_lines(r.err), 1U) << r.err;
-}
 }  // namespace
 
 // Coles (2001) §3.4.1, Port Pirie annual maxima 1923-1987: mu 3.87, sigma 0.198, xi -0.050,

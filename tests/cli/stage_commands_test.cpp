@@ -14,6 +14,7 @@
 #include "tidewright/study/stage_files.hpp"
 
 using tidewright::testing::count_lines;
+using tidewright::testing::expect_one_line_error;
 using tidewright::testing::read_all;
 using tidewright::testing::run_cli;
 using tidewright::testing::shell_quote;
@@ -22,12 +23,6 @@ using ::testing::HasSubstr;
 using ::testing::StartsWith;
 
 namespace {
-void expect_one_line_error(const tidewright::testing::CliResult& r, const std::string& part) {
-  EXPECT_EQ(r.exit_code, 2) << r.err;
-  EXPECT_THAT(r.err, StartsWith("tidewright: error: "));
-  EXPECT_THAT(r.err, HasSubstr(part));
-  EXPECT_EQ(count_lines(r.err), 1U) << r.err;
-}
 
 // A Gumbel fit JSON and members drawn as mu + sigma * z for fixed normal scores, so the
 // allowance has Hunter's closed form over the members: A = lambda ln mean(exp(Delta_i/lambda)).

@@ -1,6 +1,8 @@
 // Runs the built tidewright executable for command-line tests and captures what it prints.
 #pragma once
 
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
 #include <sys/wait.h>
 
 #include <array>
@@ -78,6 +80,14 @@ inline std::size_t count_lines(const std::string& s) {
   std::size_t n = 0;
   for (char c : s) n += (c == '\n');
   return n;
+}
+
+// The command-line error convention: exit 2, one line "tidewright: error: ..." holding `part`.
+inline void expect_one_line_error(const CliResult& r, const std::string& part) {
+  EXPECT_EQ(r.exit_code, 2) << r.err;
+  EXPECT_THAT(r.err, ::testing::StartsWith("tidewright: error: "));
+  EXPECT_THAT(r.err, ::testing::HasSubstr(part));
+  EXPECT_EQ(count_lines(r.err), 1U) << r.err;
 }
 
 }  // namespace tidewright::testing
