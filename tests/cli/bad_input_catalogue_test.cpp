@@ -2,7 +2,8 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
-#include <regex>
+#include <algorithm>
+#include <cctype>
 #include <sstream>
 
 #include "support/run_cli.hpp"
@@ -51,19 +52,30 @@ std::string between_backticks(const std::string& cell) {
 std::vector<Case> catalogue() {
   std::istringstream in(read_all(std::string(TIDEWRIGHT_SOURCE_DIR) + "/docs/bad-inputs.md"));
   std::vector<Case> cases;
-  const std::regex row(R"(^\| (\d+) \| (.*) \| (.*) \| (\d) \| (.*) \|$)");
   for (std::string line; std::getline(in, line);) {
-    std::smatch m;
-    if (!std::regex_match(line, m, row)) continue;
+    // A data row: "| N | command | input | exit | message |" (cells hold no " | ").
+    if (line.size() < 4 || line.rfind("| ", 0) != 0 || line.compare(line.size() - 2, 2, " |") != 0) continue;
+    std::vector<std::string> cells;
+    const std::string body = line.substr(2, line.size() - 4);
+    for (std::size_t start = 0;;) {
+      const auto bar = body.find(" | ", start);
+      cells.push_back(body.substr(start, bar == std::string::npos ? std::string::npos : bar - start));
+      if (bar == std::string::npos) break;
+      start = bar + 3;
+    }
+    if (cells.size() != 5 || cells[0].empty() ||
+        !std::all_of(cells[0].begin(), cells[0].end(), [](char ch) { return std::isdigit(static_cast<unsigned char>(ch)); })) {
+      continue;
+    }
     Case c;
-    c.id = m[1];
-    c.command = between_backticks(m[2]);
-    const std::string input = between_backticks(m[3]);
+    c.id = cells[0];
+    c.command = between_backticks(cells[1]);
+    const std::string input = between_backticks(cells[2]);
     if (input == "(none)") c.has_input = false;
     else if (input == "(empty)") c.input.clear();
     else c.input = unescape(input);
-    c.exit_code = std::stoi(m[4]);
-    c.message = between_backticks(m[5]);
+    c.exit_code = std::stoi(cells[3]);
+    c.message = between_backticks(cells[4]);
     cases.push_back(c);
   }
   return cases;
