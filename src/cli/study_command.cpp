@@ -85,6 +85,9 @@ void configure_demo(CLI::App& app, CommonOptions& common) {
     demo::DemoOptions options;
     options.small = *small;
     options.force = true;
+    // 2.5 m cells: 2,400 x 1,800 = 4.3 million cells, the "few million" of the demo's design
+    // (demo_coast/README.md); the small variant keeps its 20 m cells.
+    options.dem_cell_size_m = *small ? 0.0 : 2.5;
     const auto inputs = demo::write_demo_inputs(dir / "inputs", *seed, options);
     if (!common.quiet) std::cout << inputs.summary_text() << std::endl;
     const auto config = study::load_site_file(inputs.site_toml);

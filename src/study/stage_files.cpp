@@ -123,7 +123,8 @@ FitSummary read_fit_json(const std::filesystem::path& file) {
   nlohmann::json j;
   try {
     j = nlohmann::json::parse(in);
-  } catch (const nlohmann::json::parse_error& e) {
+  } catch (const nlohmann::json::exception& e) {
+    // parse_error, and out_of_range for numbers beyond double (found by tests/fuzz).
     throw InputError(file.string(), std::string("is not valid JSON (") + e.what() + ")",
                      "give the --json output of 'tidewright fit'");
   }

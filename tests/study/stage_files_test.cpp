@@ -74,4 +74,8 @@ TEST(StageFiles, FitJsonErrors) {
   EXPECT_THROW((void)study::read_fit_json(dir / "b.json"), InputError);
   tidewright::write_text_file(dir / "c.json", R"({"present_day_model": {"family": "gpd", "scale_m": 0.1}})", false);
   EXPECT_THROW((void)study::read_fit_json(dir / "c.json"), InputError);
+  // Regression: a number beyond double made the JSON parser throw out_of_range, which escaped
+  // as an internal error (found by tests/fuzz/stage_files_fuzz.cpp).
+  tidewright::write_text_file(dir / "d.json", R"({"present_day_model": {"scale_m": 1e999}})", false);
+  EXPECT_THROW((void)study::read_fit_json(dir / "d.json"), InputError);
 }
