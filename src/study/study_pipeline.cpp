@@ -328,7 +328,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
 
   // --- maps ---------------------------------------------------------------------------------
   Json maps_json;
-  std::vector<report::Figure> map_figures;
+  std::string extent_title = "Flood extent";
   report::Table map_table{"flooded_areas",
                           "Land reached by the sea (connected) and low-lying land it does not reach, per mapped level.",
                           {{"Level", level_unit}, {"Year", ""}, {"Scenario", ""}, {"Flooded area", "ha"},
@@ -393,6 +393,11 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     m.command_line = o.command;
     for (const auto& s : report::safety_cautions()) m.cautions.emplace_back(s);
     const auto ms = terrain::make_flood_maps(m);
+    if (!m.levels.empty()) {
+      const auto& last = m.levels.back();
+      extent_title = "Flood extent at " + fixed(last.level_m, 2) + " m (" + last.scenario +
+                     (last.year ? ", " + std::to_string(*last.year) : std::string()) + ")";
+    }
     Json levels = Json::array();
     for (const auto& l : ms.levels) {
       map_table.add_row({fixed(l.level.level_m, 2), l.level.year ? std::to_string(*l.level.year) : "today",
@@ -520,7 +525,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     if (std::filesystem::exists(extent_path)) {
       auto view = read_raster_for_view(extent_path, cell, -1);
       report::CategoricalMapInput cm;
-      cm.title = "Flood extent, last mapped level";
+      cm.title = extent_title;
       cm.raster = view;
       evidence.blocks.emplace_back(report::Figure{"map_extent", "Extent at the highest mapped level (band of extent.tif).",
                                                   report::categorical_map(cm)});
