@@ -29,16 +29,6 @@ struct ProjectArgs {
   std::string json, csv, members, plot;
 };
 
-climate::YearSpan parse_reference(const std::string& text) {
-  const auto dash = text.find('-');
-  const auto a = parse_finite_double(text.substr(0, dash));
-  const auto b = dash == std::string::npos ? a : parse_finite_double(text.substr(dash + 1));
-  if (!a || !b || *a != std::floor(*a) || *b != std::floor(*b) || *b < *a) {
-    throw InputError("--reference", "is '" + text + "'", "give a year (2020) or a period (1995-2014)");
-  }
-  return {static_cast<int>(*a), static_cast<int>(*b)};
-}
-
 void print_result(const study::ProjectionStageResult& r) {
   const auto& t = r.local.total;
   std::ostringstream o;
@@ -138,7 +128,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     r.last_year = a->last_year;
     r.members = a->samples;
     r.seed = a->seed;
-    r.reference = parse_reference(a->reference);
+    r.reference = study::parse_reference_span(a->reference, "--reference");
     for (const auto& f : a->fingerprints) {
       const auto eq = f.find('=');
       const auto v = eq == std::string::npos ? std::nullopt : parse_finite_double(f.substr(eq + 1));

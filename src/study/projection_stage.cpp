@@ -101,6 +101,14 @@ nlohmann::ordered_json quantile_block(const Eigen::MatrixXd& m, const std::vecto
 
 }  // namespace
 
+climate::YearSpan parse_reference_span(const std::string& text, const std::string& where) {
+  int a = 0, b = 0;
+  char extra = 0;
+  if (std::sscanf(text.c_str(), "%d-%d%c", &a, &b, &extra) == 2 && b >= a) return {a, b};
+  if (std::sscanf(text.c_str(), "%d%c", &a, &extra) == 1) return {a, a};
+  throw InputError(where, "is '" + text + "'", "give a year (2020) or a period (1995-2014)");
+}
+
 std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p) {
   std::vector<double> out;
   out.reserve(static_cast<std::size_t>(members_by_year.cols()));

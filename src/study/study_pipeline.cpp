@@ -100,11 +100,7 @@ ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings
   r.last_year = c.projection.end_year;
   r.members = c.projection.members;
   r.seed = c.seed + index;  // each scenario its own stream, reproducible
-  int a = 0, b = 0;
-  if (std::sscanf(c.projection.reference.c_str(), "%d-%d", &a, &b) == 2) r.reference = {a, b};
-  else if (std::sscanf(c.projection.reference.c_str(), "%d", &a) == 1) r.reference = {a, a};
-  else throw InputError(field_location(c.file.string(), "projection.reference"), "is '" + c.projection.reference + "'",
-                        "give a year (2020) or a period (1995-2014)");
+  r.reference = parse_reference_span(c.projection.reference, field_location(c.file.string(), "projection.reference"));
   if (r.source != ScenarioSource::table) {
     r.local.fingerprint = c.local.fingerprints;
     r.local.land_motion.uplift_mm_per_yr = c.local.land_motion_mm_per_yr;

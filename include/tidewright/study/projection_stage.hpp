@@ -43,6 +43,9 @@ struct ProjectionStageResult {
 
 [[nodiscard]] ProjectionStageResult run_projection_stage(const ProjectionRequest& request);
 
+// "2020" or "1995-2014" as a span of years; InputError at `where` otherwise.
+[[nodiscard]] climate::YearSpan parse_reference_span(const std::string& text, const std::string& where);
+
 // Per-year quantiles, type 7 (Hyndman & Fan 1996), of a members x years matrix.
 [[nodiscard]] std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p);
 
