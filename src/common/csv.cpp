@@ -67,6 +67,12 @@ std::optional<double> parse_finite_double(std::string_view text) {
   return value;
 }
 
+std::optional<int> whole_year(std::optional<double> value) {
+  constexpr double kYearLimit = 1e6;  // far beyond any record or projection; keeps the int cast defined
+  if (!value || *value != std::floor(*value) || std::abs(*value) > kYearLimit) return std::nullopt;
+  return static_cast<int>(*value);
+}
+
 bool MissingValues::is_marker(std::string_view cell) const {
   const std::string t = trim(cell);
   return std::any_of(markers.begin(), markers.end(),

@@ -103,12 +103,12 @@ QuantileTable table_from_csv(const CsvTable& csv) {
   std::vector<double> row_values(cols.size());
   for (std::size_t r = 0; r < csv.rows().size(); ++r) {
     const CsvRow& row = csv.rows()[r];
-    const auto year = csv.number(row, year_col);
-    if (!year || *year != std::floor(*year) || std::abs(*year) > 1e6) {
+    const auto year = whole_year(csv.number(row, year_col));
+    if (!year) {
       throw InputError(csv.where(row), "the year '" + row.cells[year_col] + "' is not a whole year",
                        "give the year as an integer, e.g. 2100");
     }
-    const int y = static_cast<int>(*year);
+    const int y = *year;
     if (!t.years.empty() && y <= t.years.back()) {
       throw InputError(csv.where(row), "year " + std::to_string(y) + " does not come after " +
                                            std::to_string(t.years.back()),

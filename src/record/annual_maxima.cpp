@@ -29,14 +29,14 @@ AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
     ++am.cleaning.rows_read;
     const std::string& year_cell = row.cells[year_col];
     const auto year_value =
-        options.missing.is_marker(year_cell) ? std::nullopt : parse_finite_double(year_cell);
-    if (!year_value || *year_value != std::round(*year_value) || std::abs(*year_value) > 1e6) {
+        whole_year(options.missing.is_marker(year_cell) ? std::nullopt : parse_finite_double(year_cell));
+    if (!year_value) {
       throw InputError(table.where(row),
                        "column '" + table.header()[year_col] + "' holds '" + year_cell +
                            "', which is not a whole year",
                        "write the year as an integer such as 1987");
     }
-    const int year = static_cast<int>(*year_value);
+    const int year = *year_value;
     if (const auto seen = line_of_year.find(year); seen != line_of_year.end()) {
       throw InputError(table.where(row),
                        "year " + std::to_string(year) + " is given twice (lines " +

@@ -33,12 +33,12 @@ Columns read_year_columns(const std::filesystem::path& path, const std::vector<s
   MissingValues none;
   none.markers = {};
   for (const auto& row : t.rows()) {
-    const auto y = t.number(row, year_col, none);
-    if (!y || *y != std::floor(*y)) {
+    const auto y = whole_year(t.number(row, year_col, none));
+    if (!y) {
       throw InputError(t.where(row), "the year '" + row.cells[year_col] + "' is not a whole number",
                        "give whole years");
     }
-    out.years.push_back(static_cast<int>(*y));
+    out.years.push_back(*y);
     for (std::size_t c = 0; c < cols.size(); ++c) {
       if (!cols[c]) continue;
       const auto v = t.number(row, *cols[c], none);

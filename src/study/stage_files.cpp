@@ -75,16 +75,16 @@ local::RiseEnsemble read_members_csv(const std::filesystem::path& file) {
                      "give the --members output of 'tidewright project'");
   }
   for (std::size_t c = 1; c < header.size(); ++c) {
-    const auto y = parse_finite_double(header[c]);
-    if (!y || *y != std::floor(*y)) {
+    const auto y = whole_year(parse_finite_double(header[c]));
+    if (!y) {
       throw InputError(location(file.string(), table.header_line()), "column '" + header[c] + "' is not a year",
                        "give whole years as column names");
     }
-    if (!e.years.empty() && static_cast<int>(*y) <= e.years.back()) {
+    if (!e.years.empty() && *y <= e.years.back()) {
       throw InputError(location(file.string(), table.header_line()), "years are not strictly ascending",
                        "sort the year columns");
     }
-    e.years.push_back(static_cast<int>(*y));
+    e.years.push_back(*y);
   }
   if (table.rows().empty()) {
     throw InputError(file.string(), "holds no members", "give a file with at least one member row");

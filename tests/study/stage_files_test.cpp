@@ -6,6 +6,7 @@
 
 #include "support/run_cli.hpp"
 #include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
 
 using tidewright::InputError;
@@ -43,6 +44,23 @@ TEST(StageFiles, MembersFileErrorsNameTheLine) {
   } catch (const InputError& err) {
     EXPECT_THAT(std::string(err.what()), HasSubstr("n.csv:2: column '2030' holds 'x'"));
   }
+}
+
+// Found by tests/fuzz/stage_files_fuzz.cpp: a year column "2E20" was cast to int (undefined).
+TEST(StageFiles, YearBeyondAnyCalendarIsBadInput) {
+  TempDir dir;
+  tidewright::write_text_file(dir / "m.csv", "member,2E20,2021\n1,0.1,0.2\n", false);
+  try {
+    (void)study::read_members_csv(dir / "m.csv");
+    FAIL();
+  } catch (const InputError& err) {
+    EXPECT_THAT(std::string(err.what()), HasSubstr("column '2E20' is not a year"));
+  }
+  EXPECT_EQ(tidewright::whole_year(2100.0), 2100);
+  EXPECT_EQ(tidewright::whole_year(-1e6), -1000000);
+  EXPECT_FALSE(tidewright::whole_year(2e20).has_value());
+  EXPECT_FALSE(tidewright::whole_year(2100.5).has_value());
+  EXPECT_FALSE(tidewright::whole_year(std::nullopt).has_value());
 }
 
 TEST(StageFiles, FitJsonGivesTheModel) {
