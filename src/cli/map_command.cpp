@@ -1,9 +1,10 @@
 // tidewright map: flood-threshold, extent, depth, AEP and first-year rasters from a DEM.
 // Parsing and printing only; the work is terrain::make_flood_maps.
 //
-// Interim (until the planning stage's N_t(z) is wired in by the study): levels are explicit
-// (--level), the AEP raster uses a present-day still-water model given on the command line or
-// as a small JSON file, and future years shift it by a stated deterministic rise (--rise).
+// Levels are explicit (--level) or the T-year levels of today and of projected years; the AEP
+// rasters use the fit's present-day model and, for future years, the planning stage's
+// N_t(z) = E[N_0(z - Delta_t)] over the projection members (study/map_layers), or a stated
+// deterministic rise (--rise) where the user has one number per year.
 #include <cpl_error.h>
 #include <gdal.h>
 
@@ -15,10 +16,14 @@
 #include <nlohmann/json.hpp>
 
 #include "command.hpp"
+#include "planning_options.hpp"
+#include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/report/cautions.hpp"
 #include "tidewright/report/text_table.hpp"
+#include "tidewright/study/map_layers.hpp"
+#include "tidewright/study/stage_files.hpp"
 #include "tidewright/terrain/flood_map.hpp"
 
 namespace tidewright::cli {
@@ -52,6 +57,10 @@ struct MapOptions {
   std::vector<double> gpd;
   std::string model_json;
   std::vector<std::string> rises;
+  PlanningArgs planning;
+  std::vector<int> years;
+  std::vector<double> return_periods_yr;
+  int first_year_step = study::kFirstYearStepYr;
   std::optional<double> aep_pass;
   bool polygons = false;
   bool cog = false;
@@ -126,14 +135,17 @@ StillWaterModel model_from_json(const std::string& path) {
 
 std::optional<StillWaterModel> present_day_model(const MapOptions& o) {
   const int given = static_cast<int>(!o.gumbel.empty()) + static_cast<int>(!o.gev.empty()) +
-                    static_cast<int>(!o.gpd.empty()) + static_cast<int>(!o.model_json.empty());
+                    static_cast<int>(!o.gpd.empty()) + static_cast<int>(!o.model_json.empty()) +
+                    static_cast<int>(!o.planning.fit_json.empty());
   if (given > 1) {
-    throw InputError("--gumbel/--gev/--gpd/--model-json", "more than one still-water model given",
+    throw InputError("--fit/--gumbel/--gev/--gpd/--model-json", "more than one still-water model given",
                      "give one");
   }
   if (given == 0) return std::nullopt;
   StillWaterModel m;
-  if (!o.gumbel.empty()) {
+  if (!o.planning.fit_json.empty()) {
+    m = study::read_fit_json(o.planning.fit_json).model;
+  } else if (!o.gumbel.empty()) {
     m = {Family::gumbel, o.gumbel[0], o.gumbel[1], 0.0, 0.0, 1.0, {}};
   } else if (!o.gev.empty()) {
     m = {Family::gev, o.gev[0], o.gev[1], o.gev[2], 0.0, 1.0, {}};
@@ -167,8 +179,94 @@ std::string model_label(const StillWaterModel& m) {
   return "";
 }
 
-terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& common,
-                                  const std::string& recipe) {
+// --fit and --members: today's and each year's T-year levels and AEP from the planning stage.
+void add_projected_layers(const MapOptions& o, terrain::MapRequest& req, std::vector<std::string>& notes) {
+  if (o.planning.fit_json.empty()) {
+    throw InputError("--members", "a projection needs the fit it applies to", "give --fit FILE as well");
+  }
+  if (!o.rises.empty()) {
+    throw InputError("--rise", "a deterministic rise and projection members were both given", "give one of them");
+  }
+  if (!o.gumbel.empty() || !o.gev.empty() || !o.gpd.empty() || !o.model_json.empty()) {
+    throw InputError("--gumbel/--gev/--gpd/--model-json", "the fit's model and another model were both given",
+                     "with --members the present-day model is the one in --fit; drop the other");
+  }
+  const auto in = load_planning_inputs(o.planning);
+  const auto& present = in.fit.model;
+  if (!in.fit.datum.empty()) notes.push_back("water-level datum: " + in.fit.datum + " (from " + o.planning.fit_json + ")");
+  notes.insert(notes.end(), in.notes.begin(), in.notes.end());
+  const std::string scenario = o.scenario.empty() ? in.rise.scenario : o.scenario;
+  for (int y : o.years) {
+    if (y < in.rise.years.front() || y > in.rise.years.back()) {
+      throw InputError("--years", "year " + std::to_string(y) + " lies outside the projection (" +
+                                      std::to_string(in.rise.years.front()) + "-" +
+                                      std::to_string(in.rise.years.back()) + ")",
+                       "give years the members cover");
+    }
+  }
+  study::add_present_levels(req, present, o.return_periods_yr);
+  study::add_future_levels(req, present, in.rise, in.storminess, o.years, o.return_periods_yr, scenario);
+  study::add_present_aep(req, present);
+  study::add_future_aep(req, present, in.rise, in.storminess, o.years, scenario);
+  if (o.aep_pass) {
+    req.first_year = study::first_year_layer(present, in.rise, in.storminess,
+                                             study::projection_years(in.rise, o.first_year_step), *o.aep_pass,
+                                             scenario);
+  }
+}
+
+// A model on its own (--fit, --gumbel, ...), optionally shifted by stated rises (--rise).
+void add_model_layers(const MapOptions& o, terrain::MapRequest& req) {
+  if (!o.years.empty()) {
+    throw InputError("--years", "mapping projected years needs the projection", "give --members FILE and --fit FILE");
+  }
+  const auto model = present_day_model(o);
+  if (!o.return_periods_yr.empty()) {
+    if (!model) {
+      throw InputError("--return-periods", "return levels need a still-water model", "give --fit FILE");
+    }
+    study::add_present_levels(req, *model, o.return_periods_yr);
+  }
+  std::vector<terrain::YearlyRate> years;
+  for (const auto& r : o.rises) {
+    const auto eq = r.find('=');
+    if (eq == std::string::npos) {
+      throw InputError("--rise", "'" + r + "' is not YEAR=METRES", "give e.g. --rise 2050=0.3");
+    }
+    const double year = parse_number(r.substr(0, eq), "--rise");
+    const double rise = parse_number(r.substr(eq + 1), "--rise");
+    if (!whole_year(year)) throw InputError("--rise", "'" + r + "': the year is not whole", "give a year");
+    if (!model) {
+      throw InputError("--rise", "a rise needs a present-day still-water model",
+                       "give --fit, --gumbel, --gev, --gpd or --model-json");
+    }
+    const StillWaterModel& m = *model;
+    // N_t(z) = N_0(z - rise_t): design.md's N_t with Delta_t a stated number, not a distribution.
+    years.push_back({*whole_year(year), [m, rise](double z) { return m.annual_exceedance_rate(z - rise); }});
+  }
+  if (model) {
+    const StillWaterModel& m = *model;
+    req.aep.push_back({[m](double z) { return m.annual_exceedance_rate(z); },
+                       "present day, " + model_label(m), std::nullopt, o.scenario});
+    for (std::size_t i = 0; i < years.size(); ++i) {
+      req.aep.push_back({years[i].rate,
+                         "year " + std::to_string(years[i].year) + ", " + model_label(m) +
+                             " shifted by a stated rise of " + o.rises[i].substr(o.rises[i].find('=') + 1) + " m",
+                         years[i].year, o.scenario});
+    }
+  }
+  if (o.aep_pass) {
+    if (years.empty()) {
+      throw InputError("--aep-pass", "the first-year raster needs years",
+                       "give --members FILE (with --fit) or --rise YEAR=M (repeat)");
+    }
+    req.first_year =
+        terrain::FirstYearLayer{years, *o.aep_pass, model_label(*model) + " shifted by stated rises", o.scenario};
+  }
+}
+
+terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& common, const std::string& recipe,
+                                  std::vector<std::string>& notes) {
   terrain::MapRequest req;
   req.dem.path = o.dem;
   req.dem.band = o.band;
@@ -200,51 +298,14 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
       o.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
   for (double l : o.levels) req.levels.push_back({l, o.year, o.scenario});
 
-  const auto model = present_day_model(o);
-  std::vector<terrain::YearlyRate> years;
-  for (const auto& r : o.rises) {
-    const auto eq = r.find('=');
-    if (eq == std::string::npos) {
-      throw InputError("--rise", "'" + r + "' is not YEAR=METRES", "give e.g. --rise 2050=0.3");
-    }
-    const double year = parse_number(r.substr(0, eq), "--rise");
-    const double rise = parse_number(r.substr(eq + 1), "--rise");
-    if (year != std::floor(year))
-      throw InputError("--rise", "'" + r + "': the year is not whole", "give a year");
-    if (!model) {
-      throw InputError("--rise", "a rise needs a present-day still-water model",
-                       "give --gumbel, --gev, --gpd or --model-json");
-    }
-    const StillWaterModel& m = *model;
-    // Interim N_t(z) = N_0(z - rise_t): a stated deterministic rise (docs/design.md, with Δ_t
-    // fixed); the planning stage's ensemble expectation replaces it.
-    years.push_back({static_cast<int>(year),
-                     [m, rise](double z) { return m.annual_exceedance_rate(z - rise); }});
-  }
-  if (model) {
-    const StillWaterModel& m = *model;
-    req.aep.push_back({[m](double z) { return m.annual_exceedance_rate(z); },
-                       "present day, " + model_label(m), std::nullopt, o.scenario});
-    for (std::size_t i = 0; i < years.size(); ++i) {
-      req.aep.push_back({years[i].rate,
-                         "year " + std::to_string(years[i].year) + ", " + model_label(m) +
-                             " shifted by rise " + o.rises[i].substr(o.rises[i].find('=') + 1) +
-                             " m (interim, deterministic)",
-                         years[i].year, o.scenario});
-    }
-  }
-  if (o.aep_pass) {
-    if (years.empty()) {
-      throw InputError("--aep-pass", "the first-year raster needs years",
-                       "give --rise YEAR=M (repeat)");
-    }
-    req.first_year = terrain::FirstYearLayer{
-        years, *o.aep_pass, model_label(*model) + " shifted by --rise (interim)", o.scenario};
-  } else if (!years.empty() && !model) {
-    throw InputError("--rise", "a rise needs a present-day still-water model", "give one");
+  if (!o.planning.members.empty()) {
+    add_projected_layers(o, req, notes);
+  } else {
+    add_model_layers(o, req);
   }
   if (req.levels.empty() && req.aep.empty()) {
-    throw InputError("map", "nothing to map", "give --level M (repeat) and/or a still-water model");
+    throw InputError("map", "nothing to map",
+                     "give --level M (repeat), --return-periods with --fit, or a still-water model");
   }
   req.polygons = o.polygons;
   req.format.cloud_optimized = o.cog;
@@ -265,10 +326,11 @@ void print_summary(const terrain::MapSummary& s, const std::string& out) {
             << " sea, " << s.unreached_cells << " land cells never reached; areas " << s.area_method
             << ")\n";
   if (!s.levels.empty()) {
-    report::TextTable t({"level_m", "flooded_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
+    report::TextTable t({"level_m", "year", "scenario", "flooded_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
                          "disconnected_cells", "disconnected_area_m2"});
     for (const auto& l : s.levels) {
-      t.add_row({report::fixed(l.level.level_m, 3), std::to_string(l.connected_cells),
+      t.add_row({report::fixed(l.level.level_m, 3), l.level.year ? std::to_string(*l.level.year) : "",
+                 l.level.scenario, std::to_string(l.connected_cells),
                  report::fixed(l.flooded_area_m2, 0), report::fixed(l.volume_m3, 0),
                  report::fixed(l.max_depth_m, 3), std::to_string(l.disconnected_cells),
                  report::fixed(l.disconnected_area_m2, 0)});
@@ -338,12 +400,25 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--model-json", o->model_json,
                  "Present-day still-water model as JSON (docs/map.md)")
       ->type_name("FILE");
+  add_planning_options(app, o->planning, false);
+  app.add_option("--years", o->years,
+                 "Projected years to map (needs --fit and --members): AEP bands and, with --return-periods, levels")
+      ->type_name("INT ...");
+  app.add_option("--return-periods", o->return_periods_yr,
+                 "Map today's T-year level and, with --members, each --years year's T-year level")
+      ->type_name("T ...")
+      ->check(CLI::PositiveNumber);
+  app.add_option("--first-year-step", o->first_year_step,
+                 "Years between the projected years --aep-pass looks at")
+      ->check(CLI::Range(1, 50))
+      ->default_val(study::kFirstYearStepYr);
   app.add_option("--rise", o->rises,
-                 "Interim: year and a deterministic sea-level rise (m) shifting the model (repeat)")
+                 "Instead of members: year and a stated deterministic rise (m) shifting the model (repeat)")
       ->type_name("YEAR=M");
   app.add_option("--aep-pass", o->aep_pass,
-                 "Write first_year.tif: first --rise year a cell's AEP reaches P")
-      ->type_name("P");
+                 "Write first_year.tif: first projected (or --rise) year a cell's AEP reaches P")
+      ->type_name("P")
+      ->check(CLI::Range(1e-9, 1.0));
   app.add_flag("--polygons", o->polygons, "Write extent polygons to extent.gpkg");
   app.add_flag("--cog", o->cog, "Write Cloud-Optimized GeoTIFFs");
   app.add_option("--compress", o->compress, "GeoTIFF compression: deflate or zstd")
@@ -357,7 +432,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     for (const auto* opt : app.get_options()) {
       if (opt->count() == 0 || opt->get_name() == "--help") continue;
       const std::string name = opt->get_name();
-      if (opt->get_type_size_max() == 0) {  // a flag
+      if (opt->get_expected_max() == 0) {  // a flag
         recipe += " " + name;
       } else if (name == "--gumbel" || name == "--gev" || name == "--gpd") {
         std::string joined;
@@ -370,7 +445,8 @@ void configure(CLI::App& app, CommonOptions& common) {
         for (const auto& r : opt->results()) recipe.append(" ").append(name).append(" ").append(r);
       }
     }
-    const auto req = build_request(*o, common, recipe);
+    std::vector<std::string> notes;
+    const auto req = build_request(*o, common, recipe, notes);
     // GDAL's own messages would break the one-line error rule; the library reports its
     // failures through InputError with GDAL's last message in the text.
     struct QuietGdal {
@@ -380,7 +456,10 @@ void configure(CLI::App& app, CommonOptions& common) {
       QuietGdal& operator=(const QuietGdal&) = delete;
     } quiet_gdal;
     const auto summary = terrain::make_flood_maps(req);
-    if (!common.quiet) print_summary(summary, o->out);
+    if (!common.quiet) {
+      for (const auto& n : notes) std::cout << "note: " << n << "\n";
+      print_summary(summary, o->out);
+    }
   });
 }
 

@@ -6,10 +6,10 @@
 
 namespace tidewright::cli {
 
-void add_planning_options(CLI::App& app, PlanningArgs& a) {
-  app.add_option("--fit", a.fit_json, "The JSON written by 'tidewright fit --json'")->required()->type_name("FILE");
+void add_planning_options(CLI::App& app, PlanningArgs& a, bool required) {
+  app.add_option("--fit", a.fit_json, "The JSON written by 'tidewright fit --json'")->required(required)->type_name("FILE");
   app.add_option("--members", a.members, "The members written by 'tidewright project --members'")
-      ->required()
+      ->required(required)
       ->type_name("FILE");
   app.add_option("--epoch-offset", a.epoch_offset_m,
                  "Rise (m) from the record's epoch to the projection's reference, when neither covers the other");

@@ -20,7 +20,8 @@ struct PlanningArgs {
   int storminess_from = 2020;
 };
 
-void add_planning_options(CLI::App& app, PlanningArgs& args);
+// `required`: --fit and --members must be given (allowance, amplify); map takes them optionally.
+void add_planning_options(CLI::App& app, PlanningArgs& args, bool required = true);
 [[nodiscard]] study::PlanningInputs load_planning_inputs(const PlanningArgs& args);
 // "2030-2100" -> {2030, 2100}; InputError naming `option` otherwise.
 [[nodiscard]] std::pair<int, int> parse_year_span(const std::string& text, const std::string& option);

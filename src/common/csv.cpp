@@ -67,6 +67,16 @@ std::optional<double> parse_finite_double(std::string_view text) {
   return value;
 }
 
+std::string csv_field(std::string_view text) {
+  if (text.find_first_of(",\"\n\r") == std::string_view::npos) return std::string(text);
+  std::string out = "\"";
+  for (char c : text) {
+    if (c == '"') out += '"';
+    out += c;
+  }
+  return out + "\"";
+}
+
 std::optional<int> whole_year(std::optional<double> value) {
   constexpr double kYearLimit = 1e6;  // far beyond any record or projection; keeps the int cast defined
   if (!value || *value != std::floor(*value) || std::abs(*value) > kYearLimit) return std::nullopt;

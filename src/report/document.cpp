@@ -4,6 +4,7 @@
 #include <set>
 
 #include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/report/cautions.hpp"
 
@@ -90,16 +91,6 @@ std::string md_escape(std::string_view text) {
     out += c;
   }
   return out;
-}
-
-std::string csv_field(const std::string& s) {
-  if (s.find_first_of(",\"\n\r") == std::string::npos) return s;
-  std::string out = "\"";
-  for (char c : s) {
-    if (c == '"') out += '"';
-    out += c;
-  }
-  return out + "\"";
 }
 
 // Every block of type T in document order.

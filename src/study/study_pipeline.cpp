@@ -14,6 +14,7 @@
 #include "tidewright/report/plots.hpp"
 #include "tidewright/report/text_table.hpp"
 #include "tidewright/study/fit_stage.hpp"
+#include "tidewright/study/map_layers.hpp"
 #include "tidewright/study/planning_stage.hpp"
 #include "tidewright/study/projection_stage.hpp"
 #include "tidewright/terrain/flood_map.hpp"
@@ -348,41 +349,20 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       m.defences = d;
     }
     m.connectivity = c.map.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
-    for (double t : c.map.return_periods_yr) {
-      m.levels.push_back({planning::present_return_level(fit.present_day, t), std::nullopt, "present day"});
-    }
+    const auto& present = fit.present_day;
+    add_present_levels(m, present, c.map.return_periods_yr);
     for (const auto& run : runs) {
-      for (int y : c.map.years) {
-        const auto cond = planning::conditions_in_year(run.inputs.rise, y, run.inputs.storminess);
-        for (double t : c.map.return_periods_yr) {
-          const auto a = planning::allowance(fit.present_day, cond, t);
-          m.levels.push_back({a.present_level_m + a.allowance_m, y, run.settings.name});
-        }
-      }
+      add_future_levels(m, present, run.inputs.rise, run.inputs.storminess, c.map.years, c.map.return_periods_yr,
+                        run.settings.name);
     }
-    const auto present = fit.present_day;
-    m.aep.push_back({[present](double z) { return present.annual_exceedance_rate(z); }, "present-day AEP",
-                     std::nullopt, "present day"});
+    add_present_aep(m, present);
     for (const auto& run : runs) {
-      for (int y : c.map.years) {
-        auto cond = std::make_shared<planning::YearConditions>(
-            planning::conditions_in_year(run.inputs.rise, y, run.inputs.storminess));
-        m.aep.push_back({[present, cond](double z) { return planning::future_exceedance_rate(present, *cond, z); },
-                         "AEP in " + std::to_string(y) + ", scenario " + run.settings.name, y, run.settings.name});
-      }
+      add_future_aep(m, present, run.inputs.rise, run.inputs.storminess, c.map.years, run.settings.name);
     }
-    {
-      terrain::FirstYearLayer fy;
-      fy.aep = c.map.aep_passing;
-      fy.scenario = runs.back().settings.name;
-      fy.description = "first year the AEP passes " + fixed(c.map.aep_passing, 3) + ", scenario " + fy.scenario;
-      const auto& rise = runs.back().inputs.rise;
-      for (int y = rise.years.front(); y <= rise.years.back(); y += 5) {
-        auto cond = std::make_shared<planning::YearConditions>(planning::conditions_in_year(rise, y, runs.back().inputs.storminess));
-        fy.years.push_back({y, [present, cond](double z) { return planning::future_exceedance_rate(present, *cond, z); }});
-      }
-      m.first_year = fy;
-    }
+    const auto& last_run = runs.back();
+    m.first_year = first_year_layer(present, last_run.inputs.rise, last_run.inputs.storminess,
+                                    projection_years(last_run.inputs.rise, kFirstYearStepYr), c.map.aep_passing,
+                                    last_run.settings.name);
     m.polygons = true;
     m.out_dir = dir / "maps";
     m.force = false;

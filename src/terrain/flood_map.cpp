@@ -11,6 +11,7 @@
 #include <sstream>
 
 #include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/terrain/gdal_support.hpp"
 #include "tidewright/version.hpp"
@@ -161,7 +162,7 @@ std::string summary_csv(const MapSummary& s) {
          "disconnected_area_m2,volume_m3,max_depth_m\n";
   for (const auto& l : s.levels) {
     out << fixed(l.level.level_m, 4) << ',' << (l.level.year ? std::to_string(*l.level.year) : "")
-        << ',' << l.level.scenario << ',' << l.connected_cells << ',' << l.disconnected_cells << ','
+        << ',' << csv_field(l.level.scenario) << ',' << l.connected_cells << ',' << l.disconnected_cells << ','
         << fixed(l.flooded_area_m2, 2) << ',' << fixed(l.disconnected_area_m2, 2) << ','
         << fixed(l.volume_m3, 2) << ',' << fixed(l.max_depth_m, 4) << '\n';
   }

@@ -91,7 +91,7 @@ TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
   EXPECT_THAT(read_all(out / "summary.csv"), ::testing::Not(HasSubstr("3.5000")));
 }
 
-TEST(MapCommand, AepAndFirstYearFromTheInterimModel) {
+TEST(MapCommand, AepAndFirstYearFromAStatedRise) {
   // Gumbel mu 1.0, sigma 0.5: the bowl's threshold is 3 m. First year the AEP reaches 0.1:
   // c_t = mu + rise_t - sigma ln(-ln 0.9) = 1.0 + rise_t + 1.1252; with rises 0.5 (2050) and
   // 1.0 (2100), the bowl (3 m) passes in 2100 and the beach (0.5 m) in 2050.
@@ -165,7 +165,7 @@ TEST(MapCommand, BadInputsAreOneLineExitTwoAndLeaveNothing) {
 }
 
 TEST(MapCommand, ModelJsonGivesTheSameAepAsTheOptions) {
-  // The JSON form of the interim present-day model (docs/map.md) against --gumbel with the
+  // The JSON form of the hand-stated present-day model (docs/map.md) against --gumbel with the
   // same parameters: band 1 of aep.tif must agree cell for cell; a bad family is refused.
   TempDir tmp;
   const auto dem = profile_dem(tmp);
@@ -203,4 +203,93 @@ TEST(MapCommand, ModelJsonGivesTheSameAepAsTheOptions) {
   expect_input_error(run_cli(base + " --model-json " + shell_quote(json.string()) + " --out " +
                              shell_quote((tmp / "c").string())),
                      "is not gumbel, gev or gpd", tmp / "c");
+}
+
+namespace {
+
+std::vector<float> read_band(const std::filesystem::path& file, int band, int cols, int rows) {
+  GDALDatasetUniquePtr ds(GDALDataset::Open(file.c_str(), GDAL_OF_RASTER));
+  std::vector<float> v(static_cast<std::size_t>(cols) * static_cast<std::size_t>(rows), -1.0F);
+  if (!ds || ds->GetRasterBand(band)->RasterIO(GF_Read, 0, 0, cols, rows, v.data(), cols, rows, GDT_Float32, 0, 0,
+                                               nullptr) != CE_None) {
+    ADD_FAILURE() << "cannot read band " << band << " of " << file;
+  }
+  return v;
+}
+
+}  // namespace
+
+TEST(MapCommand, AepAndLevelsFromProjectionMembers) {
+  // Gumbel mu 1.0 m, sigma 0.5 m, so N_0(z) = exp(-(z - 1)/0.5) (Coles 2001, eq. 3.2 with xi = 0);
+  // two members rise 0.2 and 0.4 m by 2050, so N_2050(z) = mean_i exp(-(z - 1 - d_i)/0.5)
+  // (design.md), worked out here with std::exp, not with the library.
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  {
+    std::ofstream fit(tmp / "fit.json");
+    fit << R"({"present_day_model": {"family": "gumbel", "location_m": 1.0, "scale_m": 0.5}, "datum": "test datum"})";
+    std::ofstream members(tmp / "members.csv");
+    members << "# scenario: two members\nmember,2020,2050,2100\n1,0,0.2,0.6\n2,0,0.4,1.0\n";
+  }
+  const auto out = tmp / "maps";
+  const auto r = run_cli("map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --fit " +
+                         shell_quote((tmp / "fit.json").string()) + " --members " +
+                         shell_quote((tmp / "members.csv").string()) +
+                         " --years 2050 --return-periods 10 --aep-pass 0.1 --first-year-step 10 --out " +
+                         shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("note: water-level datum: test datum"));
+  const auto n0 = [](double z) { return std::exp(-(z - 1.0) / 0.5); };
+  const auto n2050 = [](double z) { return 0.5 * (std::exp(-(z - 1.2) / 0.5) + std::exp(-(z - 1.4) / 0.5)); };
+  const auto aep = [](double n) { return 1.0 - std::exp(-n); };
+  const auto today = read_band(out / "aep.tif", 1, 5, 3);
+  const auto in2050 = read_band(out / "aep.tif", 2, 5, 3);
+  // Tolerance: float32 storage (6e-8 relative) and the lookup's bound, 1e-9 here (ln N of each
+  // member is linear in z; the mixture's curvature over 2.5 mm steps).
+  for (const auto& [col, z] : std::vector<std::pair<int, double>>{{1, 0.5}, {2, 3.0}, {3, 3.0}, {4, 3.0}}) {
+    EXPECT_NEAR(today[static_cast<std::size_t>(col)], aep(n0(z)), 1e-6) << "column " << col;
+    EXPECT_NEAR(in2050[static_cast<std::size_t>(col)], aep(n2050(z)), 1e-6) << "column " << col;
+  }
+  // Today's 10-year level: N_0(z) = 1/10, T as an average recurrence interval (planning's
+  // convention, include/tidewright/planning/future_exceedance.hpp); the 2050 level z' keeps the
+  // expected number of exceedances: N_2050(z') = N_0(z) (Hunter 2012).
+  const double n_target = 0.1;
+  const double z_today = 1.0 - 0.5 * std::log(n_target);
+  const double z_2050 = 1.0 + 0.5 * std::log(0.5 * (std::exp(0.4) + std::exp(0.8)) / n_target);
+  const std::string summary = read_all(out / "summary.csv");
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "\n%.4f,,present day,", z_today);
+  EXPECT_THAT(summary, HasSubstr(buf));
+  std::snprintf(buf, sizeof buf, "\n%.4f,2050,two members,", z_2050);
+  EXPECT_THAT(summary, HasSubstr(buf));
+  // First year (every 10 years from 2020) the AEP reaches 0.1: the beach (0.5 m) from the start;
+  // the 3 m cells never by 2100 (N_2100(3) = mean(exp(-(2 - d)/0.5)) = 0.093 < -ln 0.9 = 0.105).
+  GDALDatasetUniquePtr first(GDALDataset::Open((out / "first_year.tif").c_str(), GDAL_OF_RASTER));
+  ASSERT_TRUE(first);
+  std::vector<std::int16_t> y(5);
+  ASSERT_EQ(first->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 1, y.data(), 5, 1, GDT_Int16, 0, 0, nullptr), CE_None);
+  EXPECT_EQ(y, (std::vector<std::int16_t>{-32768, 2020, 0, 0, 0}));
+}
+
+TEST(MapCommand, ProjectionOptionsRefuseWhatDoesNotFit) {
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  {
+    std::ofstream fit(tmp / "fit.json");
+    fit << R"({"present_day_model": {"family": "gumbel", "location_m": 1.0, "scale_m": 0.5}})";
+    std::ofstream members(tmp / "members.csv");
+    members << "member,2020,2050\n1,0,0.2\n";
+  }
+  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 ";
+  const std::string fit = " --fit " + shell_quote((tmp / "fit.json").string());
+  const std::string members = " --members " + shell_quote((tmp / "members.csv").string());
+  const auto out = tmp / "out";
+  const std::string tail = " --out " + shell_quote(out.string());
+  expect_input_error(run_cli(base + members + " --years 2050" + tail), "--members: a projection needs the fit", out);
+  expect_input_error(run_cli(base + fit + members + " --years 2300" + tail), "year 2300 lies outside the projection",
+                     out);
+  expect_input_error(run_cli(base + fit + " --years 2050" + tail), "--years: mapping projected years needs", out);
+  expect_input_error(run_cli(base + fit + members + " --rise 2050=0.3" + tail), "were both given", out);
+  expect_input_error(run_cli(base + fit + members + " --gumbel 1,0.5" + tail), "were both given", out);
+  expect_input_error(run_cli(base + fit + " --return-periods 1" + tail), "return period", out);
 }
