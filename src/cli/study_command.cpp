@@ -80,7 +80,9 @@ void configure_demo(CLI::App& app, CommonOptions& common) {
     if (std::filesystem::exists(dir) && !common.force) {
       throw InputError("--out " + dir.string(), "already exists", "choose another folder or pass --force to replace it");
     }
-    std::filesystem::create_directories(dir);
+    std::error_code ec;
+    std::filesystem::create_directories(dir, ec);
+    if (ec) throw InputError("--out " + dir.string(), "cannot be created: " + ec.message(), "choose a folder you can write to");
     if (!common.quiet) std::cout << "tidewright demo: writing invented inputs to " << (dir / "inputs").string() << std::endl;
     demo::DemoOptions options;
     options.small = *small;

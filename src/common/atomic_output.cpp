@@ -1,10 +1,13 @@
 #include "tidewright/common/atomic_output.hpp"
 
 #include <fcntl.h>
+#include <sys/syscall.h>
 #include <unistd.h>
 
 #include <array>
+#include <cctype>
 #include <atomic>
+#include <cerrno>
 #include <csignal>
 #include <cstring>
 #include <nlohmann/json.hpp>
@@ -15,7 +18,7 @@ namespace tidewright {
 namespace {
 
 // Paths of live temporaries, kept in fixed storage so the signal handler can read them
-// without allocating (only async-signal-safe calls there: unlink, rmdir-free, _exit).
+// without allocating (only async-signal-safe calls there: unlink, open, getdents64, _exit).
 constexpr std::size_t max_live_temps = 256;
 constexpr std::size_t max_path_bytes = 4096;
 std::array<std::array<char, max_path_bytes>, max_live_temps> live_temps{};
@@ -38,9 +41,45 @@ void unregister_temp(int slot) {
   if (slot >= 0) live_used[static_cast<std::size_t>(slot)].store(false);
 }
 
+// Removes the entry `name` of the open folder `parent_fd`, and everything under it if it is a
+// folder (a map's or a study's temporary output folder). Signal-safe: system calls and stack
+// buffers only (opendir/readdir may allocate); deep trees past `depth_left` are left.
+void remove_tree_at(int parent_fd, const char* name, int depth_left) noexcept {
+  if (::unlinkat(parent_fd, name, 0) == 0 || errno != EISDIR || depth_left == 0) {
+    ::unlinkat(parent_fd, name, AT_REMOVEDIR);  // harmless when it is gone or not a folder
+    return;
+  }
+  const int fd = ::openat(parent_fd, name, O_RDONLY | O_DIRECTORY | O_NOFOLLOW | O_CLOEXEC);
+  if (fd < 0) return;
+  alignas(8) std::array<char, 4096> buf{};
+  // Re-read until a pass finds nothing to remove: removing entries while reading is allowed,
+  // but may make a pass skip some.
+  for (bool removed = true; removed;) {
+    removed = false;
+    ::lseek(fd, 0, SEEK_SET);
+    for (;;) {
+      const long n = ::syscall(SYS_getdents64, fd, buf.data(), buf.size());
+      if (n <= 0) break;
+      for (long off = 0; off < n;) {
+        // linux_dirent64: d_ino (8), d_off (8), d_reclen (2), d_type (1), d_name.
+        unsigned short reclen = 0;
+        std::memcpy(&reclen, buf.data() + off + 16, sizeof reclen);
+        const char* entry = buf.data() + off + 19;
+        if (std::strcmp(entry, ".") != 0 && std::strcmp(entry, "..") != 0) {
+          remove_tree_at(fd, entry, depth_left - 1);
+          removed = true;
+        }
+        off += reclen;
+      }
+    }
+  }
+  ::close(fd);
+  ::unlinkat(parent_fd, name, AT_REMOVEDIR);
+}
+
 extern "C" void on_interrupt(int sig) {
   for (std::size_t i = 0; i < max_live_temps; ++i) {
-    if (live_used[i].load()) ::unlink(live_temps[i].data());
+    if (live_used[i].load()) remove_tree_at(AT_FDCWD, live_temps[i].data(), 16);
   }
   ::_exit(128 + sig);
 }
@@ -60,6 +99,20 @@ std::filesystem::path temp_name_for(const std::filesystem::path& target) {
   return parent / name;
 }
 
+// Inverse of temp_name_for on one component: ".stem.tmp-PID-N.ext" -> "stem.ext".
+std::string shown_component(const std::string& name) {
+  const auto tmp = name.find(".tmp-");
+  if (name.empty() || name[0] != '.' || tmp == std::string::npos || tmp == 0) return name;
+  std::size_t end = tmp + 5;
+  int dashes = 0;
+  while (end < name.size() && (std::isdigit(static_cast<unsigned char>(name[end])) != 0 || name[end] == '-')) {
+    dashes += name[end] == '-' ? 1 : 0;
+    ++end;
+  }
+  if (dashes != 1) return name;
+  return name.substr(1, tmp - 1) + name.substr(end);
+}
+
 std::string opt_prefix(std::string_view option) {
   return option.empty() ? std::string() : std::string(option) + " ";
 }
@@ -74,6 +127,9 @@ void check_output_path(const std::filesystem::path& target, bool force, std::str
     throw InputError(where, "already exists", "choose another name or pass --force to replace it");
   }
   const auto parent = target.has_parent_path() ? target.parent_path() : std::filesystem::path(".");
+  if (std::filesystem::exists(parent, ec) && !std::filesystem::is_directory(parent, ec)) {
+    throw InputError(where, "'" + parent.string() + "' is a file, not a folder", "choose a path inside a folder");
+  }
   if (!std::filesystem::is_directory(parent, ec)) {
     throw InputError(where, "its folder '" + parent.string() + "' does not exist",
                      "create the folder first");
@@ -99,6 +155,15 @@ void AtomicPath::discard() noexcept {
   std::error_code ec;
   std::filesystem::remove_all(temp_, ec);
   unregister_temp(slot_);
+}
+
+const std::filesystem::path& AtomicPath::make_temp_folder() {
+  std::error_code ec;
+  std::filesystem::create_directory(temp_, ec);
+  if (ec) {
+    throw InputError(target_.string(), "cannot be created: " + ec.message(), "choose a folder you can write to");
+  }
+  return temp_;
 }
 
 void AtomicPath::commit() {
@@ -169,12 +234,22 @@ void write_json_file(const std::filesystem::path& target, const nlohmann::ordere
   write_text_file(target, value.dump(2) + "\n", force, option);
 }
 
+std::string shown_path(const std::filesystem::path& path) {
+  std::filesystem::path out;
+  for (const auto& part : path) out /= shown_component(part.string());
+  return out.string();
+}
+
 void install_interrupt_cleanup() {
   struct sigaction action {};
   action.sa_handler = on_interrupt;
   sigemptyset(&action.sa_mask);
   ::sigaction(SIGINT, &action, nullptr);
   ::sigaction(SIGTERM, &action, nullptr);
+  ::sigaction(SIGHUP, &action, nullptr);
+  // A file-size limit (ulimit -f) then fails the write with EFBIG, which is reported and
+  // cleaned up like a full disk, instead of killing the process with a temporary left behind.
+  ::signal(SIGXFSZ, SIG_IGN);
 }
 
 }  // namespace tidewright

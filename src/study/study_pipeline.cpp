@@ -158,8 +158,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   out.out_dir = o.out_dir;
   StageClock clock(out, o);
   AtomicPath folder(o.out_dir, o.force, "--out");
-  const auto dir = folder.temp_path();
-  std::filesystem::create_directories(dir);
+  const auto dir = folder.make_temp_folder();
   const std::string datum = c.site.datum;
   const std::string invented = c.site.invented ? " (invented data)" : "";
 

@@ -3,9 +3,13 @@
 
 #include <gdal_utils.h>
 
+#include <unistd.h>
+
 #include <algorithm>
 #include <cmath>
+#include <fstream>
 #include <limits>
+#include <sstream>
 
 #include "tidewright/common/error.hpp"
 #include "tidewright/terrain/gdal_support.hpp"
@@ -16,6 +20,43 @@ namespace {
 constexpr float nan_f = std::numeric_limits<float>::quiet_NaN();
 
 std::string number(double v) { return gdal::number_text(v); }
+
+// Bytes a map run holds per DEM cell: about 9.1 for the threshold pass plus the queues
+// (docs/methods-terrain.md, "Memory"); the measured peak is 2.8x the DEM's 4 bytes/cell
+// (docs/performance.md, "Maps"), so 12 leaves a little room.
+constexpr double map_bytes_per_cell = 12.0;
+
+// Memory the kernel says a new allocation can get (MemAvailable), else physical memory.
+double available_memory_bytes() {
+  std::ifstream meminfo("/proc/meminfo");
+  for (std::string line; std::getline(meminfo, line);) {
+    if (line.rfind("MemAvailable:", 0) == 0) {
+      std::istringstream fields(line.substr(13));
+      double kib = 0.0;
+      if (fields >> kib) return kib * 1024.0;
+    }
+  }
+  const long pages = ::sysconf(_SC_PHYS_PAGES);
+  const long page = ::sysconf(_SC_PAGESIZE);
+  return pages > 0 && page > 0 ? static_cast<double>(pages) * static_cast<double>(page)
+                               : std::numeric_limits<double>::infinity();
+}
+
+// Refuses, before any allocation, a DEM whose map run cannot fit in memory: one clear line
+// instead of an out-of-memory failure half-way through.
+void check_fits_in_memory(const std::string& path, std::size_t cols, std::size_t rows) {
+  const double need = static_cast<double>(cols) * static_cast<double>(rows) * map_bytes_per_cell;
+  const double have = available_memory_bytes();
+  if (need > have) {
+    const auto gib = [](double b) { return number(std::round(b / 1073741824.0 * 10.0) / 10.0); };
+    throw InputError(path,
+                     "the DEM has " + std::to_string(cols) + " x " + std::to_string(rows) +
+                         " cells; mapping it needs about " + gib(need) + " GiB of memory, more than the " +
+                         gib(have) + " GiB available",
+                     "crop it (gdal_translate -projwin) or resample it coarser (gdalwarp -tr); tiled "
+                     "mapping of larger DEMs is planned (docs/methods-terrain.md)");
+  }
+}
 
 }  // namespace
 
@@ -104,6 +145,7 @@ Dem read_dem(const DemSource& source) {
   CPLFree(wkt);
 
   GDALRasterBand* band = ds->GetRasterBand(source.band);
+  check_fits_in_memory(source.path, dem.grid.shape.cols, dem.grid.shape.rows);
   const std::size_t n = dem.grid.shape.cells();
   dem.elevation_m.resize(n);
   // Read a block of rows at a time and drop GDAL's cached copy of it, so reading does not hold

@@ -5,7 +5,11 @@
 
 #include <gdal_alg.h>
 
+#include <cpl_conv.h>
+
 #include <cmath>
+#include <cstdlib>
+#include <ctime>
 #include <limits>
 #include <nlohmann/json.hpp>
 #include <sstream>
@@ -123,12 +127,32 @@ void polygonise_level(const FloodThresholdMap& map, const LevelSummary& level, O
   }
 }
 
+// A GeoPackage records when it was written (gpkg_contents.last_change). With the
+// reproducible-builds variable SOURCE_DATE_EPOCH set, that time is taken from it, so the same
+// run gives the same bytes; otherwise it is the current time, as GDAL writes it.
+void pin_geopackage_time() {
+  const char* epoch = std::getenv("SOURCE_DATE_EPOCH");
+  if (epoch == nullptr) return;
+  char* end = nullptr;
+  const long long seconds = std::strtoll(epoch, &end, 10);
+  if (end == epoch || *end != '\0' || seconds < 0) {
+    throw InputError("SOURCE_DATE_EPOCH", "is '" + std::string(epoch) + "', not a count of seconds since 1970",
+                     "give a whole number of seconds, or unset it");
+  }
+  const auto t = static_cast<std::time_t>(seconds);
+  std::tm utc{};
+  gmtime_r(&t, &utc);
+  char text[32];
+  std::strftime(text, sizeof text, "%Y-%m-%dT%H:%M:%S.000Z", &utc);
+  CPLSetConfigOption("OGR_CURRENT_DATE", text);
+}
+
 void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary>& levels,
                     const std::filesystem::path& path) {
   GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
   GDALDatasetUniquePtr ds(gpkg->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
   if (!ds) {
-    throw InputError(path.string(), "cannot be created (" + gdal::last_error() + ")",
+    throw InputError(shown_path(path), "cannot be created (" + gdal::last_error() + ")",
                      "check the output folder");
   }
   OGRSpatialReference srs = gdal::grid_srs(map.dem.grid);
@@ -143,15 +167,15 @@ void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary
     layer->CreateField(&field);
   }
   ds->StartTransaction();
-  for (const auto& level : levels) polygonise_level(map, level, *layer, path.string());
+  for (const auto& level : levels) polygonise_level(map, level, *layer, shown_path(path));
   if (ds->CommitTransaction() != OGRERR_NONE) {
-    throw InputError(path.string(), "writing the polygons failed (" + gdal::last_error() + ")",
+    throw InputError(shown_path(path), "writing the polygons failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
   CPLErrorReset();
   ds.reset();
   if (CPLGetLastErrorType() >= CE_Failure) {
-    throw InputError(path.string(), "closing the GeoPackage failed (" + gdal::last_error() + ")",
+    throw InputError(shown_path(path), "closing the GeoPackage failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
 }
@@ -224,8 +248,9 @@ MapSummary make_flood_maps(const MapRequest& req) {
   const auto progress = [&](double f) {
     if (req.progress) req.progress(f);
   };
-  // Refuse an existing folder before any work.
+  // Refuse an existing folder, or one that cannot be made, before any work.
   AtomicPath folder(req.out_dir, req.force, "--out");
+  const auto dir = folder.make_temp_folder();
   for (const auto& l : req.levels) {
     if (!std::isfinite(l.level_m)) {
       throw InputError("--level", "a level is not a finite number", "give levels in metres");
@@ -234,6 +259,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   if (req.polygons && req.levels.empty()) {
     throw InputError("--polygons", "extent polygons need at least one level", "give --level M");
   }
+  if (req.polygons) pin_geopackage_time();
   FloodThresholdMap map = prepare_flood_threshold(req.dem, req.sea, req.defences, req.connectivity);
   progress(0.4);
   gdal::register_drivers();
@@ -259,8 +285,6 @@ MapSummary make_flood_maps(const MapRequest& req) {
   s.lowest_threshold_m = lo;
   s.highest_threshold_m = hi;
 
-  std::filesystem::create_directory(folder.temp_path());
-  const auto dir = folder.temp_path();
   const double nan = std::numeric_limits<double>::quiet_NaN();
 
   // Writers: one file per product, one band per level / rate function.

@@ -4,6 +4,7 @@
 #include <cpl_error.h>
 
 #include <cmath>
+#include <filesystem>
 #include <mutex>
 #include <sstream>
 
@@ -35,6 +36,16 @@ std::string last_error() {
 }
 
 namespace {
+// GDAL says nothing useful for a missing file; local paths (not /vsi..., URLs or connection
+// strings, which hold a ':' or start with /vsi) are checked first.
+void require_local_file(const std::string& path, const std::string& role) {
+  if (path.rfind("/vsi", 0) == 0 || path.find(':') != std::string::npos) return;
+  std::error_code ec;
+  if (!std::filesystem::exists(path, ec)) {
+    throw InputError(path, "the " + role + " file does not exist", "check the path");
+  }
+}
+
 GDALDatasetUniquePtr open_quietly(const std::string& path, unsigned flags) {
   register_drivers();
   CPLErrorReset();
@@ -46,6 +57,7 @@ GDALDatasetUniquePtr open_quietly(const std::string& path, unsigned flags) {
 }  // namespace
 
 GDALDatasetUniquePtr open_raster(const std::string& path, const std::string& role) {
+  require_local_file(path, role);
   auto ds = open_quietly(path, GDAL_OF_RASTER);
   if (!ds || ds->GetRasterCount() < 1) {
     throw InputError(path, "GDAL cannot open the " + role + " as a raster (" + last_error() + ")",
@@ -55,6 +67,7 @@ GDALDatasetUniquePtr open_raster(const std::string& path, const std::string& rol
 }
 
 GDALDatasetUniquePtr open_vector(const std::string& path, const std::string& role) {
+  require_local_file(path, role);
   auto ds = open_quietly(path, GDAL_OF_VECTOR);
   if (!ds || ds->GetLayerCount() < 1) {
     throw InputError(path,

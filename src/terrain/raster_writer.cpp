@@ -3,6 +3,7 @@
 
 #include <cpl_string.h>
 
+#include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/terrain/gdal_support.hpp"
 
@@ -61,7 +62,7 @@ GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, Ce
                                  static_cast<int>(grid.shape.rows), static_cast<int>(bands.size()),
                                  impl_->type, options.List()));
   if (!impl_->ds) {
-    throw InputError(impl_->path.string(), "cannot be created (" + gdal::last_error() + ")",
+    throw InputError(shown_path(impl_->path), "cannot be created (" + gdal::last_error() + ")",
                      "check the output folder's space and permissions");
   }
   std::array<double, 6> gt = grid.geotransform;
@@ -88,7 +89,7 @@ void GeoTiffWriter::write_rows(std::size_t band, std::size_t first_row, std::siz
   if (b->RasterIO(GF_Write, 0, static_cast<int>(first_row), cols, static_cast<int>(rows),
                   const_cast<void*>(values), cols, static_cast<int>(rows), impl_->type, 0, 0,
                   nullptr) != CE_None) {
-    throw InputError(impl_->path.string(), "writing failed (" + gdal::last_error() + ")",
+    throw InputError(shown_path(impl_->path), "writing failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
   // A block of rows completes one row of tiles of this band: write it out now rather than let
@@ -103,14 +104,14 @@ void GeoTiffWriter::finish() {
   impl_->ds->FlushCache(true);
   impl_->ds.reset();
   if (CPLGetLastErrorType() >= CE_Failure) {
-    throw InputError(impl_->path.string(), "writing failed (" + gdal::last_error() + ")",
+    throw InputError(shown_path(impl_->path), "writing failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
   if (!impl_->format.cloud_optimized) return;
   GDALDatasetUniquePtr tiled(GDALDataset::Open(impl_->tiff_path.c_str(), GDAL_OF_RASTER));
   GDALDriver* cog = GetGDALDriverManager()->GetDriverByName("COG");
   if (!tiled || cog == nullptr) {
-    throw InputError(impl_->path.string(), "the COG driver is not available in this GDAL",
+    throw InputError(shown_path(impl_->path), "the COG driver is not available in this GDAL",
                      "leave out --cog");
   }
   CPLStringList options;
@@ -128,7 +129,7 @@ void GeoTiffWriter::finish() {
   std::error_code ec;
   std::filesystem::remove(impl_->tiff_path, ec);
   if (!created || CPLGetLastErrorType() >= CE_Failure) {
-    throw InputError(impl_->path.string(), "writing the COG failed (" + gdal::last_error() + ")",
+    throw InputError(shown_path(impl_->path), "writing the COG failed (" + gdal::last_error() + ")",
                      "free disk space or leave out --cog");
   }
 }

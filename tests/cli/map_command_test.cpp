@@ -125,7 +125,7 @@ TEST(MapCommand, BadInputsAreOneLineExitTwoAndLeaveNothing) {
 
   expect_input_error(run_cli("map --dem " + shell_quote((tmp / "nope.tif").string()) +
                              " --same-datum --sea-edge-below 0" + tail),
-                     "GDAL cannot open the DEM", out);
+                     "the DEM file does not exist", out);
   expect_input_error(run_cli("map --dem " + shell_quote(dem) + " --sea-edge-below 0" + tail),
                      "--same-datum", out);
   expect_input_error(run_cli(good + tail), "no sea is given", out);

@@ -98,3 +98,10 @@ TEST(AtomicOutput, JsonIsIndentedWithNewline) {
   tidewright::write_json_file(dir / "j.json", j, false);
   EXPECT_EQ(read_all(dir / "j.json"), "{\n  \"b\": 1,\n  \"a\": 2.5\n}\n");
 }
+
+TEST(AtomicOutput, MessagesShowTheTargetNotTheTemporary) {
+  EXPECT_EQ(tidewright::shown_path("/data/.maps.tmp-1234-0/depth.tif"), "/data/maps/depth.tif");
+  EXPECT_EQ(tidewright::shown_path("out/.fit.tmp-77-3.json"), "out/fit.json");
+  EXPECT_EQ(tidewright::shown_path("plain/.hidden/file.tmp-x"), "plain/.hidden/file.tmp-x");
+  EXPECT_EQ(tidewright::shown_path("a/.b.tmp-1-2-3/c"), "a/.b.tmp-1-2-3/c");  // not a name this module makes
+}

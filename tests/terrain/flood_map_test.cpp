@@ -155,7 +155,7 @@ TEST(TerrainDem, BadDemsAreInputErrors) {
   expect_refused([&] { (void)tw::read_dem(same_datum(all_nodata)); }, "every cell");
 
   expect_refused([&] { (void)tw::read_dem(same_datum((tmp / "missing.tif").string())); },
-                 "GDAL cannot open the DEM");
+                 "the DEM file does not exist");
 
   tw::DemSource unstated;
   unstated.path = all_nodata;

@@ -29,6 +29,9 @@ class AtomicPath {
 
   [[nodiscard]] const std::filesystem::path& temp_path() const noexcept { return temp_; }
   [[nodiscard]] const std::filesystem::path& target() const noexcept { return target_; }
+  // For a folder target: creates the temporary folder (InputError naming the target if the
+  // system refuses, e.g. a read-only or special file system) and returns its path.
+  const std::filesystem::path& make_temp_folder();
   // Renames the temporary over the target (replacing a folder target as a whole).
   void commit();
   void discard() noexcept;
@@ -58,8 +61,13 @@ void write_text_file(const std::filesystem::path& target, std::string_view conte
 void write_json_file(const std::filesystem::path& target, const nlohmann::ordered_json& value,
                      bool force, std::string_view option = "");
 
-// Installs SIGINT/SIGTERM handlers that remove every registered temporary and exit with
-// 128 + signal. Called once by the command line.
+// The path a user will see: each temporary component (".maps.tmp-123-0") shown as its target
+// ("maps"), for messages about files written inside a temporary folder.
+[[nodiscard]] std::string shown_path(const std::filesystem::path& path);
+
+// Installs SIGINT/SIGTERM/SIGHUP handlers that remove every registered temporary (files, and
+// temporary folders with what is in them) and exit with 128 + signal; ignores SIGXFSZ so a
+// file-size limit is a write error. Called once by the command line.
 void install_interrupt_cleanup();
 
 }  // namespace tidewright
