@@ -10,6 +10,7 @@
 #include "tidewright/common/error.hpp"
 #include "tidewright/record/water_level_series.hpp"
 #include "tidewright/report/cautions.hpp"
+#include "tidewright/report/text_table.hpp"
 #include "tidewright/study/stage_files.hpp"
 
 namespace tidewright::study {
@@ -152,10 +153,35 @@ FitStageResult run_fit_stage(const FitRequest& request) {
   out.anderson_darling = extremes::anderson_darling(out.fit);
   out.aic = extremes::aic(out.fit);
   out.plot_points = extremes::diagnostic_plot_points(out.fit);
-  if (out.fit.family != extremes::Family::gumbel && out.fit.shape() > 0.5) {
-    out.warnings.push_back("the fitted shape is above 0.5: a very heavy tail; long return levels are unreliable");
-  }
+  for (auto& w : numerical_warnings(out.fit)) out.warnings.push_back(std::move(w));
   return out;
+}
+
+std::vector<std::string> numerical_warnings(const extremes::FitResult& fit) {
+  std::vector<std::string> w;
+  if (fit.family == extremes::Family::gumbel) return w;
+  const double xi = fit.shape();
+  const auto num = [](double v) { return report::fixed(v, 3); };
+  if (xi > 0.5) {
+    w.push_back("the fitted shape is " + num(xi) + ", above 0.5: a very heavy tail; long return levels are unreliable");
+  }
+  // Smith (1985, Biometrika 72:67): for xi <= -0.5 the maximum-likelihood estimator is not
+  // regular, so its standard errors (and delta-method intervals) cannot be trusted.
+  if (xi <= -0.5) {
+    w.push_back("the fitted shape is " + num(xi) +
+                ", at most -0.5, where the likelihood is not regular (Smith 1985): standard errors and "
+                "delta-method intervals are not valid; use the profile or bootstrap intervals");
+  }
+  if (xi < 0.0 && !fit.data.empty()) {
+    // Upper end point mu - sigma/xi (Coles 2001, sec. 3.1.1; for the GPD u - sigma/xi, sec. 4.2.2).
+    const double end_m = fit.location() - fit.scale() / xi;
+    const double largest_m = *std::max_element(fit.data.begin(), fit.data.end());
+    if (end_m - largest_m < 0.01 * fit.scale()) {
+      w.push_back("the largest value (" + num(largest_m) + " m) lies at the fitted upper end point (" + num(end_m) +
+                  " m): the fit sits on the edge of its support, and the model gives no chance of any higher level");
+    }
+  }
+  return w;
 }
 
 report::ReturnLevelPlotInput return_level_plot_input(const FitStageResult& fit, std::string* band_method) {
