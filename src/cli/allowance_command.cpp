@@ -98,8 +98,7 @@ void configure(CLI::App& app, CommonOptions& common) {
         report::TextTable rt({"height (m)", "P(at least one exceedance)", "expected exceedances"});
         for (double h : a->heights) {
           const auto r = planning::design_life_risk(in.fit.model, span, h);
-          rt.add_row({report::fixed(h, 3), r.rounds_to_one ? "> 1 - " + report::fixed(r.probability_none, 12)
-                                                           : report::fixed(r.probability, 4),
+          rt.add_row({report::fixed(h, 3), report::probability_text(r.probability, r.rounds_to_one),
                       report::fixed(r.expected_exceedances, 3)});
           risks.push_back({{"height_m", h}, {"probability", r.probability}, {"probability_none", r.probability_none},
                            {"expected_exceedances", r.expected_exceedances}, {"rounds_to_one", r.rounds_to_one}});

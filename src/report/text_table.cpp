@@ -50,6 +50,17 @@ std::string TextTable::render(const std::string& indent) const {
   return out;
 }
 
+std::string probability_text(double p, bool rounds_to_one) {
+  if (rounds_to_one || p > 0.9999995) return "> 0.999999";
+  if (p >= 0.99995) return fixed(p, 6);  // four decimals would show 1.0000
+  if (p > 0.0 && p < 1e-4) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.1e", p);
+    return buf;
+  }
+  return fixed(p, 4);
+}
+
 std::string fixed(double value, int decimals) {
   if (std::isnan(value)) return "—";
   char buf[64];

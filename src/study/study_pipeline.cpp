@@ -292,7 +292,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     Json rj = Json::array();
     for (double h : c.planning.levels_of_interest_m) {
       const auto r = planning::design_life_risk(fit.present_day, life, h);
-      risk.add_row({run.settings.name, fixed(h, 2), r.rounds_to_one ? "> 0.999999" : fixed(r.probability, 4),
+      risk.add_row({run.settings.name, fixed(h, 2), report::probability_text(r.probability, r.rounds_to_one),
                     fixed(r.expected_exceedances, 3)});
       rj.push_back({{"height_m", h}, {"probability", r.probability}, {"expected_exceedances", r.expected_exceedances},
                     {"rounds_to_one", r.rounds_to_one}});
