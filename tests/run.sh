@@ -4,7 +4,7 @@
 # UndefinedBehaviorSanitizer. Installs missing Debian packages first (as root). Safe to run
 # twice. Then a bounded fuzz run of every reader of outside input (tests/fuzz/run.sh).
 # Set TIDEWRIGHT_SKIP_SANITIZER=1 to run only the Release pass, TIDEWRIGHT_FUZZ_SECONDS to
-# change the fuzz time per target (default 30; 0 skips fuzzing).
+# change the fuzz time per target (default 60; 0 skips fuzzing).
 set -eu
 root=$(cd "$(dirname "$0")/.." && pwd)
 sh "$root/tests/setup/install-packages.sh"
@@ -23,7 +23,7 @@ if [ "${TIDEWRIGHT_SKIP_SANITIZER:-0}" != 1 ]; then
   ctest --preset asan -j "$jobs"
 fi
 
-fuzz_seconds=${TIDEWRIGHT_FUZZ_SECONDS:-30}
+fuzz_seconds=${TIDEWRIGHT_FUZZ_SECONDS:-60}
 if [ "$fuzz_seconds" != 0 ]; then
   echo "== tidewright: fuzzing readers of outside input, ${fuzz_seconds}s per target =="
   sh "$root/tests/fuzz/run.sh" "$fuzz_seconds"

@@ -59,6 +59,8 @@ footer { margin-top: 30px; font-size: 13px; color: var(--muted); }
 
 bool looks_numeric(const std::string& s) {
   if (s.empty()) return false;
+  // A bound such as "< 1" or "> 0.999999" aligns with the numbers of its column.
+  if (s.size() > 2 && (s[0] == '<' || s[0] == '>') && s[1] == ' ') return looks_numeric(s.substr(2));
   const auto c = static_cast<unsigned char>(s[0]);
   return std::isdigit(c) || ((c == '-' || c == '+' || c == '.') && s.size() > 1) ||
          s.rfind("\u2212", 0) == 0 || s == "\u2014";
