@@ -6,6 +6,7 @@
 #include <cstdint>
 #include <cstring>
 #include <limits>
+#include <utility>
 
 #include "tidewright/common/error.hpp"
 
@@ -339,23 +340,43 @@ __attribute__((target("arch=x86-64-v4"))) RateDerivatives sum_v4(const StillWate
 }
 #endif
 
-// The build for this processor, chosen once.
-SumFunction sum_function() {
+// The builds this processor runs, best first.
+std::vector<std::pair<std::string_view, SumFunction>> sum_builds() {
+  std::vector<std::pair<std::string_view, SumFunction>> builds;
 #if defined(__x86_64__) && !defined(__clang__)
-  static const SumFunction chosen = [] {
-    __builtin_cpu_init();
-    if (__builtin_cpu_supports("x86-64-v4")) return &sum_v4;
-    if (__builtin_cpu_supports("x86-64-v3")) return &sum_v3;
-    return &sum_portable;
-  }();
-  return chosen;
-#else
-  return &sum_portable;
+  __builtin_cpu_init();
+  if (__builtin_cpu_supports("x86-64-v4")) builds.emplace_back("x86-64-v4", &sum_v4);
+  if (__builtin_cpu_supports("x86-64-v3")) builds.emplace_back("x86-64-v3", &sum_v3);
 #endif
+  builds.emplace_back("portable", &sum_portable);
+  return builds;
+}
+
+// The best build, chosen once.
+SumFunction sum_function() {
+  static const SumFunction chosen = sum_builds().front().second;
+  return chosen;
 }
 #if !defined(__clang__)
 #pragma GCC pop_options
 #endif
+
+RateDerivatives batch_sum(const StillWaterModel& m, SumFunction build, double level_m,
+                          std::span<const double> shift_m, std::span<const double> weight, bool derivatives) {
+  // Errors are raised here, before a kernel runs: an exception thrown inside a run-time
+  // dispatched build (GCC target_clones) ended in std::terminate, so the kernels throw nothing.
+  // A GPD without a curve below u meets its error at the first node that falls below u.
+  if (m.family == Family::gpd && m.below_threshold.level_m.empty()) {
+    for (const double d : shift_m) {
+      if (level_m - d < m.threshold_m) (void)m.annual_exceedance_rate(level_m - d);
+    }
+  }
+  const double xi = m.family == Family::gumbel ? 0.0 : m.shape;
+  const bool gpd = m.family == Family::gpd;
+  const SumParameters p{gpd ? m.threshold_m : m.location_m, 1.0 / m.scale_m, xi, gpd ? m.rate_per_yr : 1.0,
+                        std::abs(xi) >= xi_small, gpd};
+  return build(m, p, level_m, shift_m.data(), weight.data(), shift_m.size(), derivatives);
+}
 #endif
 
 }  // namespace
@@ -396,18 +417,7 @@ RateDerivatives StillWaterModel::weighted_shifted_rates(double level_m, std::spa
                      "give one weight per shift");
   }
 #if defined(TIDEWRIGHT_VECTOR_RATES)
-  // The batch code must not throw (an exception does not pass through the run-time dispatch of
-  // its clones), so a GPD without a curve below u meets its error here, at the first such node.
-  if (family == Family::gpd && below_threshold.level_m.empty()) {
-    for (const double d : shift_m) {
-      if (level_m - d < threshold_m) (void)annual_exceedance_rate(level_m - d);
-    }
-  }
-  const double xi = family == Family::gumbel ? 0.0 : shape;
-  const bool gpd = family == Family::gpd;
-  const SumParameters p{gpd ? threshold_m : location_m, 1.0 / scale_m, xi, gpd ? rate_per_yr : 1.0,
-                        std::abs(xi) >= xi_small, gpd};
-  return sum_function()(*this, p, level_m, shift_m.data(), weight.data(), shift_m.size(), derivatives);
+  return batch_sum(*this, sum_function(), level_m, shift_m, weight, derivatives);
 #else
   RateDerivatives sum;
   for (std::size_t i = 0; i < shift_m.size(); ++i) {
@@ -420,6 +430,33 @@ RateDerivatives StillWaterModel::weighted_shifted_rates(double level_m, std::spa
   }
   return sum;
 #endif
+}
+
+std::vector<std::string_view> rate_sum_builds() {
+  std::vector<std::string_view> names;
+#if defined(TIDEWRIGHT_VECTOR_RATES)
+  for (const auto& b : sum_builds()) names.push_back(b.first);
+#else
+  names.emplace_back("scalar");
+#endif
+  return names;
+}
+
+RateDerivatives weighted_shifted_rates_in_build(const StillWaterModel& m, std::string_view build, double level_m,
+                                                std::span<const double> shift_m, std::span<const double> weight,
+                                                bool derivatives) {
+  const std::vector<std::string_view> names = rate_sum_builds();
+  if (std::find(names.begin(), names.end(), build) == names.end()) {
+    throw InputError("rate sum build '" + std::string(build) + "'", "is not one this processor runs",
+                     "pick one of rate_sum_builds()");
+  }
+  if (shift_m.size() != weight.size()) return m.weighted_shifted_rates(level_m, shift_m, weight, derivatives);
+#if defined(TIDEWRIGHT_VECTOR_RATES)
+  for (const auto& b : sum_builds()) {
+    if (b.first == build) return batch_sum(m, b.second, level_m, shift_m, weight, derivatives);
+  }
+#endif
+  return m.weighted_shifted_rates(level_m, shift_m, weight, derivatives);
 }
 
 double StillWaterModel::level_for_rate(double rate) const {

@@ -69,4 +69,13 @@ struct StillWaterModel {
   [[nodiscard]] double level_for_rate(double rate_per_yr) const;
 };
 
+// The builds of StillWaterModel::weighted_shifted_rates this processor runs, the one it uses
+// first: "x86-64-v4" (AVX-512), "x86-64-v3" (AVX2 with FMA), "portable" (or "scalar" where
+// the compiler has no vector extension); and the sum in a named build, so that one machine can
+// check them all. An unknown build is InputError.
+[[nodiscard]] std::vector<std::string_view> rate_sum_builds();
+[[nodiscard]] RateDerivatives weighted_shifted_rates_in_build(const StillWaterModel& model, std::string_view build,
+                                                              double level_m, std::span<const double> shift_m,
+                                                              std::span<const double> weight, bool derivatives);
+
 }  // namespace tidewright::extremes

@@ -144,12 +144,11 @@ MonotoneRoot solve_non_increasing_halley(FD fd, double guess, double lo, double 
     double step = denominator > 0.0 ? -2.0 * v.value * v.first / denominator : newton;
     if (!std::isfinite(step)) step = newton;
     double next = x + step;
+    // A settled step is taken even when rounding puts it on or just past the bracket's end.
+    if (std::abs(step) <= settled_step || std::abs(step) <= tolerance) return {std::clamp(next, a, b), evaluations};
     if (!(next > a && next < b)) {
       next = 0.5 * (a + b);  // outside the bracket: bisect instead
-      step = next - x;
       if (b - a <= tolerance) return {next, evaluations};
-    } else if (std::abs(step) <= settled_step || std::abs(step) <= tolerance) {
-      return {next, evaluations};
     }
     x = next;
   }
