@@ -61,8 +61,9 @@ struct StillWaterModel {
   // Weighted sums over nodes i of N_0(z - d_i) and, when `derivatives`, of dN_0/dz and
   // d2N_0/dz2 there: sum_i w_i N_0(z - d_i) etc.; nodes with w_i <= 0 are left out (so an
   // infinite rate of a zero-weight node does not enter). The batch form the planning sums use:
-  // vectorised exp/log (SIMD; AVX2 with FMA chosen at run time where the processor has it),
-  // within about 1e-14 relative of summing annual_exceedance_rate node by node.
+  // vectorised exp/log (SIMD: AVX-512, else AVX2 with FMA, chosen at run time where the
+  // processor has them; SSE2 otherwise), within about 1e-13 relative of summing
+  // annual_exceedance_rate node by node (the tests' bound).
   [[nodiscard]] RateDerivatives weighted_shifted_rates(double level_m, std::span<const double> shift_m,
                                                        std::span<const double> weight, bool derivatives) const;
   // The level z with N_0(z) = rate (the inverse of the above, where it exists).
