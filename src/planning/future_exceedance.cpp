@@ -26,14 +26,17 @@ void check_conditions(const YearConditions& c) {
   }
 }
 
-// Calls f(i, N_0 of the storm-adjusted model at z - delta_i) for every node i.
-template <class F>
-void visit_node_rates(const extremes::StillWaterModel& m, const YearConditions& c, double level_m, F&& f) {
+// Calls f(i, N_0 of the storm-adjusted model at z - delta_i, dx/dz) for every node i, where x
+// is the level at which the fitted model is evaluated (dx/dz = 1/s in the scaled part, else 1);
+// `eval` gives N_0 (or N_0 with its derivatives) of the fitted model at x.
+template <class Eval, class F>
+void visit_node_rates(const extremes::StillWaterModel& m, const YearConditions& c, double level_m, Eval&& eval,
+                      F&& f) {
   const auto& d = c.rise;
   const std::size_t n = d.rise_m.size();
   if (!c.storminess.active()) {
     // N_t(z) = E[N_0(z - Delta_t)] (docs/design.md; Hunter 2012).
-    for (std::size_t i = 0; i < n; ++i) f(i, m.annual_exceedance_rate(level_m - d.rise_m[i]));
+    for (std::size_t i = 0; i < n; ++i) f(i, eval(level_m - d.rise_m[i]), 1.0);
     return;
   }
   const StorminessChange& sc = c.storminess;
@@ -53,8 +56,9 @@ void visit_node_rates(const extremes::StillWaterModel& m, const YearConditions& 
     // The model with location mu + dmu and scale s sigma, evaluated at x, equals the fitted
     // model at mu + (x - dmu - mu)/s (location-scale family; Coles 2001, §3.1.3 and §4.2).
     const double x1 = level_m - d.rise_m[i] - dmu_m;
-    const double x2 = (!gpd || x1 >= pivot_m) ? pivot_m + (x1 - pivot_m) / s : x1;
-    f(i, m.annual_exceedance_rate(x2));
+    const bool scaled = !gpd || x1 >= pivot_m;
+    const double x2 = scaled ? pivot_m + (x1 - pivot_m) / s : x1;
+    f(i, eval(x2), scaled ? 1.0 / s : 1.0);
   }
 }
 
@@ -111,18 +115,45 @@ void node_rates(const extremes::StillWaterModel& present, const YearConditions& 
                                        std::to_string(conditions.rise.size()) + " nodes",
                      "size the output to the rise distribution");
   }
-  visit_node_rates(present, conditions, level_m, [&](std::size_t i, double r) { out[i] = r; });
+  visit_node_rates(
+      present, conditions, level_m, [&](double x) { return present.annual_exceedance_rate(x); },
+      [&](std::size_t i, double r, double /*dx_dz*/) { out[i] = r; });
 }
 
 double future_exceedance_rate(const extremes::StillWaterModel& present, const YearConditions& conditions,
                               double level_m) {
   check_conditions(conditions);
   const auto& w = conditions.rise.weight;
-  double sum = 0.0;
   // Weighted mean over members or quadrature nodes: E_Delta[N_0(z - Delta_t)].
-  visit_node_rates(present, conditions, level_m, [&](std::size_t i, double r) {
-    if (w[i] > 0.0) sum += w[i] * r;
-  });
+  if (!conditions.storminess.active()) {
+    return present.weighted_shifted_rates(level_m, conditions.rise.rise_m, w, false).rate;
+  }
+  double sum = 0.0;
+  visit_node_rates(
+      present, conditions, level_m, [&](double x) { return present.annual_exceedance_rate(x); },
+      [&](std::size_t i, double r, double /*dx_dz*/) {
+        if (w[i] > 0.0) sum += w[i] * r;
+      });
+  return sum;
+}
+
+extremes::RateDerivatives future_exceedance_rate_derivatives(const extremes::StillWaterModel& present,
+                                                             const YearConditions& conditions, double level_m) {
+  check_conditions(conditions);
+  const auto& w = conditions.rise.weight;
+  if (!conditions.storminess.active()) {
+    return present.weighted_shifted_rates(level_m, conditions.rise.rise_m, w, true);
+  }
+  // Chain rule through x(z): d/dz N_0(x) = N_0'(x) dx/dz, d2/dz2 = N_0''(x) (dx/dz)^2.
+  extremes::RateDerivatives sum;
+  visit_node_rates(
+      present, conditions, level_m, [&](double x) { return present.annual_exceedance_rate_derivatives(x); },
+      [&](std::size_t i, const extremes::RateDerivatives& r, double dx_dz) {
+        if (!(w[i] > 0.0)) return;
+        sum.rate += w[i] * r.rate;
+        sum.first += w[i] * r.first * dx_dz;
+        sum.second += w[i] * r.second * dx_dz * dx_dz;
+      });
   return sum;
 }
 

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <exception>
+#include <iterator>
 #include <thread>
 
 #include "tidewright/common/error.hpp"
@@ -9,17 +10,18 @@
 namespace tidewright::planning {
 namespace {
 
-// Runs cell(year_index, period_index) for every cell, years split over threads in contiguous
-// blocks; rethrows the exception of the first failing year (by index), so errors are the same
-// whatever the thread count.
-template <class Row, class Cell>
-std::vector<Row> fill_table(std::size_t n_years, std::size_t n_periods, unsigned threads, Cell cell) {
+// Runs year_rows(year_index), which gives the n_periods cells of that year, for every year,
+// years split over threads in contiguous blocks; rethrows the exception of the first failing
+// year (by index), so errors are the same whatever the thread count.
+template <class Row, class YearRows>
+std::vector<Row> fill_table(std::size_t n_years, std::size_t n_periods, unsigned threads, YearRows year_rows) {
   std::vector<Row> rows(n_years * n_periods);
   std::vector<std::exception_ptr> errors(n_years);
   const auto work = [&](std::size_t first, std::size_t last) {
     for (std::size_t y = first; y < last; ++y) {
       try {
-        for (std::size_t p = 0; p < n_periods; ++p) rows[y * n_periods + p] = cell(y, p);
+        std::vector<Row> r = year_rows(y);
+        std::move(r.begin(), r.end(), rows.begin() + static_cast<std::ptrdiff_t>(y * n_periods));
       } catch (...) {
         errors[y] = std::current_exception();
       }
@@ -53,8 +55,8 @@ std::vector<Allowance> allowance_table(const extremes::StillWaterModel& present,
                                        std::span<const double> return_periods_yr, const AllowanceOptions& options,
                                        unsigned threads) {
   check_periods(return_periods_yr);
-  return fill_table<Allowance>(years.size(), return_periods_yr.size(), threads, [&](std::size_t y, std::size_t p) {
-    return allowance(present, years[y], return_periods_yr[p], options);
+  return fill_table<Allowance>(years.size(), return_periods_yr.size(), threads, [&](std::size_t y) {
+    return allowances(present, years[y], return_periods_yr, options);
   });
 }
 
@@ -62,10 +64,12 @@ std::vector<Amplification> amplification_table(const extremes::StillWaterModel& 
                                                std::span<const YearConditions> years,
                                                std::span<const double> return_periods_yr, unsigned threads) {
   check_periods(return_periods_yr);
-  return fill_table<Amplification>(years.size(), return_periods_yr.size(), threads,
-                                   [&](std::size_t y, std::size_t p) {
-                                     return amplification_of_return_level(present, years[y], return_periods_yr[p]);
-                                   });
+  return fill_table<Amplification>(years.size(), return_periods_yr.size(), threads, [&](std::size_t y) {
+    std::vector<Amplification> row;
+    row.reserve(return_periods_yr.size());
+    for (const double t : return_periods_yr) row.push_back(amplification_of_return_level(present, years[y], t));
+    return row;
+  });
 }
 
 }  // namespace tidewright::planning

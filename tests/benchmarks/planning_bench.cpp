@@ -1,4 +1,5 @@
-// Planning core speed: N_t(z) over 10,000 members for 100 levels, allowance root solves, and
+// Planning core speed: N_t(z) over 10,000 members for 100 levels (also per SIMD build of the
+// batch sum), allowance root solves, and
 // the issue-5 workload (10 return periods x 100 years of allowances and amplification factors
 // over 10,000 members). Peer in the same run: the same N_t and allowance computations in
 // NumPy/SciPy (tests/benchmarks/planning_peer.py), reported as manual-time rows holding the
@@ -46,6 +47,31 @@ void BM_FutureRate_10000Members_100Levels(benchmark::State& state) {
       benchmark::Counter(1e6, benchmark::Counter::kIsIterationInvariantRate);
 }
 BENCHMARK(BM_FutureRate_10000Members_100Levels)->Unit(benchmark::kMillisecond);
+
+// The same 10^6 evaluations through each build of the batch sum this processor runs (the
+// argument indexes extremes::rate_sum_builds(): AVX-512, AVX2 + FMA, portable SSE2 here).
+void BM_RateSumBuild_10000Members_100Levels(benchmark::State& state) {
+  const auto builds = tidewright::extremes::rate_sum_builds();
+  const auto k = static_cast<std::size_t>(state.range(0));
+  if (k >= builds.size()) {
+    state.SkipWithError("this processor runs fewer builds");
+    return;
+  }
+  state.SetLabel(std::string(builds[k]));
+  const YearConditions c{2100, RiseDistribution::members(members(10000, 0.5, 0.15, 1)), {}};
+  for (auto _ : state) {
+    double sum = 0;
+    for (int j = 0; j < 100; ++j) {
+      sum += tidewright::extremes::weighted_shifted_rates_in_build(gev_model, builds[k], 2.0 + 0.012 * j, c.rise.rise_m,
+                                                                   c.rise.weight, false)
+                 .rate;
+    }
+    benchmark::DoNotOptimize(sum);
+  }
+  state.counters["rate_evaluations_per_s"] =
+      benchmark::Counter(1e6, benchmark::Counter::kIsIterationInvariantRate);
+}
+BENCHMARK(BM_RateSumBuild_10000Members_100Levels)->DenseRange(0, 2)->Unit(benchmark::kMillisecond);
 
 void BM_Allowance_10000Members_Gev(benchmark::State& state) {
   const YearConditions c{2100, RiseDistribution::members(members(10000, 0.5, 0.15, 2)), {}};

@@ -167,3 +167,44 @@ TEST(FutureExceedanceRate, ProjectionTableDistribution) {
   EXPECT_EQ(span[3].rise.weight, span[0].rise.weight);
   EXPECT_THROW((void)conditions_in_year(t, 2110), InputError);
 }
+
+namespace {
+
+// dN_t/dz and d2N_t/dz2 against central differences of N_t itself.
+void expect_rate_derivatives_match_differences(const StillWaterModel& m, const YearConditions& c, double z) {
+  const auto d = future_exceedance_rate_derivatives(m, c, z);
+  EXPECT_NEAR(d.rate, future_exceedance_rate(m, c, z), 1e-13 * d.rate) << "z " << z;
+  const double h1 = 1e-6;
+  const double h2 = 1e-4;
+  const double first = (future_exceedance_rate(m, c, z + h1) - future_exceedance_rate(m, c, z - h1)) / (2.0 * h1);
+  const double second = (future_exceedance_rate(m, c, z + h2) - 2.0 * future_exceedance_rate(m, c, z) +
+                         future_exceedance_rate(m, c, z - h2)) /
+                        (h2 * h2);
+  EXPECT_NEAR(d.first, first, 1e-6 * std::abs(first)) << "z " << z;
+  EXPECT_NEAR(d.second, second, 1e-5 * std::abs(second)) << "z " << z;
+}
+
+}  // namespace
+
+// The derivatives of N_t in z, without storminess and through a storminess change per year
+// and per kelvin (chain rule through the stretched level), for GEV and for a GPD whose nodes
+// reach the empirical curve below u.
+TEST(FutureExceedanceRate, DerivativesMatchCentralDifferences) {
+  const StillWaterModel gev = tidewright::testing::gev(2.0, 0.15, -0.1);
+  const StillWaterModel gpd{Family::gpd, 0.0, 0.15, 0.05, 2.0, 3.0, {{1.6, 1.8}, {20.0, 8.0}}};
+  Eigen::VectorXd rise(5), warm(5);
+  rise << 0.11, 0.23, 0.31, 0.42, 0.57;
+  warm << 1.1, 1.6, 2.0, 2.4, 3.1;
+  StorminessChange per_year;
+  per_year.location_m_per_yr = 0.002;
+  per_year.scale_fraction_per_yr = 0.003;
+  per_year.reference_year = 2020;
+  StorminessChange per_k;
+  per_k.location_m_per_k = 0.01;
+  per_k.scale_fraction_per_k = 0.04;  // invented scenario values for the test
+  for (const StorminessChange& sc : {StorminessChange{}, per_year, per_k}) {
+    const YearConditions c{2080, RiseDistribution::members(rise, warm), sc};
+    for (double z : {2.3, 2.6, 2.9}) expect_rate_derivatives_match_differences(gev, c, z);
+    for (double z : {2.07, 2.2, 2.45}) expect_rate_derivatives_match_differences(gpd, c, z);
+  }
+}

@@ -8,7 +8,9 @@
 //   A = lambda ln( (1/n) sum_t E[exp(Delta_t / lambda)] )            (Hunter 2012)
 // which for one year and normal Delta ~ N(mu, sigma) is A = mu + sigma^2 / (2 lambda).
 // Otherwise A depends on z, i.e. on the return period (Buchanan et al. 2016, Climatic Change;
-// arXiv 1510.08550), and is found by TOMS748 on ln N_t(z + A) - ln N_0(z).
+// arXiv 1510.08550), and is found as the root of ln N_t(z + A) - ln N_0(z): Halley steps with
+// the analytic derivatives of N_0 inside the bracket [min Delta, max Delta], TOMS748 as the
+// safeguard (and alone when storminess changes).
 //
 // Glossary: z level (m); z_T today's T-year level, N_0(z_T) = 1/T; A allowance (m);
 // lambda Gumbel scale (m); mu, sigma mean and sd of Delta (m); n years in the design life.
@@ -16,6 +18,7 @@
 
 #include <span>
 #include <string>
+#include <vector>
 
 #include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/planning/future_exceedance.hpp"
@@ -45,6 +48,12 @@ struct Allowance {
 // Allowance for today's T-year level in one year.
 [[nodiscard]] Allowance allowance(const extremes::StillWaterModel& present, const YearConditions& conditions,
                                   double return_period_yr, const AllowanceOptions& options = {});
+// Allowances for several return periods in one year, each the same as allowance() gives;
+// the pass over the nodes that pools Delta's statistics is made once for all of them.
+[[nodiscard]] std::vector<Allowance> allowances(const extremes::StillWaterModel& present,
+                                                const YearConditions& conditions,
+                                                std::span<const double> return_periods_yr,
+                                                const AllowanceOptions& options = {});
 // Allowance for a given level z in one year.
 [[nodiscard]] Allowance allowance_at_level(const extremes::StillWaterModel& present,
                                            const YearConditions& conditions, double level_m,

@@ -1,7 +1,8 @@
 // The planning core: N_t(z) = E_Delta[ N_0(z - Delta_t) ] (docs/design.md), the expected
 // number of exceedances of level z per year in year t. Every product (allowance,
-// amplification, return-period shift, emergence, design-life risk) calls node_rates or
-// future_exceedance_rate below and nothing else evaluates N_t.
+// amplification, return-period shift, emergence, design-life risk) calls node_rates,
+// future_exceedance_rate or future_exceedance_rate_derivatives below and nothing else
+// evaluates N_t.
 //
 // Glossary: z level (m above the record's datum); N_0 present-day rate (per yr, from
 // extremes::StillWaterModel); Delta_t local relative rise in year t (m); delta_i, w_i the
@@ -80,6 +81,12 @@ void node_rates(const extremes::StillWaterModel& present, const YearConditions& 
 // N_t(z) = sum_i w_i N_0(z - delta_i), with the storminess change applied first.
 [[nodiscard]] double future_exceedance_rate(const extremes::StillWaterModel& present,
                                             const YearConditions& conditions, double level_m);
+
+// N_t(z) with dN_t/dz and d2N_t/dz2 (the weighted sums of the node derivatives of N_0, through
+// the storminess change), for Newton-type solves in z.
+[[nodiscard]] extremes::RateDerivatives future_exceedance_rate_derivatives(const extremes::StillWaterModel& present,
+                                                                           const YearConditions& conditions,
+                                                                           double level_m);
 
 // Annual exceedance probability from a rate, 1 - exp(-N) under Poisson occurrence
 // (Coles 2001, §4.4), by expm1 so that small rates keep their digits.
