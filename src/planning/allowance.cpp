@@ -136,11 +136,12 @@ Allowance solve(const extremes::StillWaterModel& present, std::span<const YearCo
     };
     const double settled = have_scale && smooth_rate_curve(present) ? settled_fraction * lambda_z : 0.0;
     r = solve_non_increasing_halley(fd, guess, lo, hi, options.tolerance_m, settled, "allowance");
+    a.method = "root_halley_toms748";  // Halley steps in the bracket, TOMS748 if they do not settle
   } else {
     r = solve_non_increasing(f, lo, hi, options.tolerance_m, "allowance");
+    a.method = "root_toms748";
   }
   a.allowance_m = r.x;
-  a.method = "root_toms748";
   a.evaluations = r.evaluations;
   return a;
 }

@@ -37,7 +37,7 @@ TEST(Allowance, GumbelNormalClosedFormAndRootAgreeWithHunter) {
   EXPECT_NEAR(closed.mean_rise_m, 0.5, 1e-14);
   EXPECT_NEAR(closed.sd_rise_m, 0.1, 1e-12);
   const Allowance root = allowance(m, c, 100.0, numerical());
-  EXPECT_EQ(root.method, "root_toms748");
+  EXPECT_EQ(root.method, "root_halley_toms748");
   EXPECT_NEAR(root.allowance_m, 0.55, 1e-6);  // issue 5: to 1e-6 m
   EXPECT_GT(root.evaluations, 0);
 }
