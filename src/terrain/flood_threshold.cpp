@@ -223,8 +223,10 @@ std::vector<float> flood_threshold_barnes2014(GridShape shape, std::span<const f
     spread_from(c, level);
   }
   // Open cells left are valid land no path of valid cells joins to the sea.
-  for (std::size_t p = 0; p < g.width * g.height; ++p) {
-    if (is_open(p) != 0) work[p] = inf;
+  for (std::size_t w = 0; w < open_bits.size(); ++w) {
+    for (std::uint64_t left = bits[w]; left != 0; left &= left - 1) {
+      work[w * 64 + static_cast<std::size_t>(std::countr_zero(left))] = inf;
+    }
   }
   open_bits = {};
   // Back to row-major order, in place: the padded rows of a strip of tiles occupy the same
