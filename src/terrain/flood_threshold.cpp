@@ -229,10 +229,10 @@ std::vector<float> flood_threshold_barnes2014(GridShape shape, std::span<const f
     }
   }
   open_bits = {};
-  // Back to row-major order, in place: the padded rows of a strip of tiles occupy the same
-  // index range in either order, and row y of the result ends before the strip holding padded
-  // row y + 1 starts, so copying a strip out to a scratch buffer and its rows into place never
-  // overwrites a strip not yet read.
+  // Back to row-major order, in place: a strip of tiles (tile-side padded rows) is copied out
+  // to a scratch buffer and its rows written to their places in the result; a result row is
+  // shorter than a padded row, so a strip's rows end before the next strip starts and no
+  // strip is overwritten before it is read.
   std::vector<float> strip(tile * g.width);
   for (std::size_t ty = 0; ty < g.height / tile; ++ty) {
     std::copy_n(work + ty * strip.size(), strip.size(), strip.begin());
