@@ -3,6 +3,8 @@
 
 #include <cpl_string.h>
 
+#include <string>
+
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/terrain/gdal_support.hpp"
@@ -34,6 +36,10 @@ GDALDataType gdal_type(CellType t) {
 
 const char* compression_name(Compression c) { return c == Compression::zstd ? "ZSTD" : "DEFLATE"; }
 
+std::string thread_option(const RasterFormat& f) {
+  return f.compression_threads == 0 ? "ALL_CPUS" : std::to_string(f.compression_threads);
+}
+
 }  // namespace
 
 GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, CellType type,
@@ -56,6 +62,7 @@ GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, Ce
   options.SetNameValue("PREDICTOR", type == CellType::float32 ? "3" : "2");
   options.SetNameValue("INTERLEAVE", "BAND");
   options.SetNameValue("BIGTIFF", "IF_SAFER");
+  options.SetNameValue("NUM_THREADS", thread_option(format).c_str());
   GDALDriver* driver = GetGDALDriverManager()->GetDriverByName("GTiff");
   CPLErrorReset();
   impl_->ds.reset(driver->Create(impl_->tiff_path.c_str(), static_cast<int>(grid.shape.cols),
@@ -119,6 +126,7 @@ void GeoTiffWriter::finish() {
   options.SetNameValue("PREDICTOR", "YES");
   options.SetNameValue("BLOCKSIZE", "256");
   options.SetNameValue("BIGTIFF", "IF_SAFER");
+  options.SetNameValue("NUM_THREADS", thread_option(impl_->format).c_str());
   options.SetNameValue("RESAMPLING", impl_->type == GDT_Float32 ? "AVERAGE" : "NEAREST");
   CPLErrorReset();
   GDALDatasetUniquePtr out(

@@ -3,7 +3,7 @@
 // (the same result, see tests/reference/terrain_reference_test.cpp) and gdal_translate copying
 // the DEM with the same GeoTIFF creation options (the I/O floor of writing rasters).
 //
-// The DEM: TIDEWRIGHT_BENCH_DEM_SIZE x the same cells (default 4000), float32, 10 m cells in
+// The DEM: TIDEWRIGHT_BENCH_DEM_SIZE x the same cells (default 5000), float32, 10 m cells in
 // UTM 33N, seeded multi-octave value noise (6 octaves, amplitude halving; chosen here) on a
 // seaward slope from -8 m to +12 m; sea = edge cells at or below 0 m.
 // Run: build/ci/tidewright_bench --benchmark_filter=Terrain (figures: docs/performance.md);
@@ -30,7 +30,7 @@ namespace {
 
 std::size_t dem_size() {
   const char* v = std::getenv("TIDEWRIGHT_BENCH_DEM_SIZE");
-  return v != nullptr ? static_cast<std::size_t>(std::stoul(v)) : 4000;
+  return v != nullptr ? static_cast<std::size_t>(std::stoul(v)) : 5000;
 }
 
 struct BenchDem {
@@ -171,7 +171,8 @@ void BM_TerrainPeerSkimageReconstruction(benchmark::State& state) {
                                                      benchmark::Counter::kIsIterationInvariantRate);
 }
 
-// I/O floor: gdal_translate with the map's creation options.
+// I/O floor: gdal_translate with the map's creation options, compression threads included
+// (RasterFormat's default, NUM_THREADS=ALL_CPUS).
 void BM_TerrainPeerGdalTranslate(benchmark::State& state) {
   const auto& d = bench_dem();
   const auto out = (d.folder / "copy.tif").string();
@@ -180,7 +181,7 @@ void BM_TerrainPeerGdalTranslate(benchmark::State& state) {
     const double s = seconds_of(
         "gdal_translate -q -co TILED=YES -co BLOCKXSIZE=256 -co BLOCKYSIZE=256 -co "
         "COMPRESS=DEFLATE "
-        "-co PREDICTOR=3 -co BIGTIFF=IF_SAFER '" +
+        "-co PREDICTOR=3 -co BIGTIFF=IF_SAFER -co NUM_THREADS=ALL_CPUS '" +
         d.path + "' '" + out + "'");
     if (s < 0) {
       state.SkipWithError("gdal_translate (Debian gdal-bin) failed");

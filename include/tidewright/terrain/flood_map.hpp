@@ -4,7 +4,7 @@
 // at all (AtomicPath on the folder).
 //
 // Memory: the threshold pass holds z (4 bytes/cell), T (4), the sea mask (1) and one open bit
-// per cell, i.e. about 9.1 bytes/cell, plus the priority queue (16 bytes per cell on the flood
+// per cell, i.e. about 9.1 bytes/cell, plus the priority queue (8 bytes per cell on the flood
 // front) and the FIFO (4 bytes per cell in a depression being filled). Reading adds a transient
 // full-size float32 grid per offset raster, sea raster or defence layer. The streamed passes
 // need one block of 256 rows per output band; polygons add one byte per cell while a level is

@@ -15,9 +15,10 @@
 //   - a sea cell has T = -inf: it is water at every level, whatever the DEM says there;
 //   - a nodata cell (NaN elevation) that is not sea is a barrier and has T = NaN;
 //   - a valid cell that no path of valid cells joins to the sea has T = +inf.
-// Memory: the caller's elevation (4 bytes/cell) + the padded threshold (4 bytes/cell) + one open
-// bit per cell + the priority queue (a radix heap, 16 bytes per queued cell, at most the
-// number of cells on the flood front) + the FIFO (4 bytes per queued cell).
+// Memory: the caller's elevation (4 bytes/cell) + the padded threshold (4 bytes/cell, stored in
+// 8 x 8 tiles while the pass runs, returned row-major) + one open bit per cell + the priority
+// queue (a radix heap, 8 bytes per queued cell, at most the number of cells on the flood front)
+// + the FIFO (4 bytes per queued cell).
 #pragma once
 
 #include <cstddef>
@@ -41,9 +42,9 @@ struct GridShape {
 };
 
 // T(c) for every cell (see the conventions above). `elevation_m` holds z with NaN for nodata;
-// `is_sea` is nonzero for sea cells. Ties in the priority queue are broken by an insertion
-// counter, so the order of processing (and the result) is deterministic. Throws InputError if
-// the spans do not match `shape`.
+// `is_sea` is nonzero for sea cells. T is unique (a minimax path height), so the result does
+// not depend on the order in which cells at equal levels are processed; that order is itself a
+// function of the input alone. Throws InputError if the spans do not match `shape`.
 [[nodiscard]] std::vector<float> flood_threshold_barnes2014(GridShape shape,
                                                             std::span<const float> elevation_m,
                                                             std::span<const std::uint8_t> is_sea,

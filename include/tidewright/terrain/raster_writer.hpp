@@ -23,6 +23,11 @@ enum class CellType { byte, int16, float32 };
 struct RasterFormat {
   Compression compression = Compression::deflate;  // DEFLATE: read by every GIS (common practice)
   bool cloud_optimized = false;
+  // Threads compressing tiles (GDAL's NUM_THREADS creation option): 0 every core (ALL_CPUS),
+  // 1 none besides the writing thread. Default every core, chosen here: compressing the depth
+  // bands is most of a many-level map run (docs/performance.md, "Maps"). The values written,
+  // and the bytes, do not depend on it (GDAL writes the compressed tiles in order).
+  unsigned compression_threads = 0;
 };
 
 struct BandInfo {
