@@ -62,6 +62,20 @@ Columns read_year_columns(const std::filesystem::path& path, const std::vector<s
   return out;
 }
 
+std::string p_key(double p) {
+  char buf[8];
+  std::snprintf(buf, sizeof buf, "p%02d", static_cast<int>(std::lround(p * 100)));
+  return buf;
+}
+
+nlohmann::ordered_json quantile_block(const Eigen::MatrixXd& m, const std::vector<double>& ps) {
+  nlohmann::ordered_json j;
+  for (double p : ps) j[p_key(p)] = year_quantiles(m, p);
+  return j;
+}
+
+}  // namespace
+
 climate::Scenario load_scenario(const ProjectionRequest& r, const std::string& label) {
   const std::string where = r.path.string();
   switch (r.source) {
@@ -86,20 +100,6 @@ climate::Scenario load_scenario(const ProjectionRequest& r, const std::string& l
   }
   throw InputError(where, "is not a scenario file", "use a pathway, forcing, CO2 or warming CSV");
 }
-
-std::string p_key(double p) {
-  char buf[8];
-  std::snprintf(buf, sizeof buf, "p%02d", static_cast<int>(std::lround(p * 100)));
-  return buf;
-}
-
-nlohmann::ordered_json quantile_block(const Eigen::MatrixXd& m, const std::vector<double>& ps) {
-  nlohmann::ordered_json j;
-  for (double p : ps) j[p_key(p)] = year_quantiles(m, p);
-  return j;
-}
-
-}  // namespace
 
 climate::YearSpan parse_reference_span(const std::string& text, const std::string& where) {
   int a = 0, b = 0;

@@ -1,5 +1,6 @@
 // libFuzzer target: the files later stages read back (members CSV, fit JSON, quantile table)
-// on arbitrary bytes. Anything but an InputError is a bug.
+// and the projection's scenario files (forcing, CO2, warming CSV) on arbitrary bytes.
+// Anything but an InputError is a bug.
 #include <unistd.h>
 
 #include <cstddef>
@@ -10,6 +11,7 @@
 
 #include "tidewright/common/error.hpp"
 #include "tidewright/local/quantile_table.hpp"
+#include "tidewright/study/projection_stage.hpp"
 #include "tidewright/study/stage_files.hpp"
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
@@ -26,6 +28,16 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
   try {
     (void)tidewright::study::read_fit_json(file);
   } catch (const tidewright::InputError&) {
+  }
+  for (const auto source : {tidewright::study::ScenarioSource::forcing_csv, tidewright::study::ScenarioSource::co2_csv,
+                            tidewright::study::ScenarioSource::temperature_csv}) {
+    tidewright::study::ProjectionRequest request;
+    request.source = source;
+    request.path = file;
+    try {
+      (void)tidewright::study::load_scenario(request, "fuzz");
+    } catch (const tidewright::InputError&) {
+    }
   }
   try {
     (void)tidewright::local::parse_quantile_table(std::string(reinterpret_cast<const char*>(data), size), "fuzz.csv");

@@ -43,6 +43,10 @@ struct ProjectionStageResult {
 
 [[nodiscard]] ProjectionStageResult run_projection_stage(const ProjectionRequest& request);
 
+// The scenario of a request (a built-in pathway, or a forcing, CO2 or warming CSV read and
+// checked), without projecting it; `label` names it. InputError for a bad file.
+[[nodiscard]] climate::Scenario load_scenario(const ProjectionRequest& request, const std::string& label);
+
 // "2020" or "1995-2014" as a span of years; InputError at `where` otherwise.
 [[nodiscard]] climate::YearSpan parse_reference_span(const std::string& text, const std::string& where);
 
