@@ -403,11 +403,10 @@ void configure(CLI::App& app, CommonOptions& common) {
   add_planning_options(app, o->planning, false);
   app.add_option("--years", o->years,
                  "Projected years to map (needs --fit and --members): AEP bands and, with --return-periods, levels")
-      ->type_name("INT ...");
+      ->type_name("YEAR");
   app.add_option("--return-periods", o->return_periods_yr,
                  "Map today's T-year level and, with --members, each --years year's T-year level")
-      ->type_name("T ...")
-      ->check(CLI::PositiveNumber);
+      ->type_name("T");  // T <= 1 is refused by planning::present_return_level, with the reason
   app.add_option("--first-year-step", o->first_year_step,
                  "Years between the projected years --aep-pass looks at")
       ->check(CLI::Range(1, 50))
