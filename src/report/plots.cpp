@@ -457,6 +457,29 @@ std::vector<MapCategory> extent_categories() {
           {2, "Low-lying, not connected", series_colour(3)}};
 }
 
+std::vector<MapCategory> aep_categories() {
+  return {{1, "10 % or more (1 in 10 years or more often)", viridis(0.05)},
+          {2, "1 % to 10 %", viridis(0.35)},
+          {3, "0.1 % to 1 %", viridis(0.65)},
+          {4, "below 0.1 %", Colour::from_hex("#f4f0c8")},  // pale: the least likely band draws the least attention
+          {5, "never (above the model's range)", Colour::from_hex("#ebe7df")}};
+}
+
+RasterView aep_classes(const RasterView& aep) {
+  RasterView out = aep;
+  out.nodata = -1.0F;
+  for (float& v : out.values) {
+    const bool blank = std::isnan(v) || (aep.nodata && v == *aep.nodata);
+    if (blank) v = -1.0F;
+    else if (v >= 0.1F) v = 1.0F;
+    else if (v >= 0.01F) v = 2.0F;
+    else if (v >= 0.001F) v = 3.0F;
+    else if (v > 0.0F) v = 4.0F;
+    else v = 5.0F;
+  }
+  return out;
+}
+
 Canvas categorical_map(const CategoricalMapInput& in) {
   check_raster(in.title, in.raster);
   if (in.categories.empty()) {

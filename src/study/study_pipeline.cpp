@@ -507,17 +507,14 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     }
     const auto aep_path = dir / "maps" / "aep.tif";
     if (std::filesystem::exists(aep_path)) {
-      auto view = read_raster_for_view(aep_path, cell);
-      report::ContinuousMapInput am;
+      report::CategoricalMapInput am;
       am.title = "Annual exceedance probability, present day";
-      am.raster = view;
-      am.value_label = "Annual exceedance probability (%)";
-      am.min = 0.0;
-      am.max = 1.0;
-      am.label_scale = 100.0;
-      am.blank_label = "Sea or nodata";
-      evidence.blocks.emplace_back(report::Figure{"map_aep", "Present-day annual exceedance probability per cell (aep.tif band 1).",
-                                                  report::continuous_map(am)});
+      am.raster = report::aep_classes(read_raster_for_view(aep_path, cell));
+      am.categories = report::aep_categories();
+      am.legend_title = "Chance of flooding in any year";
+      evidence.blocks.emplace_back(report::Figure{
+          "map_aep", "Present-day annual exceedance probability per cell (aep.tif band 1), in bands; sea and nodata blank.",
+          report::categorical_map(am)});
     }
   }
   doc.sections.push_back(std::move(evidence));

@@ -5,6 +5,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <limits>
 
 #include "report/report_probe.hpp"
 #include "support/run_cli.hpp"
@@ -345,4 +346,17 @@ TEST(Palette, ViridisFollowsMatplotlib) {
   EXPECT_EQ(tr::viridis(0.5).hex(), "#21918c");      // an anchor: exact
   EXPECT_EQ(tr::series_colour(0).hex(), "#0072b2");  // Okabe & Ito (2008) blue
   EXPECT_EQ(tr::series_colour(8), tr::series_colour(0));
+}
+
+TEST(AepClasses, BandsFollowTheAepThresholds) {
+  tr::RasterView v;
+  v.columns = 7;
+  v.rows = 1;
+  v.cell_size_m = 10;
+  v.values = {0.5F, 0.1F, 0.05F, 0.005F, 0.0005F, 0.0F, std::numeric_limits<float>::quiet_NaN()};
+  const auto c = tr::aep_classes(v);
+  EXPECT_EQ(c.values, (std::vector<float>{1, 1, 2, 3, 4, 5, -1}));
+  ASSERT_TRUE(c.nodata.has_value());
+  EXPECT_EQ(*c.nodata, -1.0F);
+  EXPECT_EQ(tr::aep_categories().size(), 5U);
 }

@@ -112,6 +112,13 @@ struct MapCategory {
 // connected (below the level, cut off by higher ground or defences).
 [[nodiscard]] std::vector<MapCategory> extent_categories();
 
+// Annual exceedance probability in the bands planners read it by (common practice: the 10 %,
+// 1 % and 0.1 % AEP events): 1 at least 10 %, 2 from 1 % to 10 %, 3 from 0.1 % to 1 %, 4 above 0
+// and below 0.1 %, 5 never (0: above the model's upper end point or never reached by the sea).
+// A linear colour ramp would show nearly all land as 0 % or 100 %.
+[[nodiscard]] std::vector<MapCategory> aep_categories();
+[[nodiscard]] RasterView aep_classes(const RasterView& aep);
+
 struct CategoricalMapInput {
   std::string title{};
   RasterView raster{};
