@@ -196,14 +196,7 @@ void add_projected_layers(const MapOptions& o, terrain::MapRequest& req, std::ve
   if (!in.fit.datum.empty()) notes.push_back("water-level datum: " + in.fit.datum + " (from " + o.planning.fit_json + ")");
   notes.insert(notes.end(), in.notes.begin(), in.notes.end());
   const std::string scenario = o.scenario.empty() ? in.rise.scenario : o.scenario;
-  for (int y : o.years) {
-    if (y < in.rise.years.front() || y > in.rise.years.back()) {
-      throw InputError("--years", "year " + std::to_string(y) + " lies outside the projection (" +
-                                      std::to_string(in.rise.years.front()) + "-" +
-                                      std::to_string(in.rise.years.back()) + ")",
-                       "give years the members cover");
-    }
-  }
+  // A year outside the members is refused by planning::conditions_in_year, before any output.
   study::add_present_levels(req, present, o.return_periods_yr);
   study::add_future_levels(req, present, in.rise, in.storminess, o.years, o.return_periods_yr, scenario);
   study::add_present_aep(req, present);
@@ -219,6 +212,11 @@ void add_projected_layers(const MapOptions& o, terrain::MapRequest& req, std::ve
 void add_model_layers(const MapOptions& o, terrain::MapRequest& req) {
   if (!o.years.empty()) {
     throw InputError("--years", "mapping projected years needs the projection", "give --members FILE and --fit FILE");
+  }
+  const PlanningArgs& p = o.planning;
+  if (p.epoch_offset_m || p.storminess_scale_per_yr != 0.0 || p.storminess_location_m_per_yr != 0.0) {
+    throw InputError("--epoch-offset/--storminess-*", "applies to projection members, and none were given",
+                     "give --members FILE, or drop the option");
   }
   const auto model = present_day_model(o);
   if (!o.return_periods_yr.empty()) {

@@ -34,8 +34,7 @@ void add_future_levels(terrain::MapRequest& m, const extremes::StillWaterModel& 
                        const std::string& scenario) {
   for (int y : years) {
     const auto cond = planning::conditions_in_year(rise, y, storminess);
-    for (double t : return_periods_yr) {
-      const auto a = planning::allowance(present, cond, t);
+    for (const auto& a : planning::allowances(present, cond, return_periods_yr)) {
       m.levels.push_back({a.present_level_m + a.allowance_m, y, scenario});
     }
   }

@@ -286,10 +286,13 @@ TEST(MapCommand, ProjectionOptionsRefuseWhatDoesNotFit) {
   const auto out = tmp / "out";
   const std::string tail = " --out " + shell_quote(out.string());
   expect_input_error(run_cli(base + members + " --years 2050" + tail), "--members: a projection needs the fit", out);
-  expect_input_error(run_cli(base + fit + members + " --years 2300" + tail), "year 2300 lies outside the projection",
+  expect_input_error(run_cli(base + fit + members + " --years 2300" + tail), "year 2300: lies outside the projection",
                      out);
   expect_input_error(run_cli(base + fit + " --years 2050" + tail), "--years: mapping projected years needs", out);
   expect_input_error(run_cli(base + fit + members + " --rise 2050=0.3" + tail), "were both given", out);
   expect_input_error(run_cli(base + fit + members + " --gumbel 1,0.5" + tail), "were both given", out);
   expect_input_error(run_cli(base + fit + " --return-periods 1" + tail), "return period", out);
+  // Without members these would be ignored silently.
+  expect_input_error(run_cli(base + fit + " --level 1 --storminess-scale-per-yr 0.001" + tail),
+                     "applies to projection members, and none were given", out);
 }

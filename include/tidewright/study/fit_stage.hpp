@@ -57,12 +57,12 @@ struct FitStageResult {
 
 [[nodiscard]] FitStageResult run_fit_stage(const FitRequest& request);
 
-// The return-level plot of a fit: the profile band where every period has one, else the delta
-// method's (`band_method` says which).
 // Warnings a fit's numbers need beside them: a very heavy tail, a shape where the likelihood is
 // not regular, the largest value at the fitted upper end point.
 [[nodiscard]] std::vector<std::string> numerical_warnings(const extremes::FitResult& fit);
 
+// The return-level plot of a fit: the profile band where every period has one, else the delta
+// method's (`band_method` says which).
 [[nodiscard]] report::ReturnLevelPlotInput return_level_plot_input(const FitStageResult& result,
                                                                    std::string* band_method = nullptr);
 
