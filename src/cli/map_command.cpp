@@ -44,6 +44,7 @@ struct MapOptions {
   std::vector<std::string> sea_points;
   std::optional<double> sea_edge_below_m;
   bool nodata_is_sea = false;
+  std::optional<double> sea_spread_to_m;
   std::string defences;
   std::string defence_layer;
   std::string crest_field = "crest_m";
@@ -288,6 +289,7 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
   for (const auto& p : o.sea_points) req.sea.points_xy.push_back(parse_point(p));
   req.sea.edge_at_or_below_m = o.sea_edge_below_m;
   req.sea.nodata_is_sea = o.nodata_is_sea;
+  req.sea.spread_to_m = o.sea_spread_to_m;
   if (!o.defences.empty()) {
     req.defences = terrain::DefenceSource{o.defences, o.defence_layer, o.crest_field,
                                           o.crest_datum == "water"};
@@ -366,6 +368,9 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--sea-edge-below", o->sea_edge_below_m, "DEM edge cells at or below M are sea")
       ->type_name("M");
   app.add_flag("--nodata-is-sea", o->nodata_is_sea, "Nodata cells are sea (otherwise barriers)");
+  app.add_option("--sea-spread-to", o->sea_spread_to_m,
+                 "The sea also covers all it reaches at or below M (today's water, not flooded)")
+      ->type_name("M");
   app.add_option("--defences", o->defences, "Defence lines/polygons (OGR) burned in as walls")
       ->type_name("FILE");
   app.add_option("--defence-layer", o->defence_layer, "Layer of --defences (default: the first)");

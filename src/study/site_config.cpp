@@ -176,6 +176,7 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
                        "set map.dem_offset_m, or map.same_datum = true if they are the same");
     }
     c.map.sea = mp->optional_path("sea");
+    c.map.sea_spread_to_m = mp->optional_number("sea_spread_to_m");
     c.map.defences = mp->optional_path("defences");
     c.map.crest_attribute = mp->optional_string("crest_attribute").value_or(c.map.crest_attribute);
     if (auto k = mp->optional_integer("connectivity")) {

@@ -340,6 +340,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       m.dem.datum.offset_m = *c.map.dem_offset_m;
     }
     if (c.map.sea) m.sea.mask_path = c.map.sea->string();
+    m.sea.spread_to_m = c.map.sea_spread_to_m;
     if (c.map.defences) {
       terrain::DefenceSource d;
       d.path = c.map.defences->string();

@@ -241,6 +241,7 @@ FloodThresholdMap prepare_flood_threshold(const DemSource& dem, const SeaSource&
   map.sea = find_sea_cells(map.dem, sea, connectivity);
   map.threshold_m = flood_threshold_barnes2014(map.dem.grid.shape, map.dem.elevation_m,
                                                map.sea.is_sea, connectivity);
+  if (sea.spread_to_m) (void)spread_sea(map.sea, map.threshold_m, *sea.spread_to_m);
   return map;
 }
 

@@ -161,4 +161,26 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
   return sea;
 }
 
+std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m) {
+  if (threshold_m.size() != sea.is_sea.size()) {
+    throw InputError("sea", "the threshold raster and the sea mask differ in size", "report this");
+  }
+  if (!std::isfinite(level_m)) {
+    throw InputError("--sea-spread-to", "the level is not a finite number", "give metres");
+  }
+  std::size_t added = 0;
+  for (std::size_t i = 0; i < threshold_m.size(); ++i) {
+    const float t = threshold_m[i];
+    if (std::isfinite(t) && static_cast<double>(t) <= level_m) {
+      threshold_m[i] = -std::numeric_limits<float>::infinity();
+      sea.is_sea[i] = 1;
+      ++added;
+    }
+  }
+  sea.count += added;
+  sea.description += "; spread over the " + std::to_string(added) +
+                     " cells it reaches at or below " + gdal::number_text(level_m) + " m";
+  return added;
+}
+
 }  // namespace tidewright::terrain

@@ -93,3 +93,15 @@ TEST(SiteConfig, ImpossibleValuesAreRefused) {
   EXPECT_THAT(error_for(dir, std::string(minimal) + "[local.fingerprints]\nice = 1.1\n"),
               HasSubstr("local.fingerprints.ice: unknown component"));
 }
+
+TEST(SiteConfig, SeaSpreadLevelIsReadAndMustBeFinite) {
+  TempDir dir;
+  const std::string map = "[map]\ndem = \"dem.tif\"\nsame_datum = true\nsea = \"sea.geojson\"\n";
+  tidewright::write_text_file(dir / "site.toml", std::string(minimal) + map + "sea_spread_to_m = 1.1\n",
+                              false);
+  const auto c = load_site_file(dir / "site.toml");
+  ASSERT_TRUE(c.map.sea_spread_to_m);
+  EXPECT_DOUBLE_EQ(*c.map.sea_spread_to_m, 1.1);
+  EXPECT_THAT(error_for(dir, std::string(minimal) + map + "sea_spread_to_m = nan\n"),
+              HasSubstr("map.sea_spread_to_m"));
+}

@@ -386,6 +386,46 @@ TEST(TerrainMap, WritesEveryProductAndSummarisesByHand) {
   EXPECT_EQ(tw::make_flood_maps(req).levels.size(), 1U);
 }
 
+TEST(TerrainMap, SpreadSeaIsNotFloodedLand) {
+  // Profile (rows alike): seabed -3 | -2 | -1 | beach 0.5 | ridge 3 | bowl 1, 10 m cells, sea
+  // seeded at the left edge only. Without a spread the seabed cells count as flooded land at
+  // 1.5 m (depths 3.5 and 2.5 in the volume); spread to 0 m they are sea and only the beach
+  // floods: 3 cells, 300 m2, depth 1.0.
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  std::vector<double> z;
+  for (int r = 0; r < 3; ++r) z.insert(z.end(), {-3.0, -2.0, -1.0, 0.5, 3.0, 1.0});
+  write_raster(dem_path, 6, 3, utm_10m, 32633, z);
+  tw::MapRequest req;
+  req.dem = same_datum(dem_path);
+  req.sea.edge_at_or_below_m = -2.5;
+  req.levels = {{1.5, {}, ""}};
+  req.out_dir = tmp / "seeds";
+  const auto seeds = tw::make_flood_maps(req);
+  EXPECT_EQ(seeds.sea_cells, 3U);
+  EXPECT_EQ(seeds.levels[0].connected_cells, 9U);
+  EXPECT_DOUBLE_EQ(seeds.levels[0].volume_m3, 100.0 * 3 * (3.5 + 2.5 + 1.0));
+  req.sea.spread_to_m = 0.0;
+  req.out_dir = tmp / "spread";
+  const auto spread = tw::make_flood_maps(req);
+  EXPECT_EQ(spread.sea_cells, 9U);
+  EXPECT_EQ(spread.levels[0].connected_cells, 3U);
+  EXPECT_EQ(spread.levels[0].disconnected_cells, 3U);  // the bowl
+  EXPECT_DOUBLE_EQ(spread.levels[0].flooded_area_m2, 300.0);
+  EXPECT_DOUBLE_EQ(spread.levels[0].volume_m3, 300.0);
+  GDALDatasetUniquePtr ext(
+      GDALDataset::Open((tmp / "spread" / "extent.tif").c_str(), GDAL_OF_RASTER));
+  ASSERT_TRUE(ext);
+  std::vector<std::uint8_t> cls(6);
+  ASSERT_EQ(ext->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 6, 1, cls.data(), 6, 1, GDT_Byte, 0, 0,
+                                            nullptr),
+            CE_None);
+  EXPECT_EQ(cls, (std::vector<std::uint8_t>{3, 3, 3, 1, 0, 2}));
+  const std::string meta = ext->GetMetadataItem("TIDEWRIGHT_SEA");
+  EXPECT_NE(meta.find("spread over the 6 cells it reaches at or below 0 m"), std::string::npos)
+      << meta;
+}
+
 TEST(TerrainMap, BadInputLeavesNoOutput) {
   TempDir tmp;
   const auto dem_path = (tmp / "dem.tif").string();

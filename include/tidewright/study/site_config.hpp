@@ -82,6 +82,7 @@ struct MapSettings {
   std::optional<double> dem_offset_m;  // water level = DEM elevation + offset
   bool same_datum = false;
   std::optional<std::filesystem::path> sea;       // vector polygon or raster mask
+  std::optional<double> sea_spread_to_m;          // the sea covers all it reaches at or below
   std::optional<std::filesystem::path> defences;  // lines or polygons with crest level
   std::string crest_attribute = "crest_m";
   int connectivity = 8;

@@ -1,12 +1,15 @@
 // Where the sea is: the union of a sea mask (an OGR polygon layer rasterised at cell centres,
 // or a GDAL raster whose non-zero cells are sea, resampled nearest to the DEM grid), seed
 // points, the DEM's edge cells at or below a level, and nodata cells declared sea. Vectors in
-// another CRS are reprojected to the DEM's with OGR; rasters are warped.
+// another CRS are reprojected to the DEM's with OGR; rasters are warped. Optionally the sea
+// then spreads over every cell it reaches at or below a stated level (today's water), so that
+// seeds stand for the whole water body rather than for a few cells of it.
 #pragma once
 
 #include <array>
 #include <cstdint>
 #include <optional>
+#include <span>
 #include <string>
 #include <vector>
 
@@ -19,6 +22,10 @@ struct SeaSource {
   std::vector<std::array<double, 2>> points_xy;  // in the DEM's CRS
   std::optional<double> edge_at_or_below_m;      // above the water-level datum
   bool nodata_is_sea = false;
+  // The sea also covers every cell it reaches at or below this level (m above the water-level
+  // datum), e.g. a high-water mark: such cells are today's water, not flooded land, so they
+  // count in no flooded area, volume or depth. Empty: the sea is the cells above and no more.
+  std::optional<double> spread_to_m;
 };
 
 struct SeaCells {
@@ -31,5 +38,14 @@ struct SeaCells {
 // sea found touches no valid DEM cell (nothing could flood).
 [[nodiscard]] SeaCells find_sea_cells(const Dem& dem, const SeaSource& source,
                                       Connectivity connectivity);
+
+// Spreads the sea over every cell whose flood threshold T (flood_threshold.hpp) is finite and at
+// most `level_m`: such a cell becomes sea (is_sea 1, T = -inf). Relabelling after the pass gives
+// every other cell the T that a pass seeded from the spread sea would: a path from the spread
+// sea to c with highest cell m extends to one from the seeds with highest max(level_m, m), and
+// any path from the seeds has a suffix from the spread sea no higher (tested against a re-seeded
+// pass in tests/terrain/flood_map_test.cpp). Returns the number of cells added; updates the
+// count and the description.
+std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m);
 
 }  // namespace tidewright::terrain
