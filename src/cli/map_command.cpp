@@ -9,6 +9,7 @@
 #include <gdal.h>
 
 #include <CLI/CLI.hpp>
+#include <algorithm>
 #include <cmath>
 #include <fstream>
 #include <iostream>
@@ -326,16 +327,38 @@ void print_summary(const terrain::MapSummary& s, const std::string& out) {
             << " sea, " << s.unreached_cells << " land cells never reached; areas " << s.area_method
             << ")\n";
   if (!s.levels.empty()) {
+    // Long scenario labels (a built-in pathway's runs to some 60 characters) would stretch every
+    // row: the table then shows S1, S2, ... and a key below it.
+    std::vector<std::string> labels;
+    for (const auto& l : s.levels) {
+      if (!l.level.scenario.empty() &&
+          std::find(labels.begin(), labels.end(), l.level.scenario) == labels.end()) {
+        labels.push_back(l.level.scenario);
+      }
+    }
+    constexpr std::size_t longest_shown = 16;  // characters; chosen here for 100-column terminals
+    const bool keyed = std::any_of(labels.begin(), labels.end(),
+                                   [](const std::string& x) { return x.size() > longest_shown; });
+    const auto shown = [&](const std::string& label) {
+      if (!keyed || label.empty()) return label;
+      const auto at = std::find(labels.begin(), labels.end(), label) - labels.begin();
+      return "S" + std::to_string(at + 1);
+    };
     report::TextTable t({"level_m", "year", "scenario", "flooded_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
                          "disconnected_cells", "disconnected_area_m2"});
     for (const auto& l : s.levels) {
       t.add_row({report::fixed(l.level.level_m, 3), l.level.year ? std::to_string(*l.level.year) : "",
-                 l.level.scenario, std::to_string(l.connected_cells),
+                 shown(l.level.scenario), std::to_string(l.connected_cells),
                  report::fixed(l.flooded_area_m2, 0), report::fixed(l.volume_m3, 0),
                  report::fixed(l.max_depth_m, 3), std::to_string(l.disconnected_cells),
                  report::fixed(l.disconnected_area_m2, 0)});
     }
     std::cout << t.render();
+    if (keyed) {
+      for (std::size_t i = 0; i < labels.size(); ++i) {
+        std::cout << "  S" << i + 1 << ": " << labels[i] << '\n';
+      }
+    }
   }
   std::cout << "Files:";
   for (const auto& f : s.files) std::cout << ' ' << f;

@@ -6,6 +6,7 @@
 // The DEM: TIDEWRIGHT_BENCH_DEM_SIZE x the same cells (default 5000), float32, 10 m cells in
 // UTM 33N, seeded multi-octave value noise (6 octaves, amplitude halving; chosen here) on a
 // seaward slope from -8 m to +12 m; sea = edge cells at or below 0 m.
+// A third peer is GDAL writing the map run's own products (BM_TerrainPeerGdalProductFloor).
 // Run: build/ci/tidewright_bench --benchmark_filter=Terrain (figures: docs/performance.md);
 // TIDEWRIGHT_BENCH_KEEP_DEM=FILE keeps the DEM for timing the command line on it.
 #include <benchmark/benchmark.h>
@@ -191,23 +192,79 @@ void BM_TerrainPeerGdalTranslate(benchmark::State& state) {
   }
 }
 
-// The whole map run: read the DEM, threshold, and extent + depth for N levels written as
-// compressed GeoTIFF (N = the benchmark argument).
-void BM_TerrainMapRun(benchmark::State& state) {
-  const auto& d = bench_dem();
+// The map request of the whole-run benchmarks: N levels 0.25, 0.50, ... m; sea = the edge cells
+// at or below 0 m, spread (--sea-spread-to 0) over all they reach at or below 0 m when `spread`.
+tw::MapRequest map_request(const BenchDem& d, std::int64_t levels, bool spread,
+                           const std::string& folder) {
   tw::MapRequest req;
   req.dem.path = d.path;
   req.dem.datum.kind = tw::DatumRelation::Kind::same;
   req.sea.edge_at_or_below_m = 0.0;
-  for (int i = 0; i < state.range(0); ++i) req.levels.push_back({0.25 * (i + 1), {}, ""});
-  req.out_dir = d.folder / "maps";
+  if (spread) req.sea.spread_to_m = 0.0;
+  for (std::int64_t i = 0; i < levels; ++i) {
+    req.levels.push_back({0.25 * static_cast<double>(i + 1), {}, ""});
+  }
+  req.out_dir = d.folder / folder;
   req.force = true;
+  return req;
+}
+
+// The whole map run: read the DEM, threshold, and extent + depth for N levels written as
+// compressed GeoTIFF (arguments: N levels, sea spread 0/1).
+void BM_TerrainMapRun(benchmark::State& state) {
+  const auto& d = bench_dem();
+  const auto req = map_request(d, state.range(0), state.range(1) != 0, "maps");
   for (auto _ : state) {
     auto s = tw::make_flood_maps(req);
     benchmark::DoNotOptimize(s.levels.data());
   }
   state.counters["cells_per_s"] = benchmark::Counter(static_cast<double>(d.shape.cells()),
                                                      benchmark::Counter::kIsIterationInvariantRate);
+}
+
+// The floor of the run's own outputs: gdal_translate writing the same three products
+// (threshold.tif, extent.tif, depth.tif of the same run, first copied uncompressed, untimed)
+// with the same creation options as the map writer (raster_writer.cpp). Whatever computes the
+// products, writing them costs at least this; compare BM_TerrainMapRun with the same arguments.
+// Counters: the seconds of each file.
+void BM_TerrainPeerGdalProductFloor(benchmark::State& state) {
+  const auto& d = bench_dem();
+  const auto folder = "floor-" + std::to_string(state.range(0)) + "-" + std::to_string(state.range(1));
+  (void)tw::make_flood_maps(map_request(d, state.range(0), state.range(1) != 0, folder));
+  const auto dir = d.folder / folder;
+  const std::string options =
+      "-q -co TILED=YES -co BLOCKXSIZE=256 -co BLOCKYSIZE=256 -co COMPRESS=DEFLATE "
+      "-co INTERLEAVE=BAND -co BIGTIFF=IF_SAFER -co NUM_THREADS=ALL_CPUS ";
+  const std::vector<std::pair<std::string, const char*>> products{
+      {"threshold", "3"}, {"extent", "2"}, {"depth", "3"}};
+  for (const auto& [name, predictor] : products) {
+    const auto src = (dir / (name + ".tif")).string();
+    const auto raw = (dir / ("raw-" + name + ".tif")).string();
+    if (seconds_of("gdal_translate -q -co TILED=YES -co BIGTIFF=YES '" + src + "' '" + raw + "'") <
+        0) {
+      state.SkipWithError("gdal_translate (Debian gdal-bin) failed");
+      return;
+    }
+  }
+  for (auto _ : state) {
+    double total = 0.0;
+    for (const auto& [name, predictor] : products) {
+      const auto raw = (dir / ("raw-" + name + ".tif")).string();
+      const auto out = (dir / ("copy-" + name + ".tif")).string();
+      std::filesystem::remove(out);
+      const double s = seconds_of("gdal_translate " + options + "-co PREDICTOR=" + predictor +
+                                  " '" + raw + "' '" + out + "'");
+      if (s < 0) {
+        state.SkipWithError("gdal_translate (Debian gdal-bin) failed");
+        return;
+      }
+      state.counters[name + "_s"] = s;
+      total += s;
+    }
+    state.SetIterationTime(total);
+  }
+  std::error_code ec;
+  std::filesystem::remove_all(dir, ec);
 }
 
 }  // namespace
@@ -221,4 +278,15 @@ BENCHMARK(BM_TerrainPeerGdalTranslate)
     ->Unit(benchmark::kMillisecond)
     ->UseManualTime()
     ->Iterations(3);
-BENCHMARK(BM_TerrainMapRun)->Arg(1)->Arg(20)->Unit(benchmark::kMillisecond)->Iterations(1);
+BENCHMARK(BM_TerrainMapRun)
+    ->ArgsProduct({{1, 20}, {0, 1}})
+    ->ArgNames({"levels", "spread"})
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1);
+BENCHMARK(BM_TerrainPeerGdalProductFloor)
+    ->Args({20, 0})
+    ->Args({20, 1})
+    ->ArgNames({"levels", "spread"})
+    ->Unit(benchmark::kMillisecond)
+    ->UseManualTime()
+    ->Iterations(1);

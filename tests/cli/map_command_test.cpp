@@ -5,7 +5,9 @@
 
 #include <cmath>
 #include <filesystem>
+#include <algorithm>
 #include <fstream>
+#include <sstream>
 
 #include "support/run_cli.hpp"
 #include "terrain/terrain_fixtures.hpp"
@@ -295,4 +297,31 @@ TEST(MapCommand, ProjectionOptionsRefuseWhatDoesNotFit) {
   // Without members these would be ignored silently.
   expect_input_error(run_cli(base + fit + " --level 1 --storminess-scale-per-yr 0.001" + tail),
                      "applies to projection members, and none were given", out);
+}
+
+TEST(MapCommand, LongScenarioLabelsGetAKeySoRowsStayNarrow) {
+  // A label over 16 characters is shown as S1 in the table, with the key below it; a short one
+  // as itself. The summary files keep the full label.
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const std::string label = "a long scenario label (illustrative, not official)";
+  const auto r = run_cli("map --dem " + shell_quote(dem) +
+                         " --same-datum --sea-edge-below 0 --level 1.5 --scenario " +
+                         shell_quote(label) + " --out " + shell_quote((tmp / "long").string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.out, HasSubstr("  S1: " + label + "\n"));
+  std::size_t widest = 0;
+  std::istringstream lines(r.out);
+  for (std::string line; std::getline(lines, line);) {
+    if (line.find("1.500") != std::string::npos) widest = std::max(widest, line.size());
+  }
+  EXPECT_GT(widest, 0U);
+  EXPECT_LT(widest, label.size() + 80);  // the row does not carry the label
+  EXPECT_THAT(read_all(tmp / "long" / "summary.csv"), HasSubstr(label));
+  const auto short_label = run_cli("map --dem " + shell_quote(dem) +
+                                   " --same-datum --sea-edge-below 0 --level 1.5 --scenario high --out " +
+                                   shell_quote((tmp / "short").string()));
+  ASSERT_EQ(short_label.exit_code, 0) << short_label.err;
+  EXPECT_THAT(short_label.out, HasSubstr(" high "));
+  EXPECT_THAT(short_label.out, ::testing::Not(HasSubstr("S1:")));
 }
