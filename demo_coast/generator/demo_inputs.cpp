@@ -25,6 +25,20 @@ std::string fixed(double v, int decimals) {
   return buf.data();
 }
 
+// Mean high water springs of the invented tide: Z0 + H(M2) + H(S2), the usual approximation
+// (Pugh 1987, Tides, Surges and Mean Sea-Level, ch. 4; from memory). The sea spreads over the
+// ground it reaches below this level, so harbour basin, river bed and tidal flats are not
+// counted as flooded land in the maps and their tables.
+double spring_high_water_m(const TideRecordDesign& rd) {
+  double m2 = 0.0;
+  double s2 = 0.0;
+  for (const auto& c : rd.constituents) {
+    if (c.name == "M2") m2 = c.amplitude_m;
+    if (c.name == "S2") s2 = c.amplitude_m;
+  }
+  return rd.mean_level_m + m2 + s2;
+}
+
 }  // namespace
 
 TideRecordDesign demo_record_design(bool small) {
@@ -170,6 +184,8 @@ std::string demo_site_toml(unsigned long long seed, bool small) {
     << "dem = \"" << dem_name << "\"            # float32, nodata declared, sea is negative\n"
     << "dem_offset_m = " << fixed(dem_datum_offset_m, 1) << "                 # DEM datum = gauge datum\n"
     << "sea = \"" << sea_name << "\"        # polygon of open sea\n"
+    << "sea_spread_to_m = " << fixed(spring_high_water_m(rd), 2)
+    << "          # mean high water springs: tidal ground is sea, not flooded land\n"
     << "defences = \"" << defences_name << "\"  # lines with crest_m (metres above QCD)\n"
     << "crest_attribute = \"crest_m\"\n"
     << "connectivity = 8\n"

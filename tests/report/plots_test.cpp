@@ -307,7 +307,7 @@ TEST(Maps, CategoricalMapPaintsEachClassItsColour) {
   r.values.resize(5000);
   for (int i = 0; i < 50; ++i) {
     for (int j = 0; j < 100; ++j)
-      r.values[static_cast<std::size_t>(i) * 100 + j] = j < 50 ? 1.0F : 2.0F;
+      r.values[static_cast<std::size_t>(i) * 100 + j] = j < 40 ? 1.0F : (j < 80 ? 2.0F : 3.0F);
   }
   tr::CategoricalMapInput in;
   in.title = "Extent";
@@ -325,9 +325,12 @@ TEST(Maps, CategoricalMapPaintsEachClassItsColour) {
   };
   const auto left = png_summary(c, at(0.3, 0.4))["pixel"];
   const auto right = png_summary(c, at(0.7, 0.4))["pixel"];
-  const tr::Colour c1 = tr::extent_categories()[1].colour, c2 = tr::extent_categories()[2].colour;
+  const auto sea = png_summary(c, at(0.9, 0.4))["pixel"];
+  const tr::Colour c1 = tr::extent_categories()[1].colour, c2 = tr::extent_categories()[2].colour,
+                   c3 = tr::extent_categories()[3].colour;
   EXPECT_EQ(left, json({c1.r, c1.g, c1.b}));
   EXPECT_EQ(right, json({c2.r, c2.g, c2.b}));
+  EXPECT_EQ(sea, json({c3.r, c3.g, c3.b}));
 }
 
 TEST(Palette, ViridisFollowsMatplotlib) {
