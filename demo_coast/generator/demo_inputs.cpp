@@ -182,7 +182,8 @@ std::string demo_site_toml(unsigned long long seed, bool small) {
     << ", " << fixed(lv.saddle_m, 1) << "]   # quay, seawall crest, Orrin gap (m above QCD)\n"
     << "\n[map]\n"
     << "dem = \"" << dem_name << "\"            # float32, nodata declared, sea is negative\n"
-    << "dem_offset_m = " << fixed(dem_datum_offset_m, 1) << "                 # DEM datum = gauge datum\n"
+    << "dem_offset_m = " << fixed(dem_datum_offset_m, 1)
+    << "                 # DEM datum = gauge datum\n"
     << "sea = \"" << sea_name << "\"        # polygon of open sea\n"
     << "sea_spread_to_m = " << fixed(spring_high_water_m(rd), 2)
     << "          # mean high water springs: tidal ground is sea, not flooded land\n"

@@ -336,7 +336,8 @@ void print_summary(const terrain::MapSummary& s, const std::string& out) {
         labels.push_back(l.level.scenario);
       }
     }
-    constexpr std::size_t longest_shown = 16;  // characters; chosen here for 100-column terminals
+    // Characters; chosen here: about as wide as a number column.
+    constexpr std::size_t longest_shown = 16;
     const bool keyed = std::any_of(labels.begin(), labels.end(),
                                    [](const std::string& x) { return x.size() > longest_shown; });
     const auto shown = [&](const std::string& label) {
@@ -347,11 +348,11 @@ void print_summary(const terrain::MapSummary& s, const std::string& out) {
     report::TextTable t({"level_m", "year", "scenario", "flooded_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
                          "disconnected_cells", "disconnected_area_m2"});
     for (const auto& l : s.levels) {
-      t.add_row({report::fixed(l.level.level_m, 3), l.level.year ? std::to_string(*l.level.year) : "",
-                 shown(l.level.scenario), std::to_string(l.connected_cells),
-                 report::fixed(l.flooded_area_m2, 0), report::fixed(l.volume_m3, 0),
-                 report::fixed(l.max_depth_m, 3), std::to_string(l.disconnected_cells),
-                 report::fixed(l.disconnected_area_m2, 0)});
+      t.add_row({report::fixed(l.level.level_m, 3),
+                 l.level.year ? std::to_string(*l.level.year) : "", shown(l.level.scenario),
+                 std::to_string(l.connected_cells), report::fixed(l.flooded_area_m2, 0),
+                 report::fixed(l.volume_m3, 0), report::fixed(l.max_depth_m, 3),
+                 std::to_string(l.disconnected_cells), report::fixed(l.disconnected_area_m2, 0)});
     }
     std::cout << t.render();
     if (keyed) {

@@ -529,13 +529,23 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                                    ", reference " + c.projection.reference},
                 {"Seed", std::to_string(c.seed)}};
   for (const auto& s : c.scenarios) doc.inputs.push_back({"Scenario " + s.name, s.source == "pathway" ? "built-in pathway " + s.pathway : s.path->filename().string()});
-  if (c.map.enabled) doc.inputs.push_back({"DEM", c.map.dem.filename().string()});
+  if (c.map.enabled) {
+    doc.inputs.push_back({"DEM", c.map.dem.filename().string()});
+    if (c.map.sea) doc.inputs.push_back({"Sea", c.map.sea->filename().string()});
+  }
   doc.assumptions = {"Still water only: tide plus surge, no waves.",
                      "Storm statistics stay as today's unless a storminess change is given (here: " +
                          fixed(c.planning.storminess_scale_per_yr, 4) + " of the scale per year).",
                      "Fingerprint factors not given default to 1, which ignores regional patterns of sea-level change.",
                      "Vertical land motion " + fixed(c.local.land_motion_mm_per_yr, 2) + " ± " +
                          fixed(c.local.land_motion_sd_mm_per_yr, 2) + " mm/yr (positive = uplift)."};
+  if (c.map.enabled && c.map.sea_spread_to_m) {
+    doc.assumptions.push_back(
+        "Maps: ground the sea reaches at or below " + fixed(*c.map.sea_spread_to_m, 2) + " " +
+        level_unit +
+        " is today's water (sea), not flooded land: it counts in no flooded area or depth and "
+        "has no AEP in the maps.");
+  }
   doc.methods = {
       {"Extreme-value fit", "GEV, Gumbel or GPD by maximum likelihood with profile-likelihood intervals",
        "Coles, S. (2001) An Introduction to Statistical Modeling of Extreme Values. Springer."},

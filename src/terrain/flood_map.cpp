@@ -257,6 +257,21 @@ MapSummary make_flood_maps(const MapRequest& req) {
       throw InputError("--level", "a level is not a finite number", "give levels in metres");
     }
   }
+  if (req.sea.spread_to_m) {
+    const double spread = *req.sea.spread_to_m;
+    if (!std::isfinite(spread)) {
+      throw InputError("--sea-spread-to", "the level is not a finite number",
+                       "give today's high-water level in metres above the water-level datum");
+    }
+    for (const auto& l : req.levels) {
+      if (l.level_m < spread) {
+        throw InputError("--sea-spread-to",
+                         "the sea spread to " + fixed(spread) + " m lies above the mapped level " +
+                             fixed(l.level_m) + " m, whose land between the two would show as sea",
+                         "give a spread level at or below every mapped level (today's high water)");
+      }
+    }
+  }
   if (req.polygons && req.levels.empty()) {
     throw InputError("--polygons", "extent polygons need at least one level", "give --level M");
   }

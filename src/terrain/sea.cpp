@@ -5,6 +5,7 @@
 
 #include <cmath>
 #include <limits>
+#include <stdexcept>
 
 #include "tidewright/common/error.hpp"
 #include "tidewright/terrain/gdal_support.hpp"
@@ -163,19 +164,30 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
 
 std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m) {
   if (threshold_m.size() != sea.is_sea.size()) {
-    throw InputError("sea", "the threshold raster and the sea mask differ in size", "report this");
+    throw std::logic_error("spread_sea: the threshold raster and the sea mask differ in size");
   }
   if (!std::isfinite(level_m)) {
-    throw InputError("--sea-spread-to", "the level is not a finite number", "give metres");
+    throw InputError("--sea-spread-to", "the level is not a finite number",
+                     "give today's high-water level in metres above the water-level datum");
   }
   std::size_t added = 0;
+  bool land_left = false;
   for (std::size_t i = 0; i < threshold_m.size(); ++i) {
     const float t = threshold_m[i];
-    if (std::isfinite(t) && static_cast<double>(t) <= level_m) {
+    if (!std::isfinite(t)) continue;
+    if (static_cast<double>(t) <= level_m) {
       threshold_m[i] = -std::numeric_limits<float>::infinity();
       sea.is_sea[i] = 1;
       ++added;
+    } else {
+      land_left = true;
     }
+  }
+  if (!land_left) {
+    throw InputError("--sea-spread-to",
+                     "the sea spread to " + gdal::number_text(level_m) +
+                         " m covers all the land it can reach, so nothing is left to flood",
+                     "give today's high-water level in metres above the water-level datum");
   }
   sea.count += added;
   sea.description += "; spread over the " + std::to_string(added) +

@@ -6,7 +6,9 @@
 // The DEM: TIDEWRIGHT_BENCH_DEM_SIZE x the same cells (default 5000), float32, 10 m cells in
 // UTM 33N, seeded multi-octave value noise (6 octaves, amplitude halving; chosen here) on a
 // seaward slope from -8 m to +12 m; sea = edge cells at or below 0 m.
-// A third peer is GDAL writing the map run's own products (BM_TerrainPeerGdalProductFloor).
+// Two more peers bound a many-level run from below: GDAL writing the run's own products
+// (BM_TerrainPeerGdalProductFloor) and GDAL writing as many constant bands
+// (BM_TerrainPeerGdalConstantBands).
 // Run: build/ci/tidewright_bench --benchmark_filter=Terrain (figures: docs/performance.md);
 // TIDEWRIGHT_BENCH_KEEP_DEM=FILE keeps the DEM for timing the command line on it.
 #include <benchmark/benchmark.h>
@@ -229,7 +231,8 @@ void BM_TerrainMapRun(benchmark::State& state) {
 // Counters: the seconds of each file.
 void BM_TerrainPeerGdalProductFloor(benchmark::State& state) {
   const auto& d = bench_dem();
-  const auto folder = "floor-" + std::to_string(state.range(0)) + "-" + std::to_string(state.range(1));
+  const auto folder =
+      "floor-" + std::to_string(state.range(0)) + "-" + std::to_string(state.range(1));
   (void)tw::make_flood_maps(map_request(d, state.range(0), state.range(1) != 0, folder));
   const auto dir = d.folder / folder;
   const std::string options =
@@ -267,6 +270,31 @@ void BM_TerrainPeerGdalProductFloor(benchmark::State& state) {
   std::filesystem::remove_all(dir, ec);
 }
 
+// Lower bound without tidewright: GDAL writing N all-NaN float32 bands and N all-zero byte
+// bands of the DEM's size with the map writer's options (terrain_peer_constant_bands.py, Debian
+// /usr/bin/python3 with python3-gdal). Counters: the seconds of each file.
+void BM_TerrainPeerGdalConstantBands(benchmark::State& state) {
+  const auto& d = bench_dem();
+  const std::string script =
+      std::string(TIDEWRIGHT_SOURCE_DIR) + "/tests/benchmarks/terrain_peer_constant_bands.py";
+  for (auto _ : state) {
+    std::string out;
+    if (seconds_of("/usr/bin/python3 '" + script + "' " + std::to_string(d.shape.cols) + " " +
+                       std::to_string(d.shape.rows) + " " + std::to_string(state.range(0)) + " '" +
+                       d.folder.string() + "'",
+                   &out) < 0) {
+      state.SkipWithError("the peer needs /usr/bin/python3 with python3-gdal and python3-numpy");
+      return;
+    }
+    std::size_t used = 0;
+    const double float_s = std::stod(out, &used);
+    const double byte_s = std::stod(out.substr(used));
+    state.counters["nan_float32_s"] = float_s;
+    state.counters["zero_byte_s"] = byte_s;
+    state.SetIterationTime(float_s + byte_s);
+  }
+}
+
 }  // namespace
 
 BENCHMARK(BM_TerrainFloodThreshold)->Unit(benchmark::kMillisecond)->Iterations(3);
@@ -282,6 +310,12 @@ BENCHMARK(BM_TerrainMapRun)
     ->ArgsProduct({{1, 20}, {0, 1}})
     ->ArgNames({"levels", "spread"})
     ->Unit(benchmark::kMillisecond)
+    ->Iterations(1);
+BENCHMARK(BM_TerrainPeerGdalConstantBands)
+    ->Arg(20)
+    ->ArgName("levels")
+    ->Unit(benchmark::kMillisecond)
+    ->UseManualTime()
     ->Iterations(1);
 BENCHMARK(BM_TerrainPeerGdalProductFloor)
     ->Args({20, 0})

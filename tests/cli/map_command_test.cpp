@@ -3,10 +3,11 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <filesystem>
-#include <algorithm>
 #include <fstream>
+#include <nlohmann/json.hpp>
 #include <sstream>
 
 #include "support/run_cli.hpp"
@@ -318,10 +319,31 @@ TEST(MapCommand, LongScenarioLabelsGetAKeySoRowsStayNarrow) {
   EXPECT_GT(widest, 0U);
   EXPECT_LT(widest, label.size() + 80);  // the row does not carry the label
   EXPECT_THAT(read_all(tmp / "long" / "summary.csv"), HasSubstr(label));
-  const auto short_label = run_cli("map --dem " + shell_quote(dem) +
-                                   " --same-datum --sea-edge-below 0 --level 1.5 --scenario high --out " +
-                                   shell_quote((tmp / "short").string()));
+  const auto short_label =
+      run_cli("map --dem " + shell_quote(dem) +
+              " --same-datum --sea-edge-below 0 --level 1.5 --scenario high --out " +
+              shell_quote((tmp / "short").string()));
   ASSERT_EQ(short_label.exit_code, 0) << short_label.err;
   EXPECT_THAT(short_label.out, HasSubstr(" high "));
   EXPECT_THAT(short_label.out, ::testing::Not(HasSubstr("S1:")));
+}
+
+TEST(MapCommand, SeaSpreadMakesTheBeachSeaAndSaysSo) {
+  // The profile DEM spread to 0.5 m: the beach (T 0.5) becomes sea, so at 1.5 m no land floods
+  // and the bowl behind the ridge stays low-lying (3 cells); 6 sea cells in the summary.
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const auto out = tmp / "maps";
+  const auto r = run_cli("map --dem " + shell_quote(dem) +
+                         " --same-datum --sea-edge-below 0 --sea-spread-to 0.5 --level 1.5 --quiet "
+                         "--out " +
+                         shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_EQ(read_all(out / "summary.csv"),
+            "level_m,year,scenario,connected_cells,disconnected_cells,flooded_area_m2,"
+            "disconnected_area_m2,volume_m3,max_depth_m\n"
+            "1.5000,,,0,3,0.00,300.00,0.00,0.0000\n");
+  const auto summary = nlohmann::json::parse(read_all(out / "summary.json"));
+  EXPECT_EQ(summary["sea_cells"], 6);
+  EXPECT_THAT(summary["sea"].get<std::string>(), HasSubstr("at or below 0.5 m"));
 }

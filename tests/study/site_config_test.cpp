@@ -97,8 +97,8 @@ TEST(SiteConfig, ImpossibleValuesAreRefused) {
 TEST(SiteConfig, SeaSpreadLevelIsReadAndMustBeFinite) {
   TempDir dir;
   const std::string map = "[map]\ndem = \"dem.tif\"\nsame_datum = true\nsea = \"sea.geojson\"\n";
-  tidewright::write_text_file(dir / "site.toml", std::string(minimal) + map + "sea_spread_to_m = 1.1\n",
-                              false);
+  tidewright::write_text_file(dir / "site.toml",
+                              std::string(minimal) + map + "sea_spread_to_m = 1.1\n", false);
   const auto c = load_site_file(dir / "site.toml");
   ASSERT_TRUE(c.map.sea_spread_to_m);
   EXPECT_DOUBLE_EQ(*c.map.sea_spread_to_m, 1.1);

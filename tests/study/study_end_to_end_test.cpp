@@ -46,6 +46,11 @@ TEST_F(SmallDemo, WritesTheReportFolder) {
   EXPECT_THAT(html, HasSubstr("invented"));
   EXPECT_EQ(html.find("http://"), std::string::npos);
   EXPECT_EQ(html.find("https://"), std::string::npos);
+  // The site file's map.sea_spread_to_m (mean high water springs, 3.70 m) reaches the map and the
+  // report's assumptions.
+  const auto maps = nlohmann::json::parse(read_all(study / "maps" / "summary.json"));
+  EXPECT_THAT(maps["sea"].get<std::string>(), HasSubstr("cells it reaches at or below 3.7 m"));
+  EXPECT_THAT(html, HasSubstr("at or below 3.70 m above"));
 }
 
 TEST_F(SmallDemo, FitAndAllowancesEqualTheStageCommands) {

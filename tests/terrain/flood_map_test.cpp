@@ -424,6 +424,17 @@ TEST(TerrainMap, SpreadSeaIsNotFloodedLand) {
   const std::string meta = ext->GetMetadataItem("TIDEWRIGHT_SEA");
   EXPECT_NE(meta.find("spread over the 6 cells it reaches at or below 0 m"), std::string::npos)
       << meta;
+  // A mapped level below the spread level would show dry land between the two as sea: refused
+  // before any work, with no output.
+  req.sea.spread_to_m = 2.0;
+  req.out_dir = tmp / "below";
+  expect_refused([&] { (void)tw::make_flood_maps(req); }, "lies above the mapped level 1.500 m");
+  EXPECT_FALSE(std::filesystem::exists(tmp / "below"));
+  // A spread over every cell the sea reaches leaves nothing to flood: refused.
+  req.sea.spread_to_m = 3.0;
+  req.levels = {{3.5, {}, ""}};
+  expect_refused([&] { (void)tw::make_flood_maps(req); }, "covers all the land it can reach");
+  EXPECT_FALSE(std::filesystem::exists(tmp / "below"));
 }
 
 TEST(TerrainMap, BadInputLeavesNoOutput) {

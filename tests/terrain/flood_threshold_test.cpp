@@ -255,12 +255,16 @@ TEST(SeaSpread, CoversTheWaterBodyButNotTheBowlBehindTheRidge) {
 }
 
 TEST(SeaSpread, RelabellingEqualsAPassSeededFromTheSpreadSea) {
-  // Seed 20261202; 1000 grids from random_case, a spread level drawn from the same lattice (so cells lie exactly on it): the relabelled thresholds equal those of
-  // the relaxation reference seeded from the spread sea, cell for cell, both connectivities.
-  // Measured: all 2000 agree; the spread added no cell in 383 of them and up to 104 in others.
+  // Seed 20261202; 1000 grids from random_case, a spread level drawn from the same lattice (so
+  // cells lie exactly on it): the relabelled thresholds equal those of the relaxation reference
+  // seeded from the spread sea, cell for cell, both connectivities. Where the spread would cover
+  // all reachable land, spread_sea must refuse instead. Measured: 325 of the 2000 cases were
+  // refused (many grids are tiny); of the 1675 compared, the spread added no cell in 262 and up
+  // to 99 cells in others.
   std::mt19937_64 rng(20261202ULL);
   std::uniform_int_distribution<int> level(-4, 8);
   int compared = 0;
+  int refused = 0;
   std::size_t most_added = 0;
   for (int trial = 0; trial < 1000; ++trial) {
     const Case c = random_case(rng);
@@ -269,17 +273,41 @@ TEST(SeaSpread, RelabellingEqualsAPassSeededFromTheSpreadSea) {
       SCOPED_TRACE("trial " + std::to_string(trial) + " k=" + std::to_string(static_cast<int>(k)));
       auto t = run(c, k);
       Case reseeded = c;
+      bool land_left = false;
       for (std::size_t i = 0; i < t.size(); ++i) {
-        if (std::isfinite(t[i]) && static_cast<double>(t[i]) <= spread_m) reseeded.sea[i] = 1;
+        if (!std::isfinite(t[i])) continue;
+        if (static_cast<double>(t[i]) <= spread_m) {
+          reseeded.sea[i] = 1;
+        } else {
+          land_left = true;
+        }
       }
       tw::SeaCells sea{c.sea, 0, ""};
+      if (!land_left) {
+        EXPECT_THROW((void)tw::spread_sea(sea, t, spread_m), tidewright::InputError);
+        ++refused;
+        continue;
+      }
       most_added = std::max(most_added, tw::spread_sea(sea, t, spread_m));
-      EXPECT_EQ(sea.is_sea, reseeded.sea);
       expect_same(t, relaxation_reference(reseeded, k));
       ++compared;
     }
     if (::testing::Test::HasFailure()) break;
   }
-  EXPECT_EQ(compared, 2000);
+  EXPECT_EQ(compared + refused, 2000);
+  EXPECT_GT(compared, 1000);
   EXPECT_GT(most_added, 20U);  // the spread did real work in some grids
+}
+
+TEST(SeaSpread, RefusesToCoverAllLand) {
+  const Case c = profile({0.0F, 0.5F, 3.0F, 1.0F, 2.0F});
+  auto t = run(c, tw::Connectivity::eight);
+  tw::SeaCells sea{c.sea, 3, "test"};
+  try {
+    (void)tw::spread_sea(sea, t, 3.0);
+    ADD_FAILURE() << "no error";
+  } catch (const tidewright::InputError& e) {
+    EXPECT_NE(std::string(e.what()).find("covers all the land it can reach"), std::string::npos)
+        << e.what();
+  }
 }

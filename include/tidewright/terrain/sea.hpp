@@ -24,7 +24,8 @@ struct SeaSource {
   bool nodata_is_sea = false;
   // The sea also covers every cell it reaches at or below this level (m above the water-level
   // datum), e.g. a high-water mark: such cells are today's water, not flooded land, so they
-  // count in no flooded area, volume or depth. Empty: the sea is the cells above and no more.
+  // count in no flooded area, volume or depth, and have no AEP or first year (sea is blank).
+  // Mapped levels must not lie below it. Empty: the sea is the cells above and no more.
   std::optional<double> spread_to_m;
 };
 
@@ -44,8 +45,8 @@ struct SeaCells {
 // every other cell the T that a pass seeded from the spread sea would: a path from the spread
 // sea to c with highest cell m extends to one from the seeds with highest max(level_m, m), and
 // any path from the seeds has a suffix from the spread sea no higher (tested against a re-seeded
-// pass in tests/terrain/flood_map_test.cpp). Returns the number of cells added; updates the
-// count and the description.
+// pass in tests/terrain/flood_threshold_test.cpp). Returns the number of cells added; updates
+// the count and the description. Throws InputError when no land with a finite T is left.
 std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m);
 
 }  // namespace tidewright::terrain

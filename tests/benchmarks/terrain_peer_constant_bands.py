@@ -1,0 +1,39 @@
+#!/usr/bin/python3
+"""Peer for tests/benchmarks/terrain_bench.cpp: a lower bound of a many-level map run that needs
+no tidewright at all. GDAL writes N float32 bands that are all nodata (NaN, as a depth band is
+where nothing floods) and N byte bands that are all 0, each as large as the DEM, with the map
+writer's creation options (src/terrain/raster_writer.cpp). Content that compresses to almost
+nothing still passes through the predictor and the compressor, so a run writing N depth and N
+extent bands costs at least this. Prints the wall-clock seconds of the float32 file, then of the
+byte file.
+
+usage: terrain_peer_constant_bands.py COLUMNS ROWS BANDS FOLDER
+"""
+import os
+import sys
+import time
+
+import numpy as np
+from osgeo import gdal
+
+gdal.UseExceptions()
+cols, rows, bands = int(sys.argv[1]), int(sys.argv[2]), int(sys.argv[3])
+folder = sys.argv[4]
+common = ["TILED=YES", "BLOCKXSIZE=256", "BLOCKYSIZE=256", "COMPRESS=DEFLATE", "INTERLEAVE=BAND",
+          "BIGTIFF=IF_SAFER", "NUM_THREADS=ALL_CPUS"]
+seconds = []
+for name, gdal_type, value, predictor in [("nan-bands.tif", gdal.GDT_Float32, np.float32(np.nan), "3"),
+                                          ("zero-bands.tif", gdal.GDT_Byte, np.uint8(0), "2")]:
+    block = np.full((rows, cols), value)
+    path = os.path.join(folder, name)
+    start = time.perf_counter()
+    ds = gdal.GetDriverByName("GTiff").Create(path, cols, rows, bands, gdal_type,
+                                              common + ["PREDICTOR=" + predictor])
+    for b in range(1, bands + 1):
+        band = ds.GetRasterBand(b)
+        band.WriteArray(block)
+        band.FlushCache()
+    ds = None
+    seconds.append(time.perf_counter() - start)
+    os.remove(path)
+print(" ".join("%.3f" % s for s in seconds))
