@@ -347,3 +347,19 @@ TEST(MapCommand, SeaSpreadMakesTheBeachSeaAndSaysSo) {
   EXPECT_EQ(summary["sea_cells"], 6);
   EXPECT_THAT(summary["sea"].get<std::string>(), HasSubstr("at or below 0.5 m"));
 }
+
+TEST(MapCommand, ProgressBarInGdalsStyleUnlessQuiet) {
+  // GDAL's terminal progress ("0...10...20 ... 100 - done.") on standard output; --quiet leaves
+  // standard output empty.
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const std::string args =
+      "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 1.5 --out ";
+  const auto loud = run_cli(args + shell_quote((tmp / "loud").string()));
+  ASSERT_EQ(loud.exit_code, 0) << loud.err;
+  EXPECT_THAT(loud.out, HasSubstr("0...10...20...30...40...50...60...70...80...90...100 - done."));
+  const auto quiet = run_cli(args + shell_quote((tmp / "quiet").string()) + " --quiet");
+  ASSERT_EQ(quiet.exit_code, 0) << quiet.err;
+  EXPECT_EQ(quiet.out, "");
+  EXPECT_EQ(quiet.err, "");
+}

@@ -7,7 +7,9 @@
 #include <cmath>
 #include <filesystem>
 #include <limits>
+#include <memory>
 #include <nlohmann/json.hpp>
+#include <stdexcept>
 
 #include "support/run_cli.hpp"
 #include "terrain/terrain_fixtures.hpp"
@@ -47,6 +49,31 @@ template <typename F>
 void expect_refused(F&& f, const std::string& text) {
   const std::string message = input_error(std::forward<F>(f));
   EXPECT_NE(message.find(text), std::string::npos) << "message: '" << message << "'";
+}
+
+// Points given in UTM 33N (x, y) as WGS 84 (lon, lat), through PROJ.
+std::vector<std::pair<double, double>> utm33_to_wgs84(std::vector<std::pair<double, double>> xy) {
+  OGRSpatialReference utm;
+  utm.importFromEPSG(32633);
+  OGRSpatialReference wgs;
+  wgs.importFromEPSG(4326);
+  utm.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
+  wgs.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
+  std::unique_ptr<OGRCoordinateTransformation> ct(OGRCreateCoordinateTransformation(&utm, &wgs));
+  for (auto& [x, y] : xy) {
+    if (ct == nullptr || !ct->Transform(1, &x, &y)) throw std::runtime_error("PROJ transform");
+  }
+  return xy;
+}
+
+// A closed WKT ring of the points.
+std::string wkt_ring(const std::vector<std::pair<double, double>>& points) {
+  std::string ring;
+  for (std::size_t i = 0; i <= points.size(); ++i) {
+    const auto& [x, y] = points[i % points.size()];
+    ring += (i ? "," : "") + std::to_string(x) + " " + std::to_string(y);
+  }
+  return ring;
 }
 
 // Area (m^2) of the WGS 84 cell between the parallels phi1 < phi2 and meridians dlon degrees
@@ -112,19 +139,10 @@ TEST(TerrainDem, OffsetRasterIsResampledBilinearlyToTheDemGrid) {
   auto src = same_datum(dem_path);
   src.datum = {tw::DatumRelation::Kind::raster, 0.0, off_path};
   const auto dem = tw::read_dem(src);
-  OGRSpatialReference utm;
-  utm.importFromEPSG(32633);
-  OGRSpatialReference wgs;
-  wgs.importFromEPSG(4326);
-  utm.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
-  wgs.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
-  std::unique_ptr<OGRCoordinateTransformation> ct(OGRCreateCoordinateTransformation(&utm, &wgs));
   for (int r = 0; r < 4; ++r) {
     for (int c = 0; c < 4; ++c) {
-      double x = 500005.0 + 10.0 * c;
-      double y = 5999995.0 - 10.0 * r;
-      ct->Transform(1, &x, &y);
-      EXPECT_NEAR(dem.elevation_m[static_cast<std::size_t>(r * 4 + c)], 1.0 + (x - 14.9), 2e-6);
+      const double lon = utm33_to_wgs84({{500005.0 + 10.0 * c, 5999995.0 - 10.0 * r}})[0].first;
+      EXPECT_NEAR(dem.elevation_m[static_cast<std::size_t>(r * 4 + c)], 1.0 + (lon - 14.9), 2e-6);
     }
   }
 }
@@ -169,22 +187,8 @@ TEST(TerrainSea, PolygonInAnotherCrsIsReprojected) {
   TempDir tmp;
   const auto dem_path = (tmp / "dem.tif").string();
   write_raster(dem_path, 5, 3, utm_10m, 32633, std::vector<double>(15, 1.0));
-  OGRSpatialReference utm;
-  utm.importFromEPSG(32633);
-  OGRSpatialReference wgs;
-  wgs.importFromEPSG(4326);
-  utm.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
-  wgs.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
-  std::unique_ptr<OGRCoordinateTransformation> ct(OGRCreateCoordinateTransformation(&utm, &wgs));
-  std::string ring;
-  for (auto [x, y] : std::vector<std::pair<double, double>>{{499990, 6000010},
-                                                            {500010, 6000010},
-                                                            {500010, 5999960},
-                                                            {499990, 5999960},
-                                                            {499990, 6000010}}) {
-    ct->Transform(1, &x, &y);
-    ring += (ring.empty() ? "" : ",") + std::to_string(x) + " " + std::to_string(y);
-  }
+  const std::string ring = wkt_ring(
+      utm33_to_wgs84({{499990, 6000010}, {500010, 6000010}, {500010, 5999960}, {499990, 5999960}}));
   const auto sea_path = (tmp / "sea.geojson").string();
   write_vector(sea_path, "GeoJSON", 4326, {{"POLYGON((" + ring + "))", {}}}, "");
   const auto dem = tw::read_dem(same_datum(dem_path));
@@ -270,6 +274,39 @@ TEST(TerrainDefences, DiagonalWallHoldsUnderEightConnectivity) {
     for (std::size_t c = r + 2; c < 20; ++c) behind += map.threshold_m[r * 20 + c] == 5.0F;
   }
   EXPECT_EQ(behind, 18U * 19U / 2U);  // every cell strictly above the burned band
+}
+
+TEST(TerrainDefences, ShapefileLinesAndGeoJsonPolygonsHoldToTheirCrest) {
+  // 20 x 20 cells at 0 m, sea in the bottom-left cell. A wall across the whole grid through
+  // column 10 holds the land east of it dry up to its crest: T = crest there, 0 west of it. The
+  // same wall as an ESRI Shapefile line (crest 5 m) and as a GeoJSON polygon two cells wide in
+  // WGS 84 (crest 4 m), reprojected to the DEM's UTM 33N by OGR.
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 20, 20, utm_10m, 32633, std::vector<double>(400, 0.0));
+  tw::SeaSource sea;
+  sea.points_xy = {{500005.0, 5999805.0}};
+  const auto line = (tmp / "wall.shp").string();
+  write_vector(line, "ESRI Shapefile", 32633, {{"LINESTRING(500105 6000010,500105 5999790)", 5.0}});
+  // The UTM 33N rectangle x 500095..500125, y 5999780..6000020 (half a cell wider than
+  // columns 10-11 on each side) in WGS 84 (lon, lat), through PROJ.
+  const std::string ring = wkt_ring(
+      utm33_to_wgs84({{500095, 6000020}, {500125, 6000020}, {500125, 5999780}, {500095, 5999780}}));
+  const auto polygon = (tmp / "wall.geojson").string();
+  write_vector(polygon, "GeoJSON", 4326, {{"POLYGON((" + ring + "))", 4.0}});
+  for (const auto& [path, crest] :
+       std::vector<std::pair<std::string, float>>{{line, 5.0F}, {polygon, 4.0F}}) {
+    SCOPED_TRACE(path);
+    const auto map = tw::prepare_flood_threshold(same_datum(dem_path), sea,
+                                                 tw::DefenceSource{path, "", "crest_m", false},
+                                                 tw::Connectivity::eight);
+    ASSERT_TRUE(map.defences);
+    for (std::size_t r = 0; r < 20; ++r) {
+      EXPECT_EQ(map.threshold_m[r * 20 + 5], 0.0F) << "row " << r;
+      EXPECT_EQ(map.threshold_m[r * 20 + 19], crest) << "row " << r;
+      EXPECT_EQ(map.dem.elevation_m[r * 20 + 10], crest) << "row " << r;  // burned in
+    }
+  }
 }
 
 TEST(TerrainDefences, CrestAttributeMustExistAndBeSet) {
@@ -491,6 +528,38 @@ TEST(TerrainSea, RasterMaskNonZeroCellsAreSea) {
   src.mask_path = far_path;
   expect_refused([&] { (void)tw::find_sea_cells(dem, src, tw::Connectivity::four); },
                  "covers no cell of the DEM");
+}
+
+TEST(TerrainSea, RasterMaskInAnotherCrsIsWarpedToTheDemGrid) {
+  // A WGS 84 byte mask, 1e-5 degree cells (about 0.7 m by 1.1 m here), that is 1 west of the
+  // meridian through x = 500010 m (the edge between the DEM's columns 0 and 1) and 0 east of
+  // it. Warped with nearest resampling to the UTM 33N DEM, column 0 is sea, columns 1-2 not.
+  TempDir tmp;
+  const auto dem_path = (tmp / "dem.tif").string();
+  write_raster(dem_path, 3, 2, utm_10m, 32633, {0, 1, 2, 0, 1, 2});
+  const auto corners = utm33_to_wgs84({{499990, 6000010}, {500040, 5999970}, {500010, 6000000}});
+  const double west = corners[0].first;
+  const double north = corners[0].second;
+  const double edge_lon = corners[2].first;
+  const double step = 1e-5;
+  const int cols = static_cast<int>(std::ceil((corners[1].first - west) / step));
+  const int rows = static_cast<int>(std::ceil((north - corners[1].second) / step));
+  std::vector<double> mask(static_cast<std::size_t>(cols) * static_cast<std::size_t>(rows));
+  for (int r = 0; r < rows; ++r) {
+    for (int c = 0; c < cols; ++c) {
+      const double lon = west + (c + 0.5) * step;
+      mask[static_cast<std::size_t>(r) * static_cast<std::size_t>(cols) +
+           static_cast<std::size_t>(c)] = lon < edge_lon ? 1.0 : 0.0;
+    }
+  }
+  const auto mask_path = (tmp / "mask_wgs84.tif").string();
+  write_raster(mask_path, cols, rows, {west, step, 0.0, north, 0.0, -step}, 4326, mask, {},
+               GDT_Byte);
+  const auto dem = tw::read_dem(same_datum(dem_path));
+  tw::SeaSource src;
+  src.mask_path = mask_path;
+  const auto sea = tw::find_sea_cells(dem, src, tw::Connectivity::four);
+  EXPECT_EQ(sea.is_sea, (std::vector<std::uint8_t>{1, 0, 0, 1, 0, 0}));
 }
 
 TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {

@@ -5,14 +5,17 @@ generate DEM SEED ROWS COLS
     Write a seeded fractal DEM (spectral synthesis, power spectrum ~ f^-2.4, chosen here) as a
     float32 GeoTIFF in UTM 33N with 10 m cells, a seaward slope, elevations rounded to 0.01 m
     (many ties) and about 2% nodata (-9999, declared in the file).
-check DEM OUT_DIR CONNECTIVITY LEVEL...
+check DEM OUT_DIR CONNECTIVITY SPREAD LEVEL...
     Compare the map outputs in OUT_DIR with
       - the flood threshold by morphological reconstruction by erosion
         (skimage.morphology.reconstruction, scikit-image), seeded from the sea cells;
       - the extent classes by connected-component labelling below each level
         (scipy.ndimage.label), keeping the components that contain a sea cell;
       - the GeoTIFF record read back with GDAL (gdal.Info JSON, as gdalinfo -json).
-    Sea: the DEM's edge cells at or below 0 m (the map was run with --sea-edge-below 0).
+    Sea: the DEM's edge cells at or below 0 m (the map was run with --sea-edge-below 0); with
+    SPREAD a number (the map run with --sea-spread-to SPREAD), also every cell of the
+    components of {z <= SPREAD} (ndimage.label) that hold such a cell; SPREAD "none" otherwise.
+    With SPREAD, the depth, AEP and first-year rasters' records are read back too.
     Prints one JSON object with the counts of cells compared and of mismatches.
 """
 import json
@@ -62,15 +65,26 @@ def read(path, band=1):
     return np.frombuffer(b.ReadRaster(), dtype=dtype).reshape(ds.RasterYSize, ds.RasterXSize).copy()
 
 
-def check(dem_path, out_dir, connectivity, levels):
+def connected_to(cells, seeds, footprint):
+    """The cells of the components of `cells | seeds` that hold a seed."""
+    labels, _ = ndimage.label(cells | seeds, structure=footprint)
+    seed_labels = np.unique(labels[seeds])
+    return np.isin(labels, seed_labels[seed_labels > 0])
+
+
+def check(dem_path, out_dir, connectivity, spread, levels):
     z = read(dem_path).astype(np.float64)
     valid = z != NODATA
     edge = np.zeros(z.shape, dtype=bool)
     edge[0, :] = edge[-1, :] = edge[:, 0] = edge[:, -1] = True
     sea = edge & valid & (z <= 0.0)
-    land = valid & ~sea
     footprint = np.ones((3, 3)) if connectivity == 8 else ndimage.generate_binary_structure(2, 1)
     result = {"connectivity": connectivity}
+    if spread is not None:
+        seeds = sea.sum()
+        sea = connected_to(valid & (z <= spread), sea, footprint)
+        result["spread_cells"] = int(sea.sum() - seeds)
+    land = valid & ~sea
 
     # Threshold: reconstruction by erosion of a marker that is low on the sea and high
     # elsewhere, under the DEM as mask; nodata cells are raised to a barrier height far above
@@ -95,10 +109,7 @@ def check(dem_path, out_dir, connectivity, levels):
     compared = 0
     flooded = 0
     for i, h in enumerate(levels):
-        wet = (valid & (z <= h)) | sea
-        labels, _ = ndimage.label(wet, structure=footprint)
-        sea_labels = np.unique(labels[sea])
-        connected = np.isin(labels, sea_labels[sea_labels > 0]) & land
+        connected = connected_to(valid & (z <= h), sea, footprint) & land
         want = np.zeros(z.shape, dtype=np.uint8)
         want[land & (z <= h)] = 2
         want[connected] = 1
@@ -136,6 +147,21 @@ def check(dem_path, out_dir, connectivity, levels):
         "extent_nodata": ext["bands"][0].get("noDataValue"),
         "extent_level_metadata": ext["bands"][0].get("metadata", {}).get("", {}).get("LEVEL_M"),
     }
+    if spread is not None:
+        result["record"]["sea_metadata"] = meta.get("TIDEWRIGHT_SEA", "")
+        for name in ("depth", "aep", "first_year"):
+            info = gdal.Info(f"{out_dir}/{name}.tif", format="json")
+            b = info["bands"][0]
+            result["record"][name] = {
+                "bands": len(info["bands"]),
+                "type": b["type"],
+                "nodata": str(b.get("noDataValue")),
+                "unit": b.get("unit"),
+                "description": b.get("description", ""),
+                "metadata": b.get("metadata", {}).get("", {}),
+                "product": info["metadata"][""].get("TIDEWRIGHT_PRODUCT"),
+                "same_geotransform": info["geoTransform"] == dem_info["geoTransform"],
+            }
     print(json.dumps(result))
 
 
@@ -143,6 +169,7 @@ if __name__ == "__main__":
     if sys.argv[1] == "generate":
         generate(sys.argv[2], int(sys.argv[3]), int(sys.argv[4]), int(sys.argv[5]))
     elif sys.argv[1] == "check":
-        check(sys.argv[2], sys.argv[3], int(sys.argv[4]), [float(v) for v in sys.argv[5:]])
+        check(sys.argv[2], sys.argv[3], int(sys.argv[4]),
+              None if sys.argv[5] == "none" else float(sys.argv[5]), [float(v) for v in sys.argv[6:]])
     else:
         sys.exit("usage: terrain_reference.py generate|check ...")
