@@ -259,15 +259,12 @@ MapSummary make_flood_maps(const MapRequest& req) {
   }
   if (req.sea.spread_to_m) {
     const double spread = *req.sea.spread_to_m;
-    if (!std::isfinite(spread)) {
-      throw InputError("--sea-spread-to", "the level is not a finite number",
-                       "give today's high-water level in metres above the water-level datum");
-    }
+    check_spread_level(spread);
     for (const auto& l : req.levels) {
       if (l.level_m < spread) {
         throw InputError("--sea-spread-to",
                          "the sea spread to " + fixed(spread) + " m lies above the mapped level " +
-                             fixed(l.level_m) + " m, whose land between the two would show as sea",
+                             fixed(l.level_m) + " m, so dry land between the two would show as sea",
                          "give a spread level at or below every mapped level (today's high water)");
       }
     }

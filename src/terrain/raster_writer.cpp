@@ -42,6 +42,18 @@ std::string thread_option(const RasterFormat& f) {
 
 }  // namespace
 
+std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
+    CellType type, const RasterFormat& format) {
+  return {{"TILED", "YES"},
+          {"BLOCKXSIZE", "256"},
+          {"BLOCKYSIZE", "256"},
+          {"COMPRESS", compression_name(format.compression)},
+          {"PREDICTOR", type == CellType::float32 ? "3" : "2"},
+          {"INTERLEAVE", "BAND"},
+          {"BIGTIFF", "IF_SAFER"},
+          {"NUM_THREADS", thread_option(format)}};
+}
+
 GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, CellType type,
                              double nodata, const std::vector<BandInfo>& bands,
                              const std::vector<std::pair<std::string, std::string>>& metadata,
@@ -55,14 +67,9 @@ GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, Ce
   impl_->tiff_path = impl_->path;
   if (format.cloud_optimized) impl_->tiff_path += ".tiled.tif";
   CPLStringList options;
-  options.SetNameValue("TILED", "YES");
-  options.SetNameValue("BLOCKXSIZE", "256");
-  options.SetNameValue("BLOCKYSIZE", "256");
-  options.SetNameValue("COMPRESS", compression_name(format.compression));
-  options.SetNameValue("PREDICTOR", type == CellType::float32 ? "3" : "2");
-  options.SetNameValue("INTERLEAVE", "BAND");
-  options.SetNameValue("BIGTIFF", "IF_SAFER");
-  options.SetNameValue("NUM_THREADS", thread_option(format).c_str());
+  for (const auto& [name, value] : geotiff_creation_options(type, format)) {
+    options.SetNameValue(name.c_str(), value.c_str());
+  }
   GDALDriver* driver = GetGDALDriverManager()->GetDriverByName("GTiff");
   CPLErrorReset();
   impl_->ds.reset(driver->Create(impl_->tiff_path.c_str(), static_cast<int>(grid.shape.cols),

@@ -162,14 +162,18 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
   return sea;
 }
 
-std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m) {
-  if (threshold_m.size() != sea.is_sea.size()) {
-    throw std::logic_error("spread_sea: the threshold raster and the sea mask differ in size");
-  }
+void check_spread_level(double level_m) {
   if (!std::isfinite(level_m)) {
     throw InputError("--sea-spread-to", "the level is not a finite number",
                      "give today's high-water level in metres above the water-level datum");
   }
+}
+
+std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m) {
+  if (threshold_m.size() != sea.is_sea.size()) {
+    throw std::logic_error("spread_sea: the threshold raster and the sea mask differ in size");
+  }
+  check_spread_level(level_m);
   std::size_t added = 0;
   bool land_left = false;
   for (std::size_t i = 0; i < threshold_m.size(); ++i) {

@@ -26,6 +26,7 @@
 
 #include "tidewright/terrain/flood_map.hpp"
 #include "tidewright/terrain/flood_threshold.hpp"
+#include "tidewright/terrain/raster_writer.hpp"
 
 namespace tw = tidewright::terrain;
 
@@ -142,6 +143,18 @@ double seconds_of(const std::string& cmd, std::string* output = nullptr) {
   return status == 0 ? std::chrono::duration<double>(t1 - t0).count() : -1.0;
 }
 
+// The map writer's creation options for a cell type (terrain::geotiff_creation_options, the
+// default RasterFormat) joined by `separator`, each prefixed by `prefix`: "-co " for
+// gdal_translate, "" with "," for the constant-band peer script.
+std::string creation_options(tw::CellType type, const std::string& prefix,
+                             const std::string& separator) {
+  std::string out;
+  for (const auto& [name, value] : tw::geotiff_creation_options(type, tw::RasterFormat{})) {
+    out += (out.empty() ? "" : separator) + prefix + name + "=" + value;
+  }
+  return out;
+}
+
 void BM_TerrainFloodThreshold(benchmark::State& state) {
   const auto& d = bench_dem();
   for (auto _ : state) {
@@ -174,18 +187,16 @@ void BM_TerrainPeerSkimageReconstruction(benchmark::State& state) {
                                                      benchmark::Counter::kIsIterationInvariantRate);
 }
 
-// I/O floor: gdal_translate with the map's creation options, compression threads included
-// (RasterFormat's default, NUM_THREADS=ALL_CPUS).
+// I/O floor: gdal_translate with the map's creation options (creation_options), compression
+// threads included (RasterFormat's default, NUM_THREADS=ALL_CPUS).
 void BM_TerrainPeerGdalTranslate(benchmark::State& state) {
   const auto& d = bench_dem();
   const auto out = (d.folder / "copy.tif").string();
   for (auto _ : state) {
     std::filesystem::remove(out);
-    const double s = seconds_of(
-        "gdal_translate -q -co TILED=YES -co BLOCKXSIZE=256 -co BLOCKYSIZE=256 -co "
-        "COMPRESS=DEFLATE "
-        "-co PREDICTOR=3 -co BIGTIFF=IF_SAFER -co NUM_THREADS=ALL_CPUS '" +
-        d.path + "' '" + out + "'");
+    const double s =
+        seconds_of("gdal_translate -q " + creation_options(tw::CellType::float32, "-co ", " ") +
+                   " '" + d.path + "' '" + out + "'");
     if (s < 0) {
       state.SkipWithError("gdal_translate (Debian gdal-bin) failed");
       return;
@@ -235,12 +246,11 @@ void BM_TerrainPeerGdalProductFloor(benchmark::State& state) {
       "floor-" + std::to_string(state.range(0)) + "-" + std::to_string(state.range(1));
   (void)tw::make_flood_maps(map_request(d, state.range(0), state.range(1) != 0, folder));
   const auto dir = d.folder / folder;
-  const std::string options =
-      "-q -co TILED=YES -co BLOCKXSIZE=256 -co BLOCKYSIZE=256 -co COMPRESS=DEFLATE "
-      "-co INTERLEAVE=BAND -co BIGTIFF=IF_SAFER -co NUM_THREADS=ALL_CPUS ";
-  const std::vector<std::pair<std::string, const char*>> products{
-      {"threshold", "3"}, {"extent", "2"}, {"depth", "3"}};
-  for (const auto& [name, predictor] : products) {
+  const std::vector<std::pair<std::string, tw::CellType>> products{
+      {"threshold", tw::CellType::float32},
+      {"extent", tw::CellType::byte},
+      {"depth", tw::CellType::float32}};
+  for (const auto& [name, type] : products) {
     const auto src = (dir / (name + ".tif")).string();
     const auto raw = (dir / ("raw-" + name + ".tif")).string();
     if (seconds_of("gdal_translate -q -co TILED=YES -co BIGTIFF=YES '" + src + "' '" + raw + "'") <
@@ -251,11 +261,11 @@ void BM_TerrainPeerGdalProductFloor(benchmark::State& state) {
   }
   for (auto _ : state) {
     double total = 0.0;
-    for (const auto& [name, predictor] : products) {
+    for (const auto& [name, type] : products) {
       const auto raw = (dir / ("raw-" + name + ".tif")).string();
       const auto out = (dir / ("copy-" + name + ".tif")).string();
       std::filesystem::remove(out);
-      const double s = seconds_of("gdal_translate " + options + "-co PREDICTOR=" + predictor +
+      const double s = seconds_of("gdal_translate -q " + creation_options(type, "-co ", " ") +
                                   " '" + raw + "' '" + out + "'");
       if (s < 0) {
         state.SkipWithError("gdal_translate (Debian gdal-bin) failed");
@@ -281,7 +291,8 @@ void BM_TerrainPeerGdalConstantBands(benchmark::State& state) {
     std::string out;
     if (seconds_of("/usr/bin/python3 '" + script + "' " + std::to_string(d.shape.cols) + " " +
                        std::to_string(d.shape.rows) + " " + std::to_string(state.range(0)) + " '" +
-                       d.folder.string() + "'",
+                       d.folder.string() + "' " + creation_options(tw::CellType::float32, "", ",") +
+                       " " + creation_options(tw::CellType::byte, "", ","),
                    &out) < 0) {
       state.SkipWithError("the peer needs /usr/bin/python3 with python3-gdal and python3-numpy");
       return;

@@ -36,6 +36,12 @@ struct BandInfo {
   std::vector<std::pair<std::string, std::string>> metadata;
 };
 
+// The GTiff creation options every map output is written with (name, value), in the order
+// given to GDAL. Benchmarks pass the same list to gdal_translate, so that their I/O floors are
+// written as the outputs are.
+[[nodiscard]] std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
+    CellType type, const RasterFormat& format);
+
 class GeoTiffWriter {
  public:
   GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, CellType type, double nodata,

@@ -40,6 +40,10 @@ struct SeaCells {
 [[nodiscard]] SeaCells find_sea_cells(const Dem& dem, const SeaSource& source,
                                       Connectivity connectivity);
 
+// Throws InputError unless `level_m`, a sea spread level, is a finite number. Called before
+// any work (make_flood_maps) and again by spread_sea.
+void check_spread_level(double level_m);
+
 // Spreads the sea over every cell whose flood threshold T (flood_threshold.hpp) is finite and at
 // most `level_m`: such a cell becomes sea (is_sea 1, T = -inf). Relabelling after the pass gives
 // every other cell the T that a pass seeded from the spread sea would: a path from the spread
