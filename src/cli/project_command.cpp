@@ -128,7 +128,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     r.last_year = a->last_year;
     r.members = a->samples;
     r.seed = a->seed;
-    r.reference = study::parse_reference_span(a->reference, "--reference");
+    r.reference = climate::parse_year_span(a->reference, "--reference");
     for (const auto& f : a->fingerprints) {
       const auto eq = f.find('=');
       const auto v = eq == std::string::npos ? std::nullopt : parse_finite_double(f.substr(eq + 1));

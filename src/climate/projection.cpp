@@ -3,6 +3,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <random>
 #include <string>
 
@@ -129,6 +130,19 @@ std::string YearSpan::label() const {
   return std::to_string(first_year) + "-" + std::to_string(last_year) + " mean";
 }
 
+YearSpan parse_year_span(const std::string& text, const std::string& where) {
+  int a = 0, b = 0;
+  char extra = 0;
+  if (std::sscanf(text.c_str(), "%d-%d%c", &a, &b, &extra) == 2 && b >= a) return {a, b};
+  if (std::sscanf(text.c_str(), "%d%c", &a, &extra) == 1) return {a, a};
+  throw InputError(where, "is '" + text + "'", "give a year (2020) or a period (1995-2014)");
+}
+
+std::string YearSpan::text() const {
+  if (first_year == last_year) return std::to_string(first_year);
+  return std::to_string(first_year) + "-" + std::to_string(last_year);
+}
+
 void validate(const Scenario& s, const ProjectionOptions& o) {
   if (s.years.empty() || s.values.size() != s.years.size()) {
     throw InputError("scenario", "has no years or mismatched values", "build it with the scenario functions");
@@ -213,6 +227,7 @@ ComponentEnsemble project_global_components(const Scenario& s, const ProjectionO
   e.surface_warming_k.resize(rows, cols);
   e.ocean_heat_content_change_yj.resize(rows, cols);
   e.reference = "sea level and ocean heat: " + o.reference.label() + "; surface warming: " + o.warming_reference.label();
+  e.reference_period = o.reference;
   e.scenario = s.label;
   e.illustrative = s.illustrative;
   e.seed = o.seed;

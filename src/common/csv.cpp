@@ -142,6 +142,16 @@ CsvTable CsvTable::parse(std::string_view text, std::string source, const CsvOpt
       while (j < text.size() && (text[j] == ' ' || text[j] == '\t')) ++j;
       if (j >= text.size() || text[j] == '\n' || text[j] == '\r' || text[j] == options.comment) {
         const auto eol = text.find('\n', i);
+        if (!have_header && j < text.size() && text[j] == options.comment) {
+          // "# key: value" before the header: metadata the file states about itself.
+          const std::string body =
+              trim(text.substr(j + 1, (eol == std::string_view::npos ? text.size() : eol) - j - 1));
+          const auto colon = body.find(": ");
+          if (colon != std::string::npos && colon > 0 && body.find(' ') >= colon) {
+            table.metadata_.emplace(body.substr(0, colon),
+                                    CsvMetadata{trim(body.substr(colon + 2)), line});
+          }
+        }
         i = (eol == std::string_view::npos) ? text.size() : eol + 1;
         ++line;
         continue;

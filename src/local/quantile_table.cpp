@@ -86,6 +86,10 @@ QuantileTable table_from_csv(const CsvTable& csv) {
   const std::size_t year_col = csv.column("year");
   QuantileTable t;
   t.source = csv.source();
+  if (const auto* period = csv.metadata("reference_period")) {
+    t.reference_period = climate::parse_year_span(
+        period->value, location(csv.source(), period->line) + ": reference_period");
+  }
   std::vector<std::size_t> cols;
   for (std::size_t c = 0; c < csv.header().size(); ++c) {
     if (c == year_col) continue;
@@ -236,6 +240,7 @@ RiseEnsemble sample_quantile_table(const QuantileTable& t, const TableSampling& 
     }
   }
   e.reference = t.reference;
+  e.reference_period = t.reference_period;
   e.scenario = t.source;
   const auto members = static_cast<std::size_t>(sampling.members);
   std::vector<double> s = normal_scores(sampling.seed, stream_table_members, members);

@@ -54,30 +54,6 @@ void check_ocean_dynamic(const OceanDynamicOffset& o, const std::vector<int>& ye
 
 }  // namespace
 
-std::optional<double> reference_year_of(const std::string& reference) {
-  // Hand-parsed rather than std::regex: GCC 12 warns falsely inside <regex> under the
-  // sanitizer build (-Wmaybe-uninitialized), and the grammar is tiny.
-  const std::string r = trim(reference);
-  const auto four_digits = [&](std::size_t at) {
-    return at + 4 <= r.size() &&
-           std::all_of(r.begin() + static_cast<std::ptrdiff_t>(at), r.begin() + static_cast<std::ptrdiff_t>(at + 4),
-                       [](unsigned char c) { return std::isdigit(c) != 0; });
-  };
-  if (!four_digits(0)) return std::nullopt;
-  const double first = std::stod(r.substr(0, 4));
-  if (r.size() == 4) return first;
-  std::size_t k = 4;
-  while (k < r.size() && r[k] == ' ') ++k;
-  if (k >= r.size() || r[k] != '-') return std::nullopt;
-  ++k;
-  while (k < r.size() && r[k] == ' ') ++k;
-  if (!four_digits(k) || (k + 4 < r.size() && std::isdigit(static_cast<unsigned char>(r[k + 4])) != 0)) {
-    return std::nullopt;
-  }
-  // Middle of the period: 1995-2014 -> 2004.5 (the centre of a multi-year mean).
-  return 0.5 * (first + std::stod(r.substr(k, 4)));
-}
-
 LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const LocalTerms& terms) {
   const Eigen::Index members = global.member_count();
   const auto n_years = static_cast<Eigen::Index>(global.years.size());
@@ -114,6 +90,7 @@ LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const Lo
   LocalRise out;
   out.total.years = global.years;
   out.total.reference = global.reference;
+  out.total.reference_period = global.reference_period;
   out.total.scenario = global.scenario;
   out.total.illustrative = global.illustrative;
   out.total.surface_warming_k = global.surface_warming_k;
@@ -141,7 +118,8 @@ LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const Lo
   }
 
   // Vertical land motion: -v_i (t - t_v)/1000 m, v_i = v + sd_v s_i (mm/yr, uplift positive).
-  std::optional<double> t_v = lm.reference_year ? lm.reference_year : reference_year_of(global.reference);
+  std::optional<double> t_v = lm.reference_year;
+  if (!t_v && global.reference_period) t_v = global.reference_period->middle_year();
   const bool any_land_motion = lm.uplift_mm_per_yr != 0.0 || lm.uplift_sd_mm_per_yr != 0.0;
   if (!t_v) {
     if (any_land_motion) {

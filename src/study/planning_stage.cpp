@@ -10,13 +10,6 @@
 namespace tidewright::study {
 namespace {
 
-std::optional<std::pair<int, int>> reference_period(const std::string& label) {
-  int a = 0, b = 0;
-  if (std::sscanf(label.c_str(), "%d-%d", &a, &b) == 2 && b >= a) return std::pair{a, b};
-  if (std::sscanf(label.c_str(), "%d", &a) == 1) return std::pair{a, a};
-  return std::nullopt;
-}
-
 std::string num(double v, int decimals = 2) {
   char buf[40];
   std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
@@ -25,36 +18,62 @@ std::string num(double v, int decimals = 2) {
 
 }  // namespace
 
-PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise, std::optional<double> epoch_offset_m,
-                                       const planning::StorminessChange& storminess) {
+PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
+                                       std::optional<double> epoch_offset_m,
+                                       const planning::StorminessChange& storminess,
+                                       const std::string& epoch_offset_input) {
   PlanningInputs in;
   in.storminess = storminess;
   if (rise.years.empty() || rise.rise_m.rows() == 0) {
     throw InputError("projection", "holds no members", "give the --members output of 'tidewright project'");
   }
   if (epoch_offset_m) {
+    if (!std::isfinite(*epoch_offset_m)) {
+      throw InputError(
+          epoch_offset_input, "is not a finite number",
+          "give the rise from the record's epoch to the projection's reference in metres");
+    }
     rise.rise_m.array() += *epoch_offset_m;
+    rise.reference_period.reset();  // the rise is now measured from the record's epoch
     in.notes.push_back("rise shifted by " + num(*epoch_offset_m, 3) +
                        " m, the stated rise from the record's epoch to the projection's reference");
   } else if (fit.reference_epoch) {
     const double e = *fit.reference_epoch;
-    const auto period = reference_period(rise.reference);
     if (e >= rise.years.front() && e <= rise.years.back()) {
       const int year = static_cast<int>(std::lround(e));
       const Eigen::VectorXd at_epoch = rise.rise_in(std::clamp(year, rise.years.front(), rise.years.back()));
       rise.rise_m.colwise() -= at_epoch;
       rise.reference = "the record's epoch " + num(e, 1);
+      rise.reference_period.reset();
       in.notes.push_back("each member's rise is measured from the record's epoch " + num(e, 1) +
                          " (its rise in " + std::to_string(year) + " subtracted)");
-    } else if (period && e >= period->first - 0.5 && e <= period->second + 1.0) {
-      in.notes.push_back("the record's epoch " + num(e, 1) + " lies in the projection's reference period " +
-                         rise.reference + "; the rise at the epoch is taken as zero");
+    } else if (rise.reference_period && rise.reference_period->covers_decimal_year(e)) {
+      // A mean over years a..b covers decimal years a.0 to (b+1).0; its centre is where the
+      // mean of a linear rise is reached, so the rise at the epoch is zero to within the
+      // rate times the distance from the centre. 3 mm/yr: between the global rates of 1971-2006
+      // (1.9) and 2006-2018 (3.7 mm/yr), IPCC AR6 WG1 SPM A.1.7.
+      const climate::YearSpan& p = *rise.reference_period;
+      const double centre = 0.5 * (p.first_year + p.last_year + 1.0);
+      const double off_mm = 3.0 * (e - centre);
+      in.notes.push_back(
+          "the record's epoch " + num(e, 1) + " lies in the projection's reference period " +
+          p.label() + "; the rise at the epoch is taken as zero (the period's centre is " +
+          num(centre, 1) + "; at about 3 mm/yr of rise the epoch's own rise is about " +
+          num(std::abs(off_mm) < 0.5 ? 0.0 : off_mm, 0) + " mm; state " + epoch_offset_input +
+          " to correct it)");
     } else {
+      const std::string period =
+          rise.reference_period ? rise.reference_period->label() : "none stated";
       throw InputError("projection reference '" + rise.reference + "'",
                        "does not fit the record's epoch " + num(e, 1) +
-                           ", which lies neither in the projected years nor in the reference period",
-                       "project from a first year at or before the epoch, or state the rise from the epoch to the "
-                       "reference with --epoch-offset");
+                           ", which lies neither in the projected years " +
+                           std::to_string(rise.years.front()) + "-" +
+                           std::to_string(rise.years.back()) + " nor in the reference period (" +
+                           period + ")",
+                       "project from a first year at or before the epoch, or state the rise from "
+                       "the epoch to the "
+                       "reference with " +
+                           epoch_offset_input);
     }
   } else {
     in.notes.push_back("the record's levels were not referred to an epoch (no trend removed); they are taken to "
@@ -142,6 +161,7 @@ nlohmann::ordered_json planning_context_json(const PlanningInputs& in) {
   j["datum"] = in.fit.datum;
   j["record_epoch"] = in.fit.reference_epoch ? nlohmann::ordered_json(*in.fit.reference_epoch) : nlohmann::ordered_json(nullptr);
   j["projection_reference"] = in.rise.reference;
+  j["projection_reference_period"] = reference_period_json(in.rise.reference_period);
   j["scenario"] = in.rise.scenario;
   j["illustrative"] = in.rise.illustrative;
   j["members"] = in.rise.member_count();

@@ -11,6 +11,7 @@
 #include "tidewright/local/quantile_table.hpp"
 #include "tidewright/record/peaks_over_threshold.hpp"
 #include "tidewright/report/cautions.hpp"
+#include "tidewright/study/stage_files.hpp"
 
 namespace tidewright::study {
 namespace {
@@ -101,14 +102,6 @@ climate::Scenario load_scenario(const ProjectionRequest& r, const std::string& l
   throw InputError(where, "is not a scenario file", "use a pathway, forcing, CO2 or warming CSV");
 }
 
-climate::YearSpan parse_reference_span(const std::string& text, const std::string& where) {
-  int a = 0, b = 0;
-  char extra = 0;
-  if (std::sscanf(text.c_str(), "%d-%d%c", &a, &b, &extra) == 2 && b >= a) return {a, b};
-  if (std::sscanf(text.c_str(), "%d%c", &a, &extra) == 1) return {a, a};
-  throw InputError(where, "is '" + text + "'", "give a year (2020) or a period (1995-2014)");
-}
-
 std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p) {
   std::vector<double> out;
   out.reserve(static_cast<std::size_t>(members_by_year.cols()));
@@ -140,7 +133,12 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
                        "drop the local options, or use a scenario instead of a table");
     }
     auto table = local::read_quantile_table(r.path);
-    if (table.reference.empty()) table.reference = "as published in " + r.path.filename().string();
+    if (table.reference.empty()) {
+      table.reference = table.reference_period
+                            ? table.reference_period->label() + " (as published in " +
+                                  r.path.filename().string() + ")"
+                            : "as published in " + r.path.filename().string();
+    }
     local::TableSampling sampling;
     sampling.members = r.members;
     sampling.seed = r.seed;
@@ -202,6 +200,7 @@ nlohmann::ordered_json projection_json(const ProjectionStageResult& r) {
   j["scenario"] = total.scenario;
   j["illustrative"] = total.illustrative;
   j["reference"] = total.reference;
+  j["reference_period"] = reference_period_json(total.reference_period);
   j["members"] = total.member_count();
   if (r.global) j["seed"] = r.global->seed;
   j["years"] = total.years;

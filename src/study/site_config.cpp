@@ -163,6 +163,7 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
     }
     c.planning.levels_of_interest_m = pl->numbers("levels_of_interest_m");
     c.planning.storminess_scale_per_yr = pl->optional_number("storminess_scale_per_yr").value_or(0.0);
+    c.planning.epoch_offset_m = pl->optional_number("epoch_offset_m");
     pl->finish();
   }
 

@@ -25,18 +25,6 @@ std::string exact(double v) {
   return buf;
 }
 
-std::string metadata_value(const std::string& text, const std::string& key) {
-  std::istringstream in(text);
-  std::string line;
-  const std::string prefix = "# " + key + ": ";
-  while (std::getline(in, line)) {
-    if (!line.empty() && line.back() == '\r') line.pop_back();
-    if (line.rfind(prefix, 0) == 0) return line.substr(prefix.size());
-    if (!line.empty() && line[0] != '#') break;
-  }
-  return "";
-}
-
 }  // namespace
 
 void write_members_csv(const std::filesystem::path& file, const local::RiseEnsemble& e, bool force) {
@@ -45,6 +33,7 @@ void write_members_csv(const std::filesystem::path& file, const local::RiseEnsem
   s << "# tidewright members: local relative sea-level rise in metres, one row per member\n";
   s << "# scenario: " << e.scenario << "\n";
   s << "# reference: " << e.reference << "\n";
+  if (e.reference_period) s << "# reference_period: " << e.reference_period->text() << "\n";
   s << "# illustrative: " << (e.illustrative ? "true" : "false") << "\n";
   s << "member";
   for (int y : e.years) s << ',' << y;
@@ -62,12 +51,19 @@ local::RiseEnsemble read_members_csv(const std::filesystem::path& file) {
   if (!in) throw InputError(file.string(), "cannot be opened for reading", "check the path");
   std::stringstream buffer;
   buffer << in.rdbuf();
-  const std::string text = buffer.str();
-  const CsvTable table = CsvTable::parse(text, file.string());
+  const CsvTable table = CsvTable::parse(buffer.str(), file.string());
+  const auto meta = [&](const std::string& key) {
+    const auto* m = table.metadata(key);
+    return m ? m->value : std::string();
+  };
   local::RiseEnsemble e;
-  e.scenario = metadata_value(text, "scenario");
-  e.reference = metadata_value(text, "reference");
-  e.illustrative = metadata_value(text, "illustrative") == "true";
+  e.scenario = meta("scenario");
+  e.reference = meta("reference");
+  e.illustrative = meta("illustrative") == "true";
+  if (const auto* period = table.metadata("reference_period")) {
+    e.reference_period = climate::parse_year_span(
+        period->value, location(file.string(), period->line) + ": reference_period");
+  }
   const auto& header = table.header();
   if (header.size() < 2 || header[0] != "member") {
     throw InputError(location(file.string(), table.header_line()),
@@ -101,6 +97,11 @@ local::RiseEnsemble read_members_csv(const std::filesystem::path& file) {
     }
   }
   return e;
+}
+
+nlohmann::ordered_json reference_period_json(const std::optional<climate::YearSpan>& period) {
+  if (!period) return nullptr;
+  return {{"first_year", period->first_year}, {"last_year", period->last_year}};
 }
 
 nlohmann::ordered_json still_water_model_json(const extremes::StillWaterModel& m) {

@@ -101,7 +101,8 @@ ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings
   r.last_year = c.projection.end_year;
   r.members = c.projection.members;
   r.seed = c.seed + index;  // each scenario its own stream, reproducible
-  r.reference = parse_reference_span(c.projection.reference, field_location(c.file.string(), "projection.reference"));
+  r.reference = climate::parse_year_span(c.projection.reference,
+                                         field_location(c.file.string(), "projection.reference"));
   if (r.source != ScenarioSource::table) {
     r.local.fingerprint = c.local.fingerprints;
     r.local.land_motion.uplift_mm_per_yr = c.local.land_motion_mm_per_yr;
@@ -191,7 +192,9 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     run.settings = c.scenarios[i];
     run.projection = run_projection_stage(projection_request(c, c.scenarios[i], i));
     clock.begin("planning '" + c.scenarios[i].name + "'");
-    run.inputs = join_fit_and_projection(summary, run.projection.local.total, std::nullopt, storminess);
+    run.inputs = join_fit_and_projection(
+        summary, run.projection.local.total, c.planning.epoch_offset_m, storminess,
+        field_location(c.file.string(), "planning.epoch_offset_m"));
     run.allowances = allowance_table(run.inputs, c.planning.design_years, c.planning.return_periods_yr, 0, c.seed);
     runs.push_back(std::move(run));
   }

@@ -93,3 +93,21 @@ TEST(Csv, UnreadableFileIsAnInputError) {
   EXPECT_THROW((void)CsvTable::read(dir / "absent.csv"), InputError);
   EXPECT_THROW((void)CsvTable::read(dir.path()), InputError);
 }
+
+// "# key: value" lines before the header are the file's own metadata; later comments and
+// comments that are not "one-word key: value" are not.
+TEST(Csv, MetadataLinesBeforeTheHeader) {
+  const auto t = CsvTable::parse(
+      "# tidewright members: a sentence, not a key\n# scenario: midway\n#reference_period: "
+      "1995-2014\n"
+      "# scenario: second\nyear,level\n# late: no\n2000,1.0\n",
+      "m.csv");
+  ASSERT_NE(t.metadata("scenario"), nullptr);
+  EXPECT_EQ(t.metadata("scenario")->value, "midway");  // the first one counts
+  EXPECT_EQ(t.metadata("scenario")->line, 2U);
+  ASSERT_NE(t.metadata("reference_period"), nullptr);
+  EXPECT_EQ(t.metadata("reference_period")->value, "1995-2014");
+  EXPECT_EQ(t.metadata("late"), nullptr);
+  EXPECT_EQ(t.metadata("tidewright members"), nullptr);
+  EXPECT_EQ(t.rows().size(), 1U);
+}

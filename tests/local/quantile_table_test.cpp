@@ -67,6 +67,21 @@ TEST(QuantileTable, ReadsYearsProbabilitiesAndValues) {
   EXPECT_THROW((void)read_quantile_table(dir / "missing.csv"), InputError);
 }
 
+// Issue 12: a published table may state the period its rise is measured from.
+TEST(QuantileTable, ReferencePeriodLineIsRead) {
+  const auto t = parse_quantile_table(
+      "# reference_period: 1995-2014\nyear,p17,p50,p83\n2100,0.4,0.5,0.7\n", "t.csv");
+  ASSERT_TRUE(t.reference_period.has_value());
+  EXPECT_EQ(*t.reference_period, (tidewright::climate::YearSpan{1995, 2014}));
+  EXPECT_FALSE(parse_quantile_table("year,p17,p50,p83\n2100,0.4,0.5,0.7\n", "t.csv")
+                   .reference_period.has_value());
+  EXPECT_EQ(error_where("# reference_period: mid-90s\nyear,p50\n2100,0.5\n"),
+            "t.csv:1: reference_period");
+  TableSampling sampling;
+  sampling.members = 5;
+  EXPECT_EQ(sample_quantile_table(t, sampling).reference_period, t.reference_period);
+}
+
 TEST(QuantileTable, BadTablesNameFileAndLine) {
   EXPECT_EQ(error_where("year,p5,p50,p95\n2050,0.1,0.2,0.3\n2100,0.5,0.4,0.9\n"), "t.csv:3");  // not increasing
   EXPECT_EQ(error_where("year,p5,p50,p95\n2100,0.1,0.2,0.3\n2050,0.2,0.3,0.4\n"), "t.csv:3");  // unsorted years

@@ -23,6 +23,7 @@ climate::ComponentEnsemble small_ensemble() {
   g.rise_m = {te, gl};
   g.surface_warming_k = Eigen::MatrixXd::Constant(3, 3, 1.5);
   g.reference = "2020";
+  g.reference_period = climate::YearSpan{2020, 2020};
   g.scenario = "test";
   return g;
 }
@@ -33,6 +34,7 @@ climate::ComponentEnsemble constant_ensemble(Eigen::Index members) {
   g.component_names = {climate::thermal_expansion};
   g.rise_m = {Eigen::MatrixXd::Zero(members, 3)};
   g.reference = "2020";
+  g.reference_period = climate::YearSpan{2020, 2020};
   return g;
 }
 
@@ -81,6 +83,7 @@ TEST(LocalRelativeRise, RefusesBadTerms) {
   EXPECT_THROW((void)local_relative_rise(small_ensemble(), negative_sd), InputError);
   auto g = small_ensemble();
   g.reference = "pre-industrial";
+  g.reference_period.reset();
   LocalTerms moving;
   moving.land_motion.uplift_mm_per_yr = 1.0;
   EXPECT_THROW((void)local_relative_rise(g, moving), InputError);
@@ -94,13 +97,20 @@ TEST(LocalRelativeRise, RefusesBadTerms) {
   EXPECT_THROW((void)local_relative_rise(small_ensemble(), short_offset), InputError);
 }
 
-TEST(LocalRelativeRise, ReferencePeriodGivesItsMiddleYear) {
-  EXPECT_DOUBLE_EQ(reference_year_of("1995-2014 mean").value_or(0), 2004.5);
-  EXPECT_DOUBLE_EQ(reference_year_of("2020").value_or(0), 2020.0);
-  EXPECT_DOUBLE_EQ(reference_year_of(" 1986 - 2005").value_or(0), 1995.5);
-  EXPECT_FALSE(reference_year_of("pre-industrial").has_value());
-  EXPECT_FALSE(reference_year_of("20200").has_value());
-  EXPECT_FALSE(reference_year_of("1995-20145").has_value());
+// Land motion counts from the middle of the structured reference period, whatever the
+// label says (a label is for people: "sea level and ocean heat: 1995-2014 mean; ...").
+TEST(LocalRelativeRise, LandMotionCountsFromTheReferencePeriodsMiddleYear) {
+  auto g = constant_ensemble(2);
+  g.reference = "sea level and ocean heat: 1995-2014 mean; surface warming: 1850-1900 mean";
+  g.reference_period = climate::YearSpan{1995, 2014};
+  LocalTerms sinking;
+  sinking.land_motion.uplift_mm_per_yr = -2.0;
+  const LocalRise r = local_relative_rise(g, sinking);
+  EXPECT_DOUBLE_EQ(r.land_motion_reference_year, 2004.5);  // (1995 + 2014) / 2
+  // -v (t - t_v) / 1000 with v = -2 mm/yr: 2 mm/yr x (2100 - 2004.5) yr.
+  EXPECT_NEAR(r.total.rise_m(0, 2), 0.002 * (2100 - 2004.5), 1e-15);
+  ASSERT_TRUE(r.total.reference_period.has_value());
+  EXPECT_EQ(*r.total.reference_period, (climate::YearSpan{1995, 2014}));
 }
 
 // Subsidence of 3 mm/yr with sd 1 mm/yr over 20000 members: the members' rates have sample

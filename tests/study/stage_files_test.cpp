@@ -33,6 +33,36 @@ TEST(StageFiles, MembersRoundTripBitForBit) {
   EXPECT_TRUE((back.rise_m.array() == e.rise_m.array()).all());
 }
 
+// Issue 12: the reference period travels as a structured field beside the sentence for
+// people, so that the record's epoch can be checked against it.
+TEST(StageFiles, MembersCarryTheReferencePeriodApartFromItsLabel) {
+  TempDir dir;
+  tidewright::local::RiseEnsemble e;
+  e.years = {2020, 2100};
+  e.rise_m = Eigen::MatrixXd::Zero(2, 2);
+  e.reference = "sea level and ocean heat: 1995-2014 mean; surface warming: 1850-1900 mean";
+  e.reference_period = tidewright::climate::YearSpan{1995, 2014};
+  study::write_members_csv(dir / "m.csv", e, false);
+  EXPECT_THAT(tidewright::testing::read_all(dir / "m.csv"),
+              HasSubstr("\n# reference_period: 1995-2014\n"));
+  const auto back = study::read_members_csv(dir / "m.csv");
+  EXPECT_EQ(back.reference, e.reference);
+  ASSERT_TRUE(back.reference_period.has_value());
+  EXPECT_EQ(*back.reference_period, (tidewright::climate::YearSpan{1995, 2014}));
+  // A file that states no period has none; a malformed one names its line.
+  tidewright::write_text_file(dir / "none.csv", "# reference: 2020\nmember,2020\n1,0\n", false);
+  EXPECT_FALSE(study::read_members_csv(dir / "none.csv").reference_period.has_value());
+  tidewright::write_text_file(dir / "bad.csv",
+                              "# scenario: x\n# reference_period: 1995 to 2014\nmember,2020\n1,0\n",
+                              false);
+  try {
+    (void)study::read_members_csv(dir / "bad.csv");
+    FAIL();
+  } catch (const InputError& err) {
+    EXPECT_THAT(err.where(), ::testing::EndsWith("bad.csv:2: reference_period")) << err.what();
+  }
+}
+
 TEST(StageFiles, MembersFileErrorsNameTheLine) {
   TempDir dir;
   tidewright::write_text_file(dir / "m.csv", "member,2020,2019\n1,0.1,0.2\n", false);

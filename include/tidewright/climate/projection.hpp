@@ -64,12 +64,6 @@ struct MemberParameters {
   LandWaterParameters land_water;
 };
 
-struct YearSpan {
-  int first_year = 0;
-  int last_year = 0;
-  [[nodiscard]] std::string label() const;  // "1995-2014 mean" or "2020"
-};
-
 enum class ThermalExpansionRoute {
   efficiency,  // rise = e * ocean heat (Kuhlbrodt & Gregory 2012); e drawn per member
   layered,     // TEOS-10 alpha on each layer's warming (thermal_expansion.hpp)

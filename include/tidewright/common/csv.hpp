@@ -6,6 +6,7 @@
 
 #include <cstddef>
 #include <filesystem>
+#include <map>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -32,6 +33,12 @@ struct CsvRow {
   std::vector<std::string> cells;
 };
 
+// A "# key: value" comment line before the header (a key is one word).
+struct CsvMetadata {
+  std::string value;
+  std::size_t line = 0;
+};
+
 class CsvTable {
  public:
   static CsvTable read(const std::filesystem::path& path, const CsvOptions& options = {});
@@ -42,6 +49,11 @@ class CsvTable {
   [[nodiscard]] const std::vector<std::string>& header() const noexcept { return header_; }
   [[nodiscard]] const std::vector<CsvRow>& rows() const noexcept { return rows_; }
   [[nodiscard]] std::size_t header_line() const noexcept { return header_line_; }
+  // The first "# key: value" line before the header with this key; nullptr when none.
+  [[nodiscard]] const CsvMetadata* metadata(const std::string& key) const {
+    const auto it = metadata_.find(key);
+    return it == metadata_.end() ? nullptr : &it->second;
+  }
 
   // Column by name (trimmed, case-insensitive). `column` throws an InputError that lists the
   // columns the file has.
@@ -60,6 +72,7 @@ class CsvTable {
   std::vector<std::string> header_;
   std::size_t header_line_ = 0;
   std::vector<CsvRow> rows_;
+  std::map<std::string, CsvMetadata> metadata_;
 };
 
 // Parses a whole cell as a finite double (leading/trailing blanks allowed); nullopt otherwise.

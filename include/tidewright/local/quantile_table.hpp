@@ -38,6 +38,8 @@ struct QuantileTable {
   std::vector<double> probabilities;  // strictly ascending in (0, 1)
   Eigen::MatrixXd rise_m;            // years x probabilities, non-decreasing along each row
   std::string reference;             // what the rise is measured from (set by the caller)
+  // From a "# reference_period: 1995-2014" line before the header; empty when the file states none.
+  std::optional<climate::YearSpan> reference_period;
   std::string source;                // file name or label, for messages and outputs
 };
 

@@ -64,12 +64,8 @@ struct LocalRise {
 };
 
 // Throws InputError for a fingerprint naming no component, non-finite terms, a negative sd,
-// an ocean-dynamic table that is unsorted or does not cover the years, or a reference the
-// land-motion year cannot be read from.
+// an ocean-dynamic table that is unsorted or does not cover the years, or or land motion with
+// neither a stated reference year nor a reference period to count it from (its middle year).
 [[nodiscard]] LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const LocalTerms& terms);
-
-// The land-motion reference year read from a reference label: "YYYY" or a label that starts
-// with "YYYY-YYYY" (the middle of the period). Empty when neither.
-[[nodiscard]] std::optional<double> reference_year_of(const std::string& reference);
 
 }  // namespace tidewright::local

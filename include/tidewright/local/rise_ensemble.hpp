@@ -4,15 +4,21 @@
 #pragma once
 
 #include <Eigen/Dense>
+#include <optional>
 #include <string>
 #include <vector>
+
+#include "tidewright/climate/component_ensemble.hpp"
 
 namespace tidewright::local {
 
 struct RiseEnsemble {
   std::vector<int> years;   // strictly ascending
   Eigen::MatrixXd rise_m;   // members x years: rise since the reference, metres
-  std::string reference;    // what the rise is measured from, e.g. "2020" or "1995-2014 mean"
+  std::string reference;    // what the rise is measured from, for people, e.g. "1995-2014 mean"
+  // The reference period the rise is zero over on average, for checks against the record's
+  // epoch; empty when not known (a quantile table that states none, or an older members file).
+  std::optional<climate::YearSpan> reference_period;
   std::string scenario;     // label carried into every output
   bool illustrative = false;  // true when the scenario is a built-in illustrative pathway
   // Optional (added by the local stage): members x years global surface warming since the

@@ -29,12 +29,15 @@ struct PlanningInputs {
 
 // Joins a fit and a projection. With a fit epoch E: if E lies inside the projected years,
 // every member is re-referenced to its own rise in E; if E lies inside the projection's
-// reference period, the rise at E is taken as zero (it is by construction, to within the
-// reference period's own change); otherwise `epoch_offset_m` (the rise from E to the
-// projection's reference) must be given, or this throws InputError.
-[[nodiscard]] PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
-                                                     std::optional<double> epoch_offset_m,
-                                                     const planning::StorminessChange& storminess = {});
+// structured reference period (RiseEnsemble::reference_period), the rise at E is taken as zero
+// (it is by construction, to within the period's own change; a note says by how much);
+// otherwise `epoch_offset_m` (the rise from E to the projection's reference) must be given,
+// or this throws InputError whose hint names `epoch_offset_input` (the caller's flag or
+// site-file key). A given offset is applied in every case.
+[[nodiscard]] PlanningInputs join_fit_and_projection(
+    FitSummary fit, local::RiseEnsemble rise, std::optional<double> epoch_offset_m,
+    const planning::StorminessChange& storminess = {},
+    const std::string& epoch_offset_input = "--epoch-offset");
 
 struct AllowanceRow {
   planning::Allowance allowance;

@@ -47,9 +47,6 @@ struct ProjectionStageResult {
 // checked), without projecting it; `label` names it. InputError for a bad file.
 [[nodiscard]] climate::Scenario load_scenario(const ProjectionRequest& request, const std::string& label);
 
-// "2020" or "1995-2014" as a span of years; InputError at `where` otherwise.
-[[nodiscard]] climate::YearSpan parse_reference_span(const std::string& text, const std::string& where);
-
 // Per-year quantiles, type 7 (Hyndman & Fan 1996), of a members x years matrix.
 [[nodiscard]] std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p);
 

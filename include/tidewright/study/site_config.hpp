@@ -74,6 +74,9 @@ struct PlanningSettings {
   double target_risk = 0.1;                  // probability over the design life
   std::vector<double> levels_of_interest_m;  // e.g. a quay deck
   double storminess_scale_per_yr = 0.0;      // relative change of the extreme scale per year
+  // Rise from the record's epoch to the projection's reference, metres; needed only when the
+  // epoch lies neither in the projected years nor in the reference period (none by default).
+  std::optional<double> epoch_offset_m;
 };
 
 struct MapSettings {

@@ -15,7 +15,8 @@
 
 namespace tidewright::study {
 
-// Members CSV: '#' metadata lines (key: value), then "member,<year>,<year>,..." and one row
+// Members CSV: '#' metadata lines (key: value; the reference period as "reference_period:
+// 1995-2014" when there is one), then "member,<year>,<year>,..." and one row
 // per member of rise in metres.
 void write_members_csv(const std::filesystem::path& file, const local::RiseEnsemble& ensemble,
                        bool force);
@@ -31,6 +32,10 @@ struct FitSummary {
   std::optional<Eigen::MatrixXd> covariance;  // absent when the fit gave none
   std::string source;                         // the file it came from
 };
+
+// {"first_year": 1995, "last_year": 2014}, or null when there is no period.
+[[nodiscard]] nlohmann::ordered_json reference_period_json(
+    const std::optional<climate::YearSpan>& period);
 
 [[nodiscard]] nlohmann::ordered_json still_water_model_json(const extremes::StillWaterModel& m);
 [[nodiscard]] FitSummary read_fit_json(const std::filesystem::path& file);
