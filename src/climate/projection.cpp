@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <optional>
 #include <random>
 #include <string>
 
@@ -131,11 +132,29 @@ std::string YearSpan::label() const {
 }
 
 YearSpan parse_year_span(const std::string& text, const std::string& where) {
-  int a = 0, b = 0;
-  char extra = 0;
-  if (std::sscanf(text.c_str(), "%d-%d%c", &a, &b, &extra) == 2 && b >= a) return {a, b};
-  if (std::sscanf(text.c_str(), "%d%c", &a, &extra) == 1) return {a, a};
-  throw InputError(where, "is '" + text + "'", "give a year (2020) or a period (1995-2014)");
+  // One or two years of 1-4 digits, "YYYY" or "YYYY-YYYY": no sign, no overflow, no trailing text.
+  const auto year_at = [&](std::size_t& k) -> std::optional<int> {
+    int value = 0;
+    std::size_t digits = 0;
+    while (k < text.size() && text[k] >= '0' && text[k] <= '9' && digits < 5) {
+      value = 10 * value + (text[k] - '0');
+      ++k;
+      ++digits;
+    }
+    if (digits == 0 || digits > 4) return std::nullopt;
+    return value;
+  };
+  std::size_t k = 0;
+  const auto first = year_at(k);
+  std::optional<int> last = first;
+  if (first && k < text.size() && text[k] == '-') {
+    ++k;
+    last = year_at(k);
+  }
+  if (!first || !last || k != text.size() || *last < *first) {
+    throw InputError(where, "is '" + text + "'", "give a year (2020) or a period (1995-2014)");
+  }
+  return {*first, *last};
 }
 
 std::string YearSpan::text() const {

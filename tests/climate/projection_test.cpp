@@ -184,3 +184,24 @@ TEST(ClimateProjection, BadOptionsThrowInputError) {
     EXPECT_EQ(e.where(), "--samples");
   }
 }
+
+// The reference period as the members file, a quantile table, --reference and the site file
+// give it: one or two years of up to four digits; anything else (signs, overflow, text after)
+// is an InputError at the caller's `where`.
+TEST(ParseYearSpan, ReadsAYearOrAPeriodAndNothingElse) {
+  using tidewright::climate::parse_year_span;
+  using tidewright::climate::YearSpan;
+  EXPECT_EQ(parse_year_span("1995-2014", "w"), (YearSpan{1995, 2014}));
+  EXPECT_EQ(parse_year_span("2020", "w"), (YearSpan{2020, 2020}));
+  EXPECT_DOUBLE_EQ(parse_year_span("1995-2014", "w").middle_year(), 2004.5);
+  EXPECT_EQ(parse_year_span("1995-2014", "w").text(), "1995-2014");
+  for (const char* bad : {"", "-", "1995-", "-2014", "2014-1995", "1995-2014 mean", "99999999999",
+                          "1995-99999999999", "+2020", "20 20", "1995--2014"}) {
+    try {
+      (void)parse_year_span(bad, "members.csv:2: reference_period");
+      ADD_FAILURE() << "'" << bad << "' was accepted";
+    } catch (const tidewright::InputError& e) {
+      EXPECT_EQ(e.where(), "members.csv:2: reference_period");
+    }
+  }
+}
