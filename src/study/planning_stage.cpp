@@ -34,7 +34,10 @@ PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
           "give the rise from the record's epoch to the projection's reference in metres");
     }
     rise.rise_m.array() += *epoch_offset_m;
-    rise.reference_period.reset();  // the rise is now measured from the record's epoch
+    // The rise is now measured from the record's epoch, so label and period say so.
+    rise.reference = fit.reference_epoch ? "the record's epoch " + num(*fit.reference_epoch, 1) + " (stated offset)"
+                                         : "the record's levels (stated offset)";
+    rise.reference_period.reset();
     in.notes.push_back("rise shifted by " + num(*epoch_offset_m, 3) +
                        " m, the stated rise from the record's epoch to the projection's reference");
   } else if (fit.reference_epoch) {
@@ -53,7 +56,7 @@ PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
       // rate times the distance from the centre. 3 mm/yr: between the global rates of 1971-2006
       // (1.9) and 2006-2018 (3.7 mm/yr), IPCC AR6 WG1 SPM A.1.7.
       const climate::YearSpan& p = *rise.reference_period;
-      const double centre = 0.5 * (p.first_year + p.last_year + 1.0);
+      const double centre = p.centre_decimal_year();
       const double off_mm = 3.0 * (e - centre);
       in.notes.push_back(
           "the record's epoch " + num(e, 1) + " lies in the projection's reference period " +
@@ -71,8 +74,7 @@ PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
                            std::to_string(rise.years.back()) + " nor in the reference period (" +
                            period + ")",
                        "project from a first year at or before the epoch, or state the rise from "
-                       "the epoch to the "
-                       "reference with " +
+                       "the epoch to the reference with " +
                            epoch_offset_input);
     }
   } else {

@@ -88,6 +88,8 @@ TEST(JoinFitAndProjection, StatedOffsetIsAddedToEveryMember) {
   EXPECT_DOUBLE_EQ(in.rise.rise_m(0, 0), 0.01 + 0.07);
   EXPECT_DOUBLE_EQ(in.rise.rise_m(1, 1), 0.6 + 0.07);
   EXPECT_THAT(in.notes.at(0), HasSubstr("rise shifted by 0.070 m"));
+  EXPECT_EQ(in.rise.reference, "the record's epoch 1960.0 (stated offset)");
+  EXPECT_FALSE(in.rise.reference_period.has_value());
   EXPECT_THROW(
       (void)study::join_fit_and_projection(fit_with_epoch(1960.0), members(), std::nan("")),
       InputError);

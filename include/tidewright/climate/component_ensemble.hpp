@@ -27,6 +27,8 @@ struct YearSpan {
   [[nodiscard]] double middle_year() const {
     return 0.5 * (first_year + last_year);
   }  // 1995-2014 -> 2004.5
+  // As decimal years the mean covers first_year.0 to (last_year + 1).0; 1995-2014 -> 2005.0.
+  [[nodiscard]] double centre_decimal_year() const { return 0.5 * (first_year + last_year + 1.0); }
   [[nodiscard]] bool covers_decimal_year(double t) const {
     return t >= first_year && t <= last_year + 1.0;
   }
