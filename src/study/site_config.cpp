@@ -3,7 +3,7 @@
 #include <algorithm>
 
 #include "tidewright/common/error.hpp"
-#include "tidewright/study/toml_reader.hpp"
+#include "toml_reader.hpp"
 
 namespace tidewright::study {
 namespace {

@@ -1,4 +1,4 @@
-#include "tidewright/study/toml_reader.hpp"
+#include "toml_reader.hpp"
 
 #include <algorithm>
 #include <cmath>

@@ -9,7 +9,7 @@
 #include <numeric>
 
 #include "tidewright/common/error.hpp"
-#include "tidewright/terrain/gdal_support.hpp"
+#include "gdal_support.hpp"
 
 namespace tidewright::terrain {
 namespace {

@@ -12,7 +12,7 @@
 #include <sstream>
 
 #include "tidewright/common/error.hpp"
-#include "tidewright/terrain/gdal_support.hpp"
+#include "gdal_support.hpp"
 
 namespace tidewright::terrain {
 namespace {

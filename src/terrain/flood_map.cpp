@@ -17,7 +17,7 @@
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
-#include "tidewright/terrain/gdal_support.hpp"
+#include "gdal_support.hpp"
 #include "tidewright/version.hpp"
 
 namespace tidewright::terrain {

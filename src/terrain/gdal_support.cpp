@@ -1,5 +1,5 @@
-// Shared GDAL/OGR helpers of the terrain module (include/tidewright/terrain/gdal_support.hpp).
-#include "tidewright/terrain/gdal_support.hpp"
+// Shared GDAL/OGR helpers of the terrain module (gdal_support.hpp, private to the module).
+#include "gdal_support.hpp"
 
 #include <cpl_error.h>
 

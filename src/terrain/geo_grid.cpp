@@ -7,7 +7,7 @@
 #include <string>
 
 #include "tidewright/common/error.hpp"
-#include "tidewright/terrain/gdal_support.hpp"
+#include "gdal_support.hpp"
 
 namespace tidewright::terrain {
 

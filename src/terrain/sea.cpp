@@ -8,7 +8,7 @@
 #include <stdexcept>
 
 #include "tidewright/common/error.hpp"
-#include "tidewright/terrain/gdal_support.hpp"
+#include "gdal_support.hpp"
 
 namespace tidewright::terrain {
 namespace {

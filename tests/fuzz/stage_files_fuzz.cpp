@@ -1,22 +1,20 @@
 // libFuzzer target: the files later stages read back (members CSV, fit JSON, quantile table)
 // and the projection's scenario files (forcing, CO2, warming CSV) on arbitrary bytes.
 // Anything but an InputError is a bug.
-#include <unistd.h>
-
 #include <cstddef>
 #include <cstdint>
 #include <filesystem>
 #include <fstream>
 #include <string>
 
+#include "fuzz_input_file.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/local/quantile_table.hpp"
 #include "tidewright/study/projection_stage.hpp"
 #include "tidewright/study/stage_files.hpp"
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
-  static const std::filesystem::path file =
-      std::filesystem::temp_directory_path() / ("tidewright-fuzz-stage-" + std::to_string(::getpid()));
+  static const std::filesystem::path file = fuzz_input_file("stage-file");
   {
     std::ofstream out(file, std::ios::binary | std::ios::trunc);
     out.write(reinterpret_cast<const char*>(data), static_cast<std::streamsize>(size));

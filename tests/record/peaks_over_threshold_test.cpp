@@ -11,6 +11,8 @@
 #include <map>
 #include <sstream>
 
+#include "tidewright/extremes/still_water_model.hpp"
+
 #include "record/record_test_helpers.hpp"
 #include "tidewright/record/timestamp.hpp"
 

@@ -12,6 +12,8 @@
 #include <string_view>
 #include <vector>
 
+#include "tidewright/record/empirical_rate_curve.hpp"
+
 namespace tidewright::extremes {
 
 enum class Family {
@@ -23,12 +25,8 @@ enum class Family {
 [[nodiscard]] std::string_view family_name(Family family);
 
 // Empirical annual exceedance rates of declustered peaks at levels below the GPD threshold,
-// used where sea-level rise brings a level of interest below u. Levels ascending, rates
-// descending; log-linear interpolation between points.
-struct EmpiricalRateCurve {
-  std::vector<double> level_m;
-  std::vector<double> rate_per_yr;
-};
+// used where sea-level rise brings a level of interest below u (made by the record module).
+using EmpiricalRateCurve = record::EmpiricalRateCurve;
 
 // N_0 at a level with its first two derivatives in z (per yr, per yr per m, per yr per m^2).
 struct RateDerivatives {

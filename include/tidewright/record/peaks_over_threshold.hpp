@@ -13,8 +13,8 @@
 #include <string>
 #include <vector>
 
-#include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/record/annual_maxima.hpp"
+#include "tidewright/record/empirical_rate_curve.hpp"
 #include "tidewright/record/mean_sea_level_trend.hpp"
 #include "tidewright/record/record_years.hpp"
 #include "tidewright/record/water_level_series.hpp"
@@ -59,7 +59,7 @@ struct PeaksOverThreshold {
   double events_per_yr = 0.0;    // λ_u
   // Declustered events per year at levels below u (ascending levels, descending rates),
   // for StillWaterModel::below_threshold.
-  extremes::EmpiricalRateCurve below_threshold;
+  EmpiricalRateCurve below_threshold;
   std::string datum;
   std::string source;
   std::vector<DroppedYear> dropped;

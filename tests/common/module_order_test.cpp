@@ -1,0 +1,137 @@
+// The module order of DEVELOPERS.md ("Layout"), checked on the source text: a module's headers
+// and sources include only modules before it, and the public headers include no GDAL, toml++ or
+// cairo header (those stay private to the modules that use them). The build enforces the same
+// order by linking (one library per module); this test names the offending line.
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <array>
+#include <filesystem>
+#include <fstream>
+#include <regex>
+#include <string>
+#include <vector>
+
+namespace {
+
+namespace fs = std::filesystem;
+
+// DEVELOPERS.md, "Layout": common → record → extremes → climate → local → planning → terrain →
+// report → study → cli.
+constexpr std::array<const char*, 10> module_order = {
+    "common", "record", "extremes", "climate", "local", "planning",
+    "terrain", "report", "study", "cli"};
+
+int rank_of(const std::string& module) {
+  const auto* at = std::find(module_order.begin(), module_order.end(), module);
+  return at == module_order.end() ? -1 : static_cast<int>(at - module_order.begin());
+}
+
+struct Include {
+  std::string file;
+  int line = 0;
+  std::string text;
+  std::string target;  // the included path
+};
+
+std::vector<Include> includes_of(const fs::path& file) {
+  static const std::regex include_line(R"(^\s*#\s*include\s*[<"]([^>"]+)[>"])");
+  std::vector<Include> found;
+  std::ifstream in(file);
+  std::string text;
+  int line = 0;
+  while (std::getline(in, text)) {
+    ++line;
+    std::smatch match;
+    if (std::regex_search(text, match, include_line)) {
+      found.push_back({file.string(), line, text, match[1].str()});
+    }
+  }
+  return found;
+}
+
+// Every header and source of a module with the module's name: include/tidewright/<m>/ and src/<m>/.
+std::vector<std::pair<std::string, fs::path>> module_files() {
+  const fs::path root = TIDEWRIGHT_SOURCE_DIR;
+  std::vector<std::pair<std::string, fs::path>> files;
+  for (const auto* top : {"include/tidewright", "src"}) {
+    for (const auto& dir : fs::directory_iterator(root / top)) {
+      if (!dir.is_directory()) continue;
+      for (const auto& entry : fs::directory_iterator(dir.path())) {
+        const auto ext = entry.path().extension();
+        if (ext == ".hpp" || ext == ".cpp") {
+          files.emplace_back(dir.path().filename().string(), entry.path());
+        }
+      }
+    }
+  }
+  return files;
+}
+
+std::vector<std::string> order_violations() {
+  static const std::regex module_include(R"(^tidewright/(\w+)/)");
+  std::vector<std::string> problems;
+  for (const auto& [module, file] : module_files()) {
+    const int rank = rank_of(module);
+    if (rank < 0) {
+      problems.push_back(file.string() + ": module '" + module + "' is not in the order");
+      continue;
+    }
+    for (const auto& inc : includes_of(file)) {
+      std::smatch match;
+      if (!std::regex_search(inc.target, match, module_include)) continue;
+      const int used = rank_of(match[1].str());
+      if (used > rank) {
+        problems.push_back(inc.file + ":" + std::to_string(inc.line) + ": " + module +
+                           " includes " + match[1].str() + ", which comes after it: " +
+                           inc.text);
+      }
+    }
+  }
+  return problems;
+}
+
+TEST(ModuleOrder, NoModuleIncludesALaterOne) {
+  const auto problems = order_violations();
+  std::string all;
+  for (const auto& p : problems) all += p + "\n";
+  EXPECT_TRUE(problems.empty()) << all;
+}
+
+TEST(ModuleOrder, PublicHeadersKeepGdalTomlAndCairoPrivate) {
+  static const std::regex private_library(
+      R"(^(gdal|ogr|cpl_|ogrsf_|toml\+\+/|toml\.h|cairo|proj\.h|proj/))");
+  const fs::path root = TIDEWRIGHT_SOURCE_DIR;
+  std::vector<std::string> problems;
+  std::size_t headers = 0;
+  for (const auto& entry : fs::recursive_directory_iterator(root / "include/tidewright")) {
+    if (entry.path().extension() != ".hpp") continue;
+    ++headers;
+    for (const auto& inc : includes_of(entry.path())) {
+      if (std::regex_search(inc.target, private_library)) {
+        problems.push_back(inc.file + ":" + std::to_string(inc.line) + ": " + inc.text);
+      }
+    }
+  }
+  EXPECT_GT(headers, 40U) << "the scan found too few public headers; is the path right?";
+  std::string all;
+  for (const auto& p : problems) all += p + "\n";
+  EXPECT_TRUE(problems.empty()) << all;
+}
+
+// The check itself can fail: an upward include in a scratch file is caught by the same rule.
+TEST(ModuleOrder, TheRuleCatchesAnUpwardInclude) {
+  const fs::path dir = fs::temp_directory_path() / "tidewright_module_order_probe";
+  fs::create_directories(dir);
+  const fs::path probe = dir / "probe.hpp";
+  std::ofstream(probe) << "#pragma once\n#include \"tidewright/study/site_config.hpp\"\n";
+  const auto found = includes_of(probe);
+  fs::remove_all(dir);
+  ASSERT_EQ(found.size(), 1U);
+  static const std::regex module_include(R"(^tidewright/(\w+)/)");
+  std::smatch match;
+  ASSERT_TRUE(std::regex_search(found[0].target, match, module_include));
+  EXPECT_GT(rank_of(match[1].str()), rank_of("record"));
+}
+
+}  // namespace
