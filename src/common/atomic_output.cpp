@@ -10,6 +10,10 @@
 #include <cerrno>
 #include <csignal>
 #include <cstring>
+#include <algorithm>
+#include <set>
+#include <vector>
+
 #include <nlohmann/json.hpp>
 
 #include "tidewright/common/error.hpp"
@@ -117,13 +121,61 @@ std::string opt_prefix(std::string_view option) {
   return option.empty() ? std::string() : std::string(option) + " ";
 }
 
+// Every file and folder below `folder`, as paths relative to it ('/'-separated), sorted.
+std::vector<std::string> entries_below(const std::filesystem::path& folder) {
+  std::vector<std::string> names;
+  std::error_code ec;
+  for (auto it = std::filesystem::recursive_directory_iterator(folder, ec);
+       !ec && it != std::filesystem::recursive_directory_iterator(); it.increment(ec)) {
+    names.push_back(std::filesystem::relative(it->path(), folder, ec).generic_string());
+  }
+  std::sort(names.begin(), names.end());
+  return names;
+}
+
+std::set<std::string> manifest_of(const std::filesystem::path& folder) {
+  std::set<std::string> names;
+  std::ifstream in(folder / output_manifest_name);
+  for (std::string line; std::getline(in, line);) {
+    if (!line.empty() && line[0] != '#') names.insert(line);
+  }
+  return names;
+}
+
+// An existing output folder may be replaced only when it is empty, or with force when all it
+// holds was written by a tidewright run (listed in its manifest): never a user's own file.
+void check_output_folder(const std::filesystem::path& target, bool force, const std::string& where) {
+  const auto present = entries_below(target);
+  if (present.empty()) return;
+  if (!force) {
+    throw InputError(where, "already exists and is not empty",
+                     "choose another folder or pass --force to replace a previous run's output");
+  }
+  const auto written = manifest_of(target);
+  std::vector<std::string> foreign;
+  for (const auto& name : present) {
+    if (name != output_manifest_name && written.count(name) == 0) foreign.push_back(name);
+  }
+  if (foreign.empty()) return;
+  constexpr std::size_t shown = 5;
+  std::string list;
+  for (std::size_t i = 0; i < foreign.size() && i < shown; ++i) list += (i ? ", " : "") + foreign[i];
+  if (foreign.size() > shown) list += " and " + std::to_string(foreign.size() - shown) + " more";
+  throw InputError(where,
+                   "holds files this command did not write (" + list + "); --force replaces only "
+                   "a previous run's own output",
+                   "move those files elsewhere or choose another folder");
+}
+
 }  // namespace
 
 void check_output_path(const std::filesystem::path& target, bool force, std::string_view option) {
   std::error_code ec;
   const std::string where = opt_prefix(option) + target.string();
   if (target.empty()) throw InputError(std::string(option), "no output path given", "give a file name");
-  if (std::filesystem::exists(target, ec) && !force) {
+  if (std::filesystem::is_directory(target, ec)) {
+    check_output_folder(target, force, where);
+  } else if (std::filesystem::exists(target, ec) && !force) {
     throw InputError(where, "already exists", "choose another name or pass --force to replace it");
   }
   const auto parent = target.has_parent_path() ? target.parent_path() : std::filesystem::path(".");
@@ -169,6 +221,19 @@ const std::filesystem::path& AtomicPath::make_temp_folder() {
 void AtomicPath::commit() {
   if (done_) return;
   std::error_code ec;
+  if (std::filesystem::is_directory(temp_, ec)) {
+    // The manifest lets a later --force tell this run's files from a user's.
+    std::ofstream manifest(temp_ / output_manifest_name, std::ios::binary);
+    manifest << "# Files written by one tidewright run; --force replaces this folder only while\n"
+                "# it holds nothing else.\n";
+    for (const auto& name : entries_below(temp_)) {
+      if (name != output_manifest_name) manifest << name << '\n';
+    }
+    manifest.close();
+    if (!manifest) {
+      throw InputError(target_.string(), "cannot be written", "check the disk and permissions");
+    }
+  }
   if (std::filesystem::is_directory(target_, ec) && std::filesystem::is_directory(temp_, ec)) {
     // A folder cannot be renamed over a non-empty folder: move the old one aside first.
     const auto old = temp_name_for(target_.string() + "-previous");

@@ -11,6 +11,7 @@
 #include <sstream>
 
 #include "support/run_cli.hpp"
+#include "tidewright/common/atomic_output.hpp"
 #include "terrain/terrain_fixtures.hpp"
 
 using ::testing::HasSubstr;
@@ -92,6 +93,18 @@ TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
   EXPECT_THAT(forced.out, HasSubstr("Cautions:"));
   EXPECT_THAT(read_all(out / "summary.csv"), HasSubstr("1.5000,,,3,3,300.00"));
   EXPECT_THAT(read_all(out / "summary.csv"), ::testing::Not(HasSubstr("3.5000")));
+  // Issue 14: --force once deleted every file in the folder. A user's notes and sea polygon
+  // put beside the outputs are never deleted: the run is refused with their names.
+  tidewright::write_text_file(out / "notes.txt", "site visit notes", false);
+  tidewright::write_text_file(out / "sea.geojson", "{}", false);
+  const auto kept = run_cli("map --dem " + shell_quote(dem) +
+                            " --same-datum --sea-edge-below 0 --level 1.5 --force --quiet --out " +
+                            shell_quote(out.string()));
+  EXPECT_EQ(kept.exit_code, 2);
+  EXPECT_THAT(kept.err, HasSubstr("did not write (notes.txt, sea.geojson)"));
+  EXPECT_EQ(read_all(out / "notes.txt"), "site visit notes");
+  EXPECT_EQ(read_all(out / "sea.geojson"), "{}");
+  EXPECT_TRUE(std::filesystem::exists(out / "depth.tif"));
 }
 
 TEST(MapCommand, AepAndFirstYearFromAStatedRise) {

@@ -77,17 +77,53 @@ TEST(AtomicOutput, MissingFolderIsNamed) {
   EXPECT_THROW(tidewright::write_text_file(dir / "no" / "x.txt", "x", false), InputError);
 }
 
-TEST(AtomicOutput, FolderTargetIsReplacedWhole) {
+namespace {
+// One run's folder output: `name` inside a new folder at `target`.
+void write_folder_run(const fs::path& target, const std::string& name, bool force) {
+  tidewright::AtomicPath p(target, force, "--out");
+  p.make_temp_folder();
+  fs::create_directory(p.temp_path() / "maps");
+  tidewright::write_text_file(p.temp_path() / "maps" / name, "run", false);
+  p.commit();
+}
+}  // namespace
+
+TEST(AtomicOutput, FolderOfAPreviousRunIsReplacedWholeWithForce) {
+  TempDir dir;
+  write_folder_run(dir / "out", "old.txt", false);
+  EXPECT_THROW(write_folder_run(dir / "out", "new.txt", false), tidewright::InputError);
+  write_folder_run(dir / "out", "new.txt", true);
+  EXPECT_TRUE(fs::exists(dir / "out" / "maps" / "new.txt"));
+  EXPECT_FALSE(fs::exists(dir / "out" / "maps" / "old.txt"));
+  EXPECT_EQ(entries(dir.path()), 1U);
+}
+
+// Issue 14: `map --out DIR --force` deleted every file in DIR. A folder holding anything a run
+// did not write is refused with the names, and nothing in it changes.
+TEST(AtomicOutput, ForceNeverReplacesAFolderHoldingAUsersFiles) {
+  TempDir dir;
+  write_folder_run(dir / "out", "old.txt", false);
+  tidewright::write_text_file(dir / "out" / "notes.txt", "mine", false);
+  tidewright::write_text_file(dir / "out" / "maps" / "sea.gpkg", "mine too", false);
+  try {
+    write_folder_run(dir / "out", "new.txt", true);
+    FAIL() << "a folder with a user's files was replaced";
+  } catch (const tidewright::InputError& e) {
+    EXPECT_THAT(std::string(e.what()), HasSubstr("did not write (maps/sea.gpkg, notes.txt)"));
+    EXPECT_THAT(std::string(e.what()), HasSubstr("--out"));
+  }
+  EXPECT_TRUE(fs::exists(dir / "out" / "notes.txt"));
+  EXPECT_TRUE(fs::exists(dir / "out" / "maps" / "sea.gpkg"));
+  EXPECT_TRUE(fs::exists(dir / "out" / "maps" / "old.txt"));
+  EXPECT_EQ(entries(dir.path()), 1U);  // no temporary left beside it
+}
+
+// Issue 15: an empty folder made beforehand is accepted without --force.
+TEST(AtomicOutput, EmptyExistingFolderIsAccepted) {
   TempDir dir;
   fs::create_directory(dir / "out");
-  tidewright::write_text_file(dir / "out" / "old.txt", "old", false);
-  tidewright::AtomicPath p(dir / "out", true);
-  fs::create_directory(p.temp_path());
-  tidewright::write_text_file(p.temp_path() / "new.txt", "new", false);
-  p.commit();
-  EXPECT_TRUE(fs::exists(dir / "out" / "new.txt"));
-  EXPECT_FALSE(fs::exists(dir / "out" / "old.txt"));
-  EXPECT_EQ(entries(dir.path()), 1U);
+  write_folder_run(dir / "out", "new.txt", false);
+  EXPECT_TRUE(fs::exists(dir / "out" / "maps" / "new.txt"));
 }
 
 TEST(AtomicOutput, JsonIsIndentedWithNewline) {

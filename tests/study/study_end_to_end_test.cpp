@@ -125,13 +125,20 @@ TEST(StudyCommand, BadSiteFilesLeaveNoFolder) {
 TEST(StudyCommand, ExistingFolderIsRefusedWithoutForce) {
   TempDir dir;
   fs::create_directory(dir / "out");
+  tidewright::write_text_file(dir / "out" / "notes.txt", "the user's own notes", false);
   tidewright::write_text_file(dir / "site.toml",
                               "[site]\nname = \"t\"\nwater_level_datum = \"d\"\n[record]\npath = \"a.csv\"\n"
                               "[[scenario]]\nname = \"m\"\npathway = \"midway\"\n",
                               true);
   const auto r = run_cli("study " + shell_quote((dir / "site.toml").string()) + " --out " + shell_quote((dir / "out").string()));
   EXPECT_EQ(r.exit_code, 2);
-  EXPECT_THAT(r.err, HasSubstr("already exists; choose another name or pass --force"));
+  EXPECT_THAT(r.err, HasSubstr("already exists and is not empty; choose another folder or pass --force"));
+  // Issue 14: --force replaces a previous run's output only, never a user's file.
+  const auto forced = run_cli("study " + shell_quote((dir / "site.toml").string()) + " --out " +
+                              shell_quote((dir / "out").string()) + " --force");
+  EXPECT_EQ(forced.exit_code, 2);
+  EXPECT_THAT(forced.err, HasSubstr("holds files this command did not write (notes.txt)"));
+  EXPECT_TRUE(fs::exists(dir / "out" / "notes.txt"));
 }
 
 // Issue 7: the report loads in headless Chromium (Debian `chromium`) with no missing resource

@@ -13,8 +13,14 @@
 
 namespace tidewright {
 
+// The list of files a run wrote into an output folder, written into the folder itself.
+inline constexpr const char* output_manifest_name = ".tidewright-written";
+
 // Throws InputError if `target` exists and !force, or if its folder does not exist or is
-// not writable. `option` names the option that gave the path, for the message.
+// not writable. `option` names the option that gave the path, for the message. An existing
+// folder is accepted when empty; with force, only when everything in it is listed in its
+// manifest (a previous run's own output): a folder holding other files is refused with their
+// names, so --force never deletes a user's file.
 void check_output_path(const std::filesystem::path& target, bool force,
                        std::string_view option = "");
 
