@@ -38,6 +38,8 @@ struct MapOptions {
   int band = 1;
   std::optional<double> dem_nodata;
   std::string dem_crs;
+  std::string z_units;
+  std::optional<double> z_factor;
   std::optional<double> datum_offset_m;
   std::string datum_offset_raster;
   bool same_datum = false;
@@ -272,6 +274,8 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
   req.dem.band = o.band;
   req.dem.nodata = o.dem_nodata;
   req.dem.crs_override = o.dem_crs;
+  req.dem.z_units = o.z_units;
+  req.dem.z_factor = o.z_factor;
   const int datum_given = static_cast<int>(o.datum_offset_m.has_value()) +
                           static_cast<int>(!o.datum_offset_raster.empty()) +
                           static_cast<int>(o.same_datum);
@@ -377,6 +381,13 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--dem-nodata", o->dem_nodata,
                  "Extra nodata value (the file's own is always used)");
   app.add_option("--dem-crs", o->dem_crs, "CRS to assume when the DEM has none (e.g. EPSG:32633)");
+  app.add_option("--z-units", o->z_units,
+                 "Vertical unit of the DEM's values: m, ft, us-ft, cm, mm (default: the band's "
+                 "unit, else the vertical CRS's, else metres)")
+      ->type_name("UNIT");
+  app.add_option("--z-factor", o->z_factor,
+                 "Metres per unit of the DEM's values, for a unit --z-units does not name")
+      ->type_name("M_PER_UNIT");
   app.add_option("--datum-offset", o->datum_offset_m,
                  "Metres added to DEM elevations to give heights above the water-level datum")
       ->type_name("M");
@@ -482,6 +493,7 @@ void configure(CLI::App& app, CommonOptions& common) {
       QuietGdal& operator=(const QuietGdal&) = delete;
     } quiet_gdal;
     const auto summary = terrain::make_flood_maps(req);
+    for (const auto& w : summary.warnings) std::cerr << "tidewright: warning: " << w << "\n";
     if (!common.quiet) {
       for (const auto& n : notes) std::cout << "note: " << n << "\n";
       print_summary(summary, o->out);

@@ -6,10 +6,14 @@
 #include <unistd.h>
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <limits>
+#include <optional>
 #include <sstream>
+#include <utility>
+#include <vector>
 
 #include "tidewright/common/error.hpp"
 #include "gdal_support.hpp"
@@ -110,6 +114,125 @@ std::vector<float> resample_to_grid(const std::string& path, const GeoGrid& grid
   return values;
 }
 
+namespace {
+
+std::string lower(std::string s) {
+  std::transform(s.begin(), s.end(), s.begin(),
+                 [](unsigned char c) { return static_cast<char>(std::tolower(c)); });
+  return s;
+}
+
+struct VerticalScale {
+  double metres_per_unit = 1.0;
+  std::string text;    // for the metadata record
+  bool stated = true;  // false: no unit anywhere, metres assumed
+};
+
+// The vertical unit: the caller's statement, else the band's unit type, else the vertical part
+// of a compound CRS; an unknown unit is refused rather than read as metres.
+VerticalScale vertical_scale(const DemSource& source, GDALRasterBand& band,
+                             const OGRSpatialReference& crs) {
+  if (!source.z_units.empty() && source.z_factor) {
+    throw InputError(source.z_units_name, "is given together with " + source.z_factor_name,
+                     "give one: a unit name or the metres per unit");
+  }
+  if (source.z_factor) {
+    if (!std::isfinite(*source.z_factor) || *source.z_factor <= 0.0) {
+      throw InputError(source.z_factor_name, "must be a positive number of metres per unit",
+                       "e.g. 0.3048 for feet, 0.01 for centimetres");
+    }
+    return {*source.z_factor, number(*source.z_factor) + " m per unit (stated)"};
+  }
+  if (!source.z_units.empty()) {
+    const auto f = metres_per_vertical_unit(source.z_units);
+    if (!f) {
+      throw InputError(source.z_units_name, "'" + source.z_units + "' is not a vertical unit tidewright knows",
+                       "give m, ft, us-ft, cm or mm, or the metres per unit with " +
+                           source.z_factor_name);
+    }
+    return {*f, source.z_units + " (stated)"};
+  }
+  const char* band_unit = band.GetUnitType();
+  if (band_unit != nullptr && *band_unit != '\0') {
+    const auto f = metres_per_vertical_unit(band_unit);
+    if (!f) {
+      throw InputError(source.path,
+                       "the band's vertical unit '" + std::string(band_unit) + "' is not one tidewright knows",
+                       "state it with " + source.z_units_name + " (m, ft, us-ft, cm, mm) or " +
+                           source.z_factor_name + " M_PER_UNIT");
+    }
+    return {*f, std::string(band_unit) + " (the band's unit)"};
+  }
+  if (crs.IsCompound()) {
+    const char* name = nullptr;
+    const double f = crs.GetTargetLinearUnits("VERT_CS", &name);
+    if (f > 0.0 && std::isfinite(f)) {
+      return {f, std::string(name != nullptr ? name : "unit") + " (the vertical CRS's unit)"};
+    }
+  }
+  return {1.0, "metres (assumed: neither the band nor the CRS names a vertical unit)", false};
+}
+
+// Values that look like centimetres or feet where no unit was given: an integer band without a
+// scale factor (metre DEMs are stored as floats or scaled integers), or valid values spanning
+// more than 1,000 units (no coastal DEM in metres spans a kilometre of height): common practice.
+std::optional<std::string> unit_suspicion(const std::vector<float>& z, GDALDataType type, bool scaled) {
+  const bool integer = GDALDataTypeIsInteger(type) != 0 && !scaled;
+  float lo = std::numeric_limits<float>::infinity();
+  float hi = -lo;
+  for (const float v : z) {
+    if (!std::isnan(v)) {
+      lo = std::min(lo, v);
+      hi = std::max(hi, v);
+    }
+  }
+  constexpr double span_limit = 1000.0;
+  const bool wide = static_cast<double>(hi) - static_cast<double>(lo) > span_limit;
+  if (!integer && !wide) return std::nullopt;
+  return std::string("no vertical unit is recorded, so elevations are read as metres, but they "
+                     "look like centimetres or feet (") +
+         (integer ? "an integer band with no scale factor" : "") + (integer && wide ? ", " : "") +
+         (wide ? "values spanning " + number(static_cast<double>(hi) - static_cast<double>(lo)) +
+                     " units, more than 1000"
+               : "") +
+         "); state the unit with --z-units (m, ft, us-ft, cm, mm) to be sure";
+}
+
+}  // namespace
+
+std::optional<double> metres_per_vertical_unit(const std::string& name) {
+  // Foot definitions: international foot 0.3048 m exactly; US survey foot 1200/3937 m
+  // (NIST Handbook 44, Appendix C).
+  static const std::vector<std::pair<std::vector<std::string>, double>> units = {
+      {{"m", "metre", "meter", "metres", "meters"}, 1.0},
+      {{"ft", "foot", "feet", "international foot"}, 0.3048},
+      {{"us-ft", "us_ft", "ftus", "us survey foot", "foot_us", "us-foot"}, 1200.0 / 3937.0},
+      {{"cm", "centimetre", "centimeter", "centimetres", "centimeters"}, 0.01},
+      {{"mm", "millimetre", "millimeter", "millimetres", "millimeters"}, 0.001},
+  };
+  const std::string key = lower(name);
+  for (const auto& [names, factor] : units) {
+    if (std::find(names.begin(), names.end(), key) != names.end()) return factor;
+  }
+  return std::nullopt;
+}
+
+namespace {
+
+// The horizontal part of a compound CRS: outputs hold metres above the water-level datum,
+// so they must not carry the DEM's vertical datum.
+std::string horizontal_wkt(OGRSpatialReference crs) {
+  if (crs.IsCompound()) crs.StripVertical();
+  char* wkt = nullptr;
+  const char* wkt_options[] = {"FORMAT=WKT2_2019", nullptr};
+  crs.exportToWkt(&wkt, wkt_options);
+  std::string text = wkt != nullptr ? wkt : "";
+  CPLFree(wkt);
+  return text;
+}
+
+}  // namespace
+
 Dem read_dem(const DemSource& source) {
   auto ds = gdal::open_raster(source.path, "DEM");
   if (source.band < 1 || source.band > ds->GetRasterCount()) {
@@ -138,13 +261,10 @@ Dem read_dem(const DemSource& source) {
                      "and defence layers can be placed on it",
                      "assign one (gdal_edit.py -a_srs EPSG:XXXX) or pass --dem-crs EPSG:XXXX");
   }
-  char* wkt = nullptr;
-  const char* wkt_options[] = {"FORMAT=WKT2_2019", nullptr};
-  chosen.exportToWkt(&wkt, wkt_options);
-  dem.grid.crs_wkt = wkt != nullptr ? wkt : "";
-  CPLFree(wkt);
+  dem.grid.crs_wkt = horizontal_wkt(chosen);
 
   GDALRasterBand* band = ds->GetRasterBand(source.band);
+  const VerticalScale vertical = vertical_scale(source, *band, chosen);
   check_fits_in_memory(source.path, dem.grid.shape.cols, dem.grid.shape.rows);
   const std::size_t n = dem.grid.shape.cells();
   dem.elevation_m.resize(n);
@@ -182,6 +302,31 @@ Dem read_dem(const DemSource& source) {
   if (valid == 0) {
     throw InputError(source.path, "every cell of the DEM is nodata",
                      "check the nodata value (gdalinfo -stats) or choose another band");
+  }
+  // GDAL's scale and offset turn stored values into the band's unit (nodata is a stored value,
+  // so it was matched above); then the unit's metres.
+  int has_scale = 0;
+  int has_offset = 0;
+  const double scale = band->GetScale(&has_scale);
+  const double offset = band->GetOffset(&has_offset);
+  const bool scaled = (has_scale != 0 && scale != 1.0) || (has_offset != 0 && offset != 0.0);
+  const double a = (has_scale != 0 ? scale : 1.0) * vertical.metres_per_unit;
+  const double b = (has_offset != 0 ? offset : 0.0) * vertical.metres_per_unit;
+  if (a != 1.0 || b != 0.0) {
+    for (auto& v : dem.elevation_m) {
+      if (!std::isnan(v)) v = static_cast<float>(static_cast<double>(v) * a + b);
+    }
+  }
+  // Judged on the band's values after its scale and offset (the unit is metres, assumed).
+  if (!vertical.stated) {
+    if (auto w = unit_suspicion(dem.elevation_m, band->GetRasterDataType(), scaled)) {
+      dem.warnings.push_back(source.path + ": " + *w);
+    }
+  }
+  dem.vertical_unit = vertical.text;
+  if (scaled) {
+    dem.vertical_unit += "; band scale " + number(has_scale != 0 ? scale : 1.0) + ", offset " +
+                         number(has_offset != 0 ? offset : 0.0);
   }
 
   std::string datum;
@@ -228,7 +373,8 @@ Dem read_dem(const DemSource& source) {
       std::to_string(dem.grid.shape.cols) + " x " + std::to_string(dem.grid.shape.rows) +
       " cells, " + std::to_string(valid) + " valid; nodata: " +
       (has_nodata != 0 ? number(file_nodata) + " from the file" : "none in the file") +
-      (source.nodata ? ", " + number(*source.nodata) + " declared" : "") + "); " + datum;
+      (source.nodata ? ", " + number(*source.nodata) + " declared" : "") + "); vertical unit: " +
+      dem.vertical_unit + "; " + datum;
   return dem;
 }
 

@@ -201,6 +201,7 @@ nlohmann::ordered_json summary_json(const MapSummary& s, const FloodThresholdMap
   j["defences"] = map.defences ? map.defences->description : "none";
   j["connectivity"] = static_cast<int>(map.connectivity);
   j["vertical"] = "metres above the water-level datum";
+  j["dem_vertical_unit"] = map.dem.vertical_unit;
   j["area_method"] = s.area_method;
   j["cells"] = s.cells;
   j["valid_cells"] = s.valid_cells;
@@ -225,6 +226,7 @@ nlohmann::ordered_json summary_json(const MapSummary& s, const FloodThresholdMap
   j["files"] = s.files;
   j["command"] = req.command_line;
   j["cautions"] = req.cautions;
+  j["warnings"] = s.warnings;
   return j;
 }
 
@@ -279,6 +281,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   const CellAreas areas = cell_areas(map.dem.grid);
 
   MapSummary s;
+  s.warnings = map.dem.warnings;
   const GridShape shape = map.dem.grid.shape;
   s.cells = shape.cells();
   s.sea_cells = map.sea.count;

@@ -9,6 +9,7 @@
 
 #include <array>
 #include <cstdio>
+#include <cstdlib>
 #include <nlohmann/json.hpp>
 #include <string>
 
@@ -150,4 +151,84 @@ TEST(TerrainReference, SpreadSeaAgreesWithScipyAndEveryProductReadsBack) {
       EXPECT_TRUE(rec[name]["same_geotransform"].get<bool>()) << name;
     }
   }
+}
+
+// Issue 15: a DEM in feet, or in centimetres stored as Int16 with GDAL scale 0.01, was read as
+// metres (11.3 m depth at a 2 m level; 70 flooded cells instead of 92,343). Copies of a metre
+// DEM in feet (band unit "ft"), scaled Int16 centimetres, and US survey feet named only by a
+// compound CRS's vertical part must flood exactly the cells SciPy's labelling finds on the metre
+// DEM; the outputs carry the horizontal CRS alone (values are metres above the water-level
+// datum, not the input's vertical datum). Levels lie halfway between the DEM's 1 cm steps, so
+// the conversions' float rounding cannot move a cell across a level.
+TEST(TerrainReference, FeetAndScaledCentimetreDemsFloodTheSameCellsAsMetres) {
+  const std::string levels = "-0.995 0.505 2.005 4.005";
+  TempDir tmp;
+  const auto dem = (tmp / "dem.tif").string();
+  const auto gen = python("generate " + shell_quote(dem) + " 2 200 300");
+  ASSERT_EQ(gen.status, 0) << "Debian's /usr/bin/python3 with python3-numpy, python3-gdal, "
+                              "python3-scipy and python3-skimage is needed: "
+                           << gen.out;
+  std::string level_args;
+  for (const char* l : {"-0.995", "0.505", "2.005", "4.005"}) level_args += std::string(" --level ") + l;
+  for (const char* kind : {"metres", "ft", "cm", "usft-crs"}) {
+    SCOPED_TRACE(kind);
+    std::string input = dem;
+    if (std::string(kind) != "metres") {
+      input = (tmp / (std::string(kind) + ".tif")).string();
+      const auto copy = python("units " + shell_quote(dem) + " " + kind + " " + shell_quote(input));
+      ASSERT_EQ(copy.status, 0) << copy.out;
+    }
+    const auto out = (tmp / (std::string("out-") + kind)).string();
+    const auto map = run_cli("map --dem " + shell_quote(input) +
+                             " --same-datum --sea-edge-below 0 --quiet" + level_args + " --out " +
+                             shell_quote(out));
+    ASSERT_EQ(map.exit_code, 0) << map.err;
+    EXPECT_EQ(map.err, "");  // every copy names its unit: no warning
+    const auto check = python("check " + shell_quote(dem) + " " + shell_quote(out) + " 8 none " + levels);
+    ASSERT_EQ(check.status, 0) << check.out;
+    const auto j = nlohmann::json::parse(check.out);
+    EXPECT_EQ(j["extent_cells"].get<int>(), 4 * 60000);
+    EXPECT_GT(j["extent_flooded_cells"].get<int>(), 10000);
+    EXPECT_EQ(j["extent_mismatches"].get<int>(), 0);
+    // Thresholds in metres: exact for the metre DEM; within float32 rounding of the converted
+    // values (a few ulp of 20 m, about 1e-5 m) for the copies.
+    EXPECT_LT(j["threshold_max_abs_diff"].get<double>(), 1e-5);
+    EXPECT_EQ(j["record"]["epsg"], "32633");
+  }
+}
+
+// Without a unit anywhere, an integer band with no scale factor reads as metres with a warning
+// that says the rule; --z-units cm reads it right and the warning goes.
+TEST(TerrainReference, UnlabelledIntegerDemIsWarnedAndZUnitsReadsIt) {
+  TempDir tmp;
+  const auto dem = (tmp / "dem.tif").string();
+  ASSERT_EQ(python("generate " + shell_quote(dem) + " 3 60 80").status, 0);
+  const auto cm = (tmp / "cm.tif").string();
+  ASSERT_EQ(python("units " + shell_quote(dem) + " cm " + shell_quote(cm)).status, 0);
+  // Drop the scale with gdal_translate (gdal-bin): now a bare Int16 band of centimetres.
+  const auto bare = (tmp / "bare.tif").string();
+  ASSERT_EQ(std::system(("gdal_translate -q -a_scale 1 " + shell_quote(cm) + " " + shell_quote(bare))
+                            .c_str()),
+            0);
+  const auto warned = run_cli("map --dem " + shell_quote(bare) +
+                              " --same-datum --sea-edge-below 0 --quiet --level 0.505 --out " +
+                              shell_quote((tmp / "warned").string()));
+  ASSERT_EQ(warned.exit_code, 0) << warned.err;
+  EXPECT_NE(warned.err.find("look like centimetres or feet (an integer band with no scale factor"),
+            std::string::npos)
+      << warned.err;
+  const auto stated = run_cli("map --dem " + shell_quote(bare) +
+                              " --same-datum --sea-edge-below 0 --quiet --level 0.505 --z-units cm --out " +
+                              shell_quote((tmp / "stated").string()));
+  ASSERT_EQ(stated.exit_code, 0) << stated.err;
+  EXPECT_EQ(stated.err, "");
+  const auto metres = run_cli("map --dem " + shell_quote(dem) +
+                              " --same-datum --sea-edge-below 0 --quiet --level 0.505 --out " +
+                              shell_quote((tmp / "metres").string()));
+  ASSERT_EQ(metres.exit_code, 0) << metres.err;
+  const auto a = nlohmann::json::parse(tidewright::testing::read_all(tmp / "stated" / "summary.json"));
+  const auto b = nlohmann::json::parse(tidewright::testing::read_all(tmp / "metres" / "summary.json"));
+  EXPECT_EQ(a["levels"][0]["connected_cells"], b["levels"][0]["connected_cells"]);
+  EXPECT_GT(b["levels"][0]["connected_cells"].get<int>(), 100);
+  EXPECT_NE(a["dem_vertical_unit"].get<std::string>().find("cm (stated)"), std::string::npos);
 }

@@ -29,7 +29,18 @@ struct DemSource {
   std::optional<double> nodata;  // declared by the user, in addition to the file's own
   std::string crs_override;      // used only when the file has no CRS ("EPSG:32633", WKT, ...)
   DatumRelation datum;
+  // The vertical unit of the band's values (after GDAL's scale and offset): empty means the
+  // band's unit type, else the vertical CRS's unit, else metres. Known: m, ft, us-ft, cm, mm.
+  std::string z_units;
+  std::optional<double> z_factor;  // metres per unit, instead of z_units
+  // How the caller names these inputs in messages (a flag, or a site-file key).
+  std::string z_units_name = "--z-units";
+  std::string z_factor_name = "--z-factor";
 };
+
+// Metres per unit of a vertical unit's name (GDAL band unit types, PROJ unit names and the
+// short forms of --z-units), case-insensitive; empty if unknown.
+[[nodiscard]] std::optional<double> metres_per_vertical_unit(const std::string& name);
 
 struct Dem {
   GeoGrid grid;
@@ -37,6 +48,8 @@ struct Dem {
   std::vector<float> offset_m;     // the datum offset per cell (empty for a constant offset)
   double constant_offset_m = 0.0;  // used when offset_m is empty
   std::string description;         // for the outputs' metadata record
+  std::string vertical_unit;       // how the values became metres, for the metadata record
+  std::vector<std::string> warnings;  // e.g. values that look like centimetres with no unit
   [[nodiscard]] double offset_at(std::size_t cell) const noexcept {
     return offset_m.empty() ? constant_offset_m : static_cast<double>(offset_m[cell]);
   }

@@ -102,6 +102,7 @@ struct MapSummary {
   std::string area_method;
   std::vector<LevelSummary> levels;
   std::vector<std::string> files;  // names inside out_dir
+  std::vector<std::string> warnings;  // about the inputs (e.g. a DEM's unclear vertical unit)
 };
 
 // Throws InputError for bad inputs (before any output exists) and when out_dir exists without

@@ -5,6 +5,11 @@ generate DEM SEED ROWS COLS
     Write a seeded fractal DEM (spectral synthesis, power spectrum ~ f^-2.4, chosen here) as a
     float32 GeoTIFF in UTM 33N with 10 m cells, a seaward slope, elevations rounded to 0.01 m
     (many ties) and about 2% nodata (-9999, declared in the file).
+units DEM KIND COPY
+    Write a copy of DEM (as written by generate) in other vertical units, as GIS users meet
+    them: KIND "ft" (float32, metres / 0.3048, band unit type "ft"), "cm" (Int16 centimetres with
+    GDAL scale 0.01 and nodata -32768, no unit type), "usft-crs" (float32 in US survey feet,
+    1200/3937 m, no band unit, CRS UTM 33N + NAVD88 height (ftUS), EPSG:32633+6360).
 check DEM OUT_DIR CONNECTIVITY SPREAD LEVEL...
     Compare the map outputs in OUT_DIR with
       - the flood threshold by morphological reconstruction by erosion
@@ -53,6 +58,37 @@ def generate(path, seed, rows, cols):
     band = ds.GetRasterBand(1)
     band.SetNoDataValue(NODATA)
     band.WriteArray(z.astype(np.float32))
+    ds = None
+
+
+def units(dem_path, kind, copy_path):
+    z = read(dem_path).astype(np.float64)
+    valid = z != NODATA
+    src = gdal.Open(dem_path)
+    drv = gdal.GetDriverByName("GTiff")
+    if kind == "cm":
+        values = np.where(valid, np.round(z * 100.0), -32768).astype(np.int16)
+        ds = drv.Create(copy_path, src.RasterXSize, src.RasterYSize, 1, gdal.GDT_Int16)
+        nodata = -32768
+    else:
+        metres_per_unit = 0.3048 if kind == "ft" else 1200.0 / 3937.0
+        values = np.where(valid, z / metres_per_unit, NODATA).astype(np.float32)
+        ds = drv.Create(copy_path, src.RasterXSize, src.RasterYSize, 1, gdal.GDT_Float32)
+        nodata = NODATA
+    ds.SetGeoTransform(src.GetGeoTransform())
+    srs = osr.SpatialReference()
+    if kind == "usft-crs":
+        srs.SetFromUserInput("EPSG:32633+6360")
+    else:
+        srs.ImportFromEPSG(32633)
+    ds.SetProjection(srs.ExportToWkt())
+    band = ds.GetRasterBand(1)
+    band.SetNoDataValue(nodata)
+    if kind == "ft":
+        band.SetUnitType("ft")
+    if kind == "cm":
+        band.SetScale(0.01)
+    band.WriteArray(values)
     ds = None
 
 
@@ -168,8 +204,10 @@ def check(dem_path, out_dir, connectivity, spread, levels):
 if __name__ == "__main__":
     if sys.argv[1] == "generate":
         generate(sys.argv[2], int(sys.argv[3]), int(sys.argv[4]), int(sys.argv[5]))
+    elif sys.argv[1] == "units":
+        units(sys.argv[2], sys.argv[3], sys.argv[4])
     elif sys.argv[1] == "check":
         check(sys.argv[2], sys.argv[3], int(sys.argv[4]),
               None if sys.argv[5] == "none" else float(sys.argv[5]), [float(v) for v in sys.argv[6:]])
     else:
-        sys.exit("usage: terrain_reference.py generate|check ...")
+        sys.exit("usage: terrain_reference.py generate|units|check ...")
