@@ -25,6 +25,7 @@ struct ProjectArgs {
   std::vector<std::string> fingerprints;
   double land_motion = 0.0, land_motion_sd = 0.0;
   bool list = false;
+  bool accept_extreme = false;
   unsigned long long seed = default_seed;
   std::string json, csv, members, plot;
 };
@@ -74,7 +75,10 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--label", a->label, "Scenario label in every output");
   app.add_option("--first-year", a->first_year, "First projected year")->default_val(2020);
   app.add_option("--last-year", a->last_year, "Last projected year")->default_val(2150);
-  app.add_option("--samples", a->samples, "Monte Carlo members")->default_val(2000);
+  app.add_option("--samples", a->samples, "Monte Carlo members (at most 200,000)")->default_val(2000);
+  app.add_flag("--accept-extreme", a->accept_extreme,
+               "Run a forcing, warming or land motion outside the physical ranges on purpose "
+               "(a stress test)");
   app.add_option("--reference", a->reference, "Rise measured from this year or period (AR6 baseline 1995-2014)")
       ->default_str("1995-2014");
   app.add_option("--fingerprint", a->fingerprints,
@@ -127,6 +131,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     r.first_year = a->first_year;
     r.last_year = a->last_year;
     r.members = a->samples;
+    r.accept_extreme_inputs = a->accept_extreme;
     r.seed = a->seed;
     r.reference = climate::parse_year_span(a->reference, "--reference");
     for (const auto& f : a->fingerprints) {

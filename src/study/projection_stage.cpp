@@ -1,6 +1,7 @@
 #include "tidewright/study/projection_stage.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdio>
 #include <sstream>
@@ -113,11 +114,57 @@ std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, doubl
   return out;
 }
 
-ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
+namespace {
+// A number for a message: six significant digits, never sixty.
+std::string short_number(double v) {
+  std::array<char, 32> buf{};
+  std::snprintf(buf.data(), buf.size(), "%.6g", v);
+  return buf.data();
+}
+}  // namespace
+
+void check_projection_inputs(const ProjectionRequest& r, const climate::Scenario* scenario) {
   if (r.members <= 0) {
     throw InputError("--samples", "is " + std::to_string(r.members) + ", not a positive count",
                      "give the number of Monte Carlo members, e.g. 2000");
   }
+  if (r.members > max_members) {
+    throw InputError("--samples",
+                     "is " + std::to_string(r.members) + ", above the limit of " +
+                         std::to_string(max_members) + " members (memory grows with members x years)",
+                     "give fewer members (the default is 2,000)");
+  }
+  if (r.accept_extreme_inputs) return;
+  const std::string accept = " or pass --accept-extreme to run it on purpose";
+  const auto& lm = r.local.land_motion;
+  for (const double v : {lm.uplift_mm_per_yr, lm.uplift_sd_mm_per_yr}) {
+    if (!std::isfinite(v) || std::abs(v) > max_abs_land_motion_mm_per_yr) {
+      throw InputError(v == lm.uplift_mm_per_yr ? "--land-motion" : "--land-motion-sd",
+                       "is " + short_number(v) + " mm/yr, beyond any measured vertical land motion (" +
+                           short_number(max_abs_land_motion_mm_per_yr) + " mm/yr at most)",
+                       "give the rate in mm/yr (positive = uplift)" + accept);
+    }
+  }
+  if (scenario == nullptr) return;
+  const bool forcing = scenario->driver == climate::ScenarioDriver::forcing;
+  const double lo = forcing ? -max_abs_forcing_w_m2 : min_warming_k;
+  const double hi = forcing ? max_abs_forcing_w_m2 : max_warming_k;
+  for (std::size_t i = 0; i < scenario->values.size(); ++i) {
+    const double v = scenario->values[i];
+    if (v < lo || v > hi) {
+      const std::string what = forcing ? "forcing" : "surface warming";
+      const std::string unit = forcing ? " W/m2" : " K";
+      throw InputError(r.path.empty() ? r.pathway : r.path.string(),
+                       "the " + what + " in " + std::to_string(scenario->years[i]) + " is " +
+                           short_number(v) + unit + ", outside the physical range " +
+                           short_number(lo) + " to " + short_number(hi) + unit,
+                       "check the column's unit (forcing in W/m2, CO2 in ppm, warming in K)" + accept);
+    }
+  }
+}
+
+ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
+  check_projection_inputs(r, nullptr);
   if (r.last_year <= r.first_year) {
     throw InputError("--years", "the last year is not after the first", "give a span such as 2020-2150");
   }
@@ -156,6 +203,7 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
     return out;
   }
   const climate::Scenario scenario = load_scenario(r, label);
+  check_projection_inputs(r, &scenario);
   climate::ProjectionOptions options;
   options.first_year = r.first_year;
   options.last_year = r.last_year;

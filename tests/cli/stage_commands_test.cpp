@@ -177,3 +177,30 @@ TEST(StageCommands, EpochThatDoesNotFitIsRefused) {
                 .exit_code,
             0);
 }
+
+// Issue 14: a forcing of 2000 W/m2 gave 6 km of Greenland melt by 2100 and a land motion of
+// 1e300 mm/yr printed 60-digit numbers. Both are refused (docs/bad-inputs.md rows 87-88); a
+// stress test runs on purpose with --accept-extreme, and a forcing just inside the range runs.
+TEST(StageCommands, ProjectionInputsOutsideThePhysicalRangeNeedAcceptExtreme) {
+  TempDir tmp;
+  const auto csv = tmp / "forcing.csv";
+  // Annual rows 1850-2150, a linear ramp from 0 to `end_w_m2` (an invented stress scenario).
+  const auto ramp = [](double end_w_m2) {
+    std::string text = "year,forcing_w_m2\n";
+    for (int y = 1850; y <= 2150; ++y) {
+      text += std::to_string(y) + "," + std::to_string(end_w_m2 * (y - 1850) / 300.0) + "\n";
+    }
+    return text;
+  };
+  tidewright::write_text_file(csv, ramp(16.0), false);
+  const std::string base = "project --forcing " + shell_quote(csv.string()) + " --samples 20 --quiet --json ";
+  const auto refused = run_cli(base + shell_quote((tmp / "a.json").string()));
+  EXPECT_EQ(refused.exit_code, 2);
+  EXPECT_THAT(refused.err, HasSubstr("outside the physical range -15 to 15 W/m2"));
+  EXPECT_FALSE(std::filesystem::exists(tmp / "a.json"));
+  const auto accepted = run_cli(base + shell_quote((tmp / "b.json").string()) + " --accept-extreme");
+  EXPECT_EQ(accepted.exit_code, 0) << accepted.err;
+  tidewright::write_text_file(csv, ramp(14.9), true);
+  const auto inside = run_cli(base + shell_quote((tmp / "c.json").string()));
+  EXPECT_EQ(inside.exit_code, 0) << inside.err;
+}

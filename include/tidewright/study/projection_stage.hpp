@@ -33,7 +33,29 @@ struct ProjectionRequest {
   climate::YearSpan reference{1995, 2014};  // AR6 WG1 baseline
   local::LocalTerms local;                  // fingerprints, land motion, ocean dynamics
   bool local_terms_given = false;           // refused with a table source
+  // Inputs outside the physical ranges of check_projection_inputs are refused unless this is
+  // set (the command's --accept-extreme): a deliberate stress test, not a typing slip.
+  bool accept_extreme_inputs = false;
 };
+
+// Physical ranges of projection inputs (docs/bad-inputs.md states them with their sources).
+// The member limit keeps the ensemble's arrays within a few GiB: about ten arrays of
+// members x years doubles, 131 years by default, is 2.1 GB at 200,000 members.
+inline constexpr long long max_members = 200000;
+// SSP5-8.5's extension reaches about 12 W/m2 by 2300 and the largest eruptions of the last
+// millennium about -10 W/m2 in their peak year (AR6 WG1 Ch. 7 and Annex III; from memory).
+inline constexpr double max_abs_forcing_w_m2 = 15.0;
+// Warming relative to 1850-1900: -5 K (a glacial climate) to 15 K, beyond every assessed
+// scenario's 2300 range (AR6 WG1 Ch. 4; from memory).
+inline constexpr double min_warming_k = -5.0;
+inline constexpr double max_warming_k = 15.0;
+// The fastest measured land subsidence, in sinking coastal cities, is of the order of
+// 100-250 mm/yr (from memory); post-glacial uplift is at most about 25 mm/yr.
+inline constexpr double max_abs_land_motion_mm_per_yr = 300.0;
+
+// InputError (exit 2) for a member count above max_members (before any allocation) and, unless
+// accept_extreme_inputs, a scenario value or land motion outside the ranges above.
+void check_projection_inputs(const ProjectionRequest& request, const climate::Scenario* scenario);
 
 struct ProjectionStageResult {
   std::optional<climate::ComponentEnsemble> global;  // absent for a table source
