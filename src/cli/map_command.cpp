@@ -54,6 +54,7 @@ struct MapOptions {
   std::string crest_datum = "dem";
   int connectivity = 8;
   std::vector<double> levels;
+  bool accept_high_levels = false;
   std::optional<int> year;
   std::string scenario;
   std::vector<double> gumbel;
@@ -301,7 +302,15 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
   }
   req.connectivity =
       o.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
-  for (double l : o.levels) req.levels.push_back({l, o.year, o.scenario});
+  std::vector<double> levels = o.levels;
+  std::sort(levels.begin(), levels.end());
+  if (const auto twin = std::adjacent_find(levels.begin(), levels.end()); twin != levels.end()) {
+    throw InputError("--level", "the level " + CLI::detail::to_string(*twin) + " m is given twice",
+                     "give each level once");
+  }
+  if (levels != o.levels) notes.push_back("levels are written in ascending order (band 1 the lowest)");
+  for (double l : levels) req.levels.push_back({l, o.year, o.scenario});
+  req.accept_high_levels = o.accept_high_levels;
 
   if (!o.planning.members.empty()) {
     add_projected_layers(o, req, notes);
@@ -421,6 +430,8 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--level", o->levels,
                  "Still-water level to map, m above the water-level datum (repeat)")
       ->type_name("M");
+  app.add_flag("--accept-high-level", o->accept_high_levels,
+               "Map a level more than 50 m above the water-level datum on purpose");
   app.add_option("--year", o->year, "Year label written with the levels");
   app.add_option("--scenario", o->scenario, "Scenario label written with the levels");
   app.add_option("--gumbel", o->gumbel, "Present-day Gumbel annual maxima MU,SIGMA (m), for AEP")

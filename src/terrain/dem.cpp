@@ -174,10 +174,10 @@ VerticalScale vertical_scale(const DemSource& source, GDALRasterBand& band,
 }
 
 // Values that look like centimetres or feet where no unit was given: an integer band without a
-// scale factor (metre DEMs are stored as floats or scaled integers), or valid values spanning
-// more than 1,000 units (no coastal DEM in metres spans a kilometre of height): common practice.
+// scale factor spanning more than 100 units (metre DEMs are stored as floats or scaled integers;
+// whole metres cannot resolve a coast), or valid values spanning more than 1,000 units (no
+// coastal DEM in metres spans a kilometre of height): common practice.
 std::optional<std::string> unit_suspicion(const std::vector<float>& z, GDALDataType type, bool scaled) {
-  const bool integer = GDALDataTypeIsInteger(type) != 0 && !scaled;
   float lo = std::numeric_limits<float>::infinity();
   float hi = -lo;
   for (const float v : z) {
@@ -186,12 +186,16 @@ std::optional<std::string> unit_suspicion(const std::vector<float>& z, GDALDataT
       hi = std::max(hi, v);
     }
   }
+  constexpr double integer_span_limit = 100.0;
   constexpr double span_limit = 1000.0;
-  const bool wide = static_cast<double>(hi) - static_cast<double>(lo) > span_limit;
+  const double span = static_cast<double>(hi) - static_cast<double>(lo);
+  const bool integer = GDALDataTypeIsInteger(type) != 0 && !scaled && span > integer_span_limit;
+  const bool wide = span > span_limit;
   if (!integer && !wide) return std::nullopt;
   return std::string("no vertical unit is recorded, so elevations are read as metres, but they "
                      "look like centimetres or feet (") +
-         (integer ? "an integer band with no scale factor" : "") + (integer && wide ? ", " : "") +
+         (integer ? "an integer band with no scale factor spanning more than 100 units" : "") +
+         (integer && wide ? ", " : "") +
          (wide ? "values spanning " + number(static_cast<double>(hi) - static_cast<double>(lo)) +
                      " units, more than 1000"
                : "") +

@@ -258,6 +258,12 @@ MapSummary make_flood_maps(const MapRequest& req) {
     if (!std::isfinite(l.level_m)) {
       throw InputError("--level", "a level is not a finite number", "give levels in metres");
     }
+    if (l.level_m > max_plausible_level_m && !req.accept_high_levels) {
+      throw InputError("--level",
+                       "the level " + fixed(l.level_m) + " m lies more than " +
+                           fixed(max_plausible_level_m) + " m above the water-level datum (centimetres or feet?)",
+                       "give levels in metres, or pass --accept-high-level to map it on purpose");
+    }
   }
   if (req.sea.spread_to_m) {
     const double spread = *req.sea.spread_to_m;

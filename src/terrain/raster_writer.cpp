@@ -50,6 +50,9 @@ std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
           {"COMPRESS", compression_name(format.compression)},
           {"PREDICTOR", type == CellType::float32 ? "3" : "2"},
           {"INTERLEAVE", "BAND"},
+          // Bands are levels or years, not colours: without this GDAL tags a 3- or 4-band Byte
+          // file RGB(A) and a desktop GIS draws extent.tif as a picture.
+          {"PHOTOMETRIC", "MINISBLACK"},
           {"BIGTIFF", "IF_SAFER"},
           {"NUM_THREADS", thread_option(format)}};
 }

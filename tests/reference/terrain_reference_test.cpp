@@ -79,6 +79,10 @@ TEST(TerrainReference, ThresholdAndExtentsAgreeWithScikitImageAndScipy) {
       EXPECT_TRUE(rec["same_geotransform"].get<bool>());
       EXPECT_EQ(rec["nodata"], "NaN");
       EXPECT_EQ(rec["block"], nlohmann::json::array({256, 256}));
+      // Issue 15: a 4-band extent opened as an RGBA picture; bands are levels, tagged grey.
+      for (const auto& ci : rec["extent_colour_interpretations"]) {
+        EXPECT_TRUE(ci == "Gray" || ci == "Undefined") << ci;
+      }
       EXPECT_EQ(rec["compression"], "DEFLATE");
       EXPECT_TRUE(rec["description_has_threshold"].get<bool>());
       EXPECT_EQ(rec["unit"], "m");
@@ -214,7 +218,7 @@ TEST(TerrainReference, UnlabelledIntegerDemIsWarnedAndZUnitsReadsIt) {
                               " --same-datum --sea-edge-below 0 --quiet --level 0.505 --out " +
                               shell_quote((tmp / "warned").string()));
   ASSERT_EQ(warned.exit_code, 0) << warned.err;
-  EXPECT_NE(warned.err.find("look like centimetres or feet (an integer band with no scale factor"),
+  EXPECT_NE(warned.err.find("look like centimetres or feet (an integer band with no scale factor spanning more than 100 units"),
             std::string::npos)
       << warned.err;
   const auto stated = run_cli("map --dem " + shell_quote(bare) +

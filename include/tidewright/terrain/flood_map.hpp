@@ -63,12 +63,18 @@ struct FloodThresholdMap {
     const DemSource& dem, const SeaSource& sea, const std::optional<DefenceSource>& defences,
     Connectivity connectivity);
 
+// No still-water level reaches 50 m above a tidal datum (the highest storm tides on record are
+// under 10 m, from memory): a higher one is usually a level in centimetres or feet.
+inline constexpr double max_plausible_level_m = 50.0;
+
 struct MapRequest {
   DemSource dem;
   SeaSource sea;
   std::optional<DefenceSource> defences;
   Connectivity connectivity = Connectivity::eight;
   std::vector<MapLevel> levels;
+  // Levels more than max_plausible_level_m above the datum are refused unless this is set.
+  bool accept_high_levels = false;
   std::vector<AepLayer> aep;
   std::optional<FirstYearLayer> first_year;
   bool polygons = false;  // extent polygons to extent.gpkg (needs levels)

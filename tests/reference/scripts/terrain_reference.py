@@ -180,6 +180,7 @@ def check(dem_path, out_dir, connectivity, spread, levels):
         "has_cautions": "licensed coastal engineer" in meta.get("TIDEWRIGHT_CAUTIONS", ""),
         "has_command": meta.get("TIDEWRIGHT_COMMAND", "").startswith("tidewright map"),
         "extent_bands": len(ext["bands"]),
+        "extent_colour_interpretations": sorted({b.get("colorInterpretation", "") for b in ext["bands"]}),
         "extent_nodata": ext["bands"][0].get("noDataValue"),
         "extent_level_metadata": ext["bands"][0].get("metadata", {}).get("", {}).get("LEVEL_M"),
     }
