@@ -58,21 +58,31 @@ void configure(CLI::App& app, CommonOptions& common) {
     o << "tidewright allowance: scenario '" << in.rise.scenario << "'" << (in.rise.illustrative ? " (illustrative)" : "")
       << ", " << in.rise.member_count() << " members; levels in m above " << datum << "\n";
     std::vector<std::string> head{"year", "return period (yr)", "today's level (m)", "allowance (m)",
-                                  "design level (m)", "mean rise (m)", "sd rise (m)"};
+                                  "Monte Carlo error (m)", "design level (m)", "mean rise (m)", "sd rise (m)"};
     if (a->draws > 0) head.emplace_back("allowance 5-95% over parameters (m)");
     report::TextTable t(head);
     std::ostringstream csv;
-    csv << "year,return_period_yr,present_level_m,allowance_m,design_level_m,mean_rise_m,sd_rise_m,method\n";
+    csv << "year,return_period_yr,present_level_m,allowance_m,allowance_se_m,effective_members,heaviest_member_share,"
+           "design_level_m,mean_rise_m,sd_rise_m,method\n";
     for (const auto& r : rows) {
       const auto& al = r.allowance;
+      const auto& mc = al.monte_carlo;
       std::vector<std::string> row{std::to_string(al.first_year), report::fixed(al.return_period_yr, 0),
                                    report::fixed(al.present_level_m, 3), report::fixed(al.allowance_m, 3),
+                                   mc.sampled ? report::fixed(mc.standard_error, 3) : "-",
                                    report::fixed(al.present_level_m + al.allowance_m, 3),
                                    report::fixed(al.mean_rise_m, 3), report::fixed(al.sd_rise_m, 3)};
       if (r.range) row.push_back(report::fixed(r.range->lower, 3) + " to " + report::fixed(r.range->upper, 3));
       t.add_row(row);
       csv << al.first_year << ',' << al.return_period_yr << ',' << report::fixed(al.present_level_m, 4) << ','
-          << report::fixed(al.allowance_m, 4) << ',' << report::fixed(al.present_level_m + al.allowance_m, 4) << ','
+          << report::fixed(al.allowance_m, 4) << ',';
+      if (mc.sampled) {
+        csv << report::fixed(mc.standard_error, 4) << ',' << report::fixed(mc.effective_sample_size, 1) << ','
+            << report::fixed(mc.heaviest_share, 4) << ',';
+      } else {
+        csv << ",,,";
+      }
+      csv << report::fixed(al.present_level_m + al.allowance_m, 4) << ','
           << report::fixed(al.mean_rise_m, 4) << ',' << report::fixed(al.sd_rise_m, 4) << ',' << al.method << '\n';
     }
     o << t.render();
@@ -115,6 +125,7 @@ void configure(CLI::App& app, CommonOptions& common) {
       j["design_life"] = life;
     }
     for (const auto& n : in.notes) o << "note: " << n << "\n";
+    for (const auto& w : j["warnings"]) std::cerr << "tidewright: warning: " << w.get<std::string>() << "\n";
     o << "Planning estimates of still water only; a licensed coastal engineer must review them against local codes "
          "and datums.\n";
     if (!a->json.empty()) write_json_file(a->json, j, common.force, "--json");

@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <vector>
 
 #include "tidewright/common/error.hpp"
 #include "tidewright/planning/monotone_root.hpp"
@@ -77,7 +78,24 @@ bool smooth_rate_curve(const extremes::StillWaterModel& m) {
   return m.family == extremes::Family::gumbel || m.shape >= -1.0 / 3.0;
 }
 
-Allowance solve(const extremes::StillWaterModel& present, std::span<const YearConditions> years,
+// The members' rates at the raised level, summed over the years per member (node i is one
+// path through the years), and the slope of their mean, give the allowance's Monte Carlo error.
+MonteCarloError allowance_error(const extremes::StillWaterModel& present, std::span<const YearConditions> years,
+                                double raised_level_m) {
+  const RiseDistribution& first = years.front().rise;
+  std::vector<double> per_member(first.size(), 0.0);
+  std::vector<double> rates(first.size());
+  double slope = 0.0;
+  for (const auto& c : years) {
+    if (c.rise.size() != first.size()) return {};  // not one set of paths: no per-member error
+    node_rates(present, c, raised_level_m, rates);
+    for (std::size_t i = 0; i < rates.size(); ++i) per_member[i] += rates[i];
+    slope += future_exceedance_rate_derivatives(present, c, raised_level_m).first;
+  }
+  return through_root(weighted_mean_error(per_member, first.weight, first.kind == "members"), slope);
+}
+
+Allowance solve_root(const extremes::StillWaterModel& present, std::span<const YearConditions> years,
                 const PooledRise& pooled, double level_m, const AllowanceOptions& options) {
   if (!std::isfinite(level_m)) {
     throw InputError("allowance level", "is not a finite number", "give a level in metres");
@@ -143,6 +161,13 @@ Allowance solve(const extremes::StillWaterModel& present, std::span<const YearCo
   }
   a.allowance_m = r.x;
   a.evaluations = r.evaluations;
+  return a;
+}
+
+Allowance solve(const extremes::StillWaterModel& present, std::span<const YearConditions> years,
+                const PooledRise& pooled, double level_m, const AllowanceOptions& options) {
+  Allowance a = solve_root(present, years, pooled, level_m, options);
+  a.monte_carlo = allowance_error(present, years, level_m + a.allowance_m);
   return a;
 }
 

@@ -175,9 +175,27 @@ nlohmann::ordered_json planning_context_json(const PlanningInputs& in) {
   return j;
 }
 
+nlohmann::ordered_json monte_carlo_json(const planning::MonteCarloError& e, const std::string& unit) {
+  if (!e.sampled) return nullptr;
+  nlohmann::ordered_json j;
+  j[unit.empty() ? "standard_error" : "standard_error_" + unit] = e.standard_error;
+  j["effective_sample_size"] = e.effective_sample_size;
+  j["heaviest_member_share"] = e.heaviest_share;
+  return j;
+}
+
+std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e) {
+  if (!e.few_effective_members()) return "";
+  return figure + " rests on about " + num(e.effective_sample_size, 0) + " effective members (fewer than " +
+         num(planning::min_effective_sample_size, 0) + "; the heaviest carries " + num(100.0 * e.heaviest_share, 0) +
+         " % of the weight): its Monte Carlo error is " + num(e.standard_error, 3) +
+         "; project more --samples to settle it";
+}
+
 nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows) {
   nlohmann::ordered_json j = planning_context_json(in);
   nlohmann::ordered_json list = nlohmann::ordered_json::array();
+  nlohmann::ordered_json warnings = nlohmann::ordered_json::array();
   for (const auto& r : rows) {
     nlohmann::ordered_json a;
     a["year"] = r.allowance.first_year;
@@ -188,6 +206,11 @@ nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vecto
     a["mean_rise_m"] = r.allowance.mean_rise_m;
     a["sd_rise_m"] = r.allowance.sd_rise_m;
     a["method"] = r.allowance.method;
+    a["monte_carlo"] = monte_carlo_json(r.allowance.monte_carlo, "m");
+    const std::string w = few_members_warning(
+        "the " + num(r.allowance.return_period_yr, 0) + "-year allowance in " + std::to_string(r.allowance.first_year),
+        r.allowance.monte_carlo);
+    if (!w.empty()) warnings.push_back(w);
     if (r.range) {
       a["parameter_range"] = {{"lower_m", r.range->lower}, {"upper_m", r.range->upper},
                               {"coverage", r.range->coverage}, {"draws", r.range->draws_used},
@@ -196,6 +219,7 @@ nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vecto
     list.push_back(a);
   }
   j["allowances"] = list;
+  j["warnings"] = warnings;
   j["cautions"] = report::safety_cautions();
   return j;
 }

@@ -4,6 +4,7 @@
 
 #include <cmath>
 #include <numeric>
+#include <vector>
 
 #include "planning/planning_test_support.hpp"
 #include "tidewright/common/error.hpp"
@@ -83,6 +84,53 @@ TEST(Allowance, MonteCarloMembersMeetClosedFormWithinSamplingError) {
   EXPECT_NEAR(closed.allowance_m, 0.55, 4 * se);
   // The root solve over the same members gives the same number as the members' closed form.
   EXPECT_NEAR(allowance(m, c, 100.0, numerical()).allowance_m, closed.allowance_m, 1e-8);
+}
+
+// The reported Monte Carlo error against closed forms for normal members and Gumbel scale
+// lambda (w = exp(Delta/lambda) is log-normal with log-sd a = sigma/lambda): the allowance's
+// standard error is lambda sqrt((e^(a^2) - 1)/n) (delta method on lambda ln mean w) and the
+// effective sample size of the contributions n e^(-a^2) (Kish 1965; E[w]^2/E[w^2] = e^(-a^2)).
+TEST(Allowance, MonteCarloErrorMatchesClosedFormsForNormalMembers) {
+  const std::size_t n = 20000;
+  const auto draws = tidewright::testing::normal_draws(n, 0.5, 0.1, 20261202);
+  const Eigen::VectorXd d = Eigen::Map<const Eigen::VectorXd>(draws.data(), static_cast<Eigen::Index>(n));
+  const YearConditions c{2100, RiseDistribution::members(d), {}};
+  const Allowance a = allowance(gumbel(3.0, 0.1), c, 100.0);
+  ASSERT_TRUE(a.monte_carlo.sampled);
+  const double se = 0.1 * std::sqrt(std::expm1(1.0) / static_cast<double>(n));
+  EXPECT_NEAR(a.monte_carlo.standard_error, se, 0.1 * se);
+  EXPECT_NEAR(a.monte_carlo.effective_sample_size, static_cast<double>(n) * std::exp(-1.0), 0.05 * n * std::exp(-1.0));
+  EXPECT_LT(a.monte_carlo.heaviest_share, 0.01);
+  // The root solve reports the same error as the closed form.
+  EXPECT_NEAR(allowance(gumbel(3.0, 0.1), c, 100.0, numerical()).monte_carlo.standard_error,
+              a.monte_carlo.standard_error, 1e-6 * se);
+  // Quadrature nodes carry no sampling error.
+  const YearConditions q{2100, RiseDistribution::normal(0.5, 0.1), {}};
+  EXPECT_FALSE(allowance(gumbel(3.0, 0.1), q, 100.0).monte_carlo.sampled);
+}
+
+// The reported error against the spread of the allowance over 200 seeds of 2,000 members
+// (sigma/lambda = 1.2, a heavier tail than above): the mean reported error and the seeds'
+// standard deviation agree to 20 % (the sd of 200 draws is itself uncertain by about 5 %).
+TEST(Allowance, MonteCarloErrorMatchesTheSpreadOverSeeds) {
+  const std::size_t n = 2000;
+  const int seeds = 200;
+  std::vector<double> values;
+  double reported = 0.0;
+  for (int s = 0; s < seeds; ++s) {
+    const auto draws = tidewright::testing::normal_draws(n, 0.5, 0.12, 1000 + static_cast<unsigned>(s));
+    const Eigen::VectorXd d = Eigen::Map<const Eigen::VectorXd>(draws.data(), static_cast<Eigen::Index>(n));
+    const Allowance a = allowance(gumbel(3.0, 0.1), YearConditions{2100, RiseDistribution::members(d), {}}, 100.0);
+    values.push_back(a.allowance_m);
+    reported += a.monte_carlo.standard_error / seeds;
+  }
+  const double mean = std::accumulate(values.begin(), values.end(), 0.0) / seeds;
+  double ss = 0.0;
+  for (double v : values) ss += (v - mean) * (v - mean);
+  const double spread = std::sqrt(ss / (seeds - 1));
+  EXPECT_NEAR(reported / spread, 1.0, 0.2) << "reported " << reported << " m, spread " << spread << " m";
+  // Hunter (2012): mu + sigma^2/(2 lambda) = 0.5 + 0.0144/0.2 = 0.572 m, within the error of the mean of the seeds.
+  EXPECT_NEAR(mean, hunter_allowance_gumbel_normal(0.1, 0.5, 0.12), 4.0 * spread / std::sqrt(seeds));
 }
 
 // Design life: for Gumbel, A = lambda ln( mean_t E[exp(Delta_t/lambda)] ) (Hunter 2012 applied

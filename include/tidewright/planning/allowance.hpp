@@ -22,6 +22,7 @@
 
 #include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/planning/future_exceedance.hpp"
+#include "tidewright/planning/monte_carlo_error.hpp"
 
 namespace tidewright::planning {
 
@@ -40,6 +41,9 @@ struct Allowance {
   double sd_rise_m = 0.0;         // sd of Delta over nodes (pooled over years)
   std::string method;             // "hunter2012_gumbel_closed_form" or "root_toms748"
   int evaluations = 0;            // N_t evaluations spent by the root solve (0 for closed form)
+  // Of the allowance (m), from the members' rates at z + A carried through the root:
+  // SE(A) = SE(sum_t N_t) / |d/dA sum_t N_t| (monte_carlo_error.hpp).
+  MonteCarloError monte_carlo;
 };
 
 // Hunter (2012) closed form for Gumbel scale lambda and normal Delta: mu + sigma^2/(2 lambda).

@@ -58,6 +58,11 @@ struct AllowanceRow {
 [[nodiscard]] std::vector<planning::YearConditions> year_span(const PlanningInputs& in, int first, int last);
 
 [[nodiscard]] nlohmann::ordered_json planning_context_json(const PlanningInputs& in);
+// {"standard_error", "effective_sample_size", "heaviest_member_share"}, or null for quadrature
+// nodes (no sampling error); `unit` names the standard error's key suffix ("m", "" for a ratio).
+[[nodiscard]] nlohmann::ordered_json monte_carlo_json(const planning::MonteCarloError& e, const std::string& unit);
+// The warning for a figure resting on few effective members (monte_carlo_error.hpp), or "".
+[[nodiscard]] std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e);
 [[nodiscard]] nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows);
 
 }  // namespace tidewright::study
