@@ -63,7 +63,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     report::TextTable t(head);
     std::ostringstream csv;
     csv << "year,return_period_yr,present_level_m,allowance_m,allowance_se_m,effective_members,heaviest_member_share,"
-           "design_level_m,mean_rise_m,sd_rise_m,method\n";
+           "design_level_m,mean_rise_m,sd_rise_m,allowance_rise_cut_p99_9_m,allowance_rise_cut_p99_m,method\n";
     for (const auto& r : rows) {
       const auto& al = r.allowance;
       const auto& mc = al.monte_carlo;
@@ -83,9 +83,18 @@ void configure(CLI::App& app, CommonOptions& common) {
         csv << ",,,";
       }
       csv << report::fixed(al.present_level_m + al.allowance_m, 4) << ','
-          << report::fixed(al.mean_rise_m, 4) << ',' << report::fixed(al.sd_rise_m, 4) << ',' << al.method << '\n';
+          << report::fixed(al.mean_rise_m, 4) << ',' << report::fixed(al.sd_rise_m, 4) << ','
+          << report::fixed(r.cut_at_p999_m, 4) << ',' << report::fixed(r.cut_at_p99_m, 4) << ',' << al.method << '\n';
     }
     o << t.render();
+    o << "\nHow much is the top of the rise distribution (allowance with the rise cut at a percentile):\n";
+    report::TextTable tail({"year", "return period (yr)", "allowance (m)", "cut at 99.9% (m)", "cut at 99% (m)"});
+    for (const auto& r : rows) {
+      tail.add_row({std::to_string(r.allowance.first_year), report::fixed(r.allowance.return_period_yr, 0),
+                    report::fixed(r.allowance.allowance_m, 3), report::fixed(r.cut_at_p999_m, 3),
+                    report::fixed(r.cut_at_p99_m, 3)});
+    }
+    o << tail.render();
     if (!a->design_life.empty()) {
       const auto [first, last] = parse_year_span(a->design_life, "--design-life");
       const auto span = study::year_span(in, first, last);

@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <numeric>
+#include <vector>
 
 #include "tidewright/common/error.hpp"
 
@@ -121,5 +122,28 @@ double RiseDistribution::sd_m() const {
 
 double RiseDistribution::min_m() const { return *std::min_element(rise_m.begin(), rise_m.end()); }
 double RiseDistribution::max_m() const { return *std::max_element(rise_m.begin(), rise_m.end()); }
+
+RiseDistribution cut_at_quantile(const RiseDistribution& d, double p) {
+  if (!(p > 0.0 && p <= 1.0)) {
+    throw InputError("tail cut", "quantile " + std::to_string(p) + " is not in (0, 1]", "give a quantile such as 0.99");
+  }
+  std::vector<std::size_t> order(d.size());
+  std::iota(order.begin(), order.end(), std::size_t{0});
+  std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return d.rise_m[a] < d.rise_m[b]; });
+  RiseDistribution out;
+  out.kind = d.kind;
+  double kept = 0.0;
+  // The slack absorbs round-off in sums of equal weights (0.99 of 2,000 weights of 1/2,000).
+  const double limit = p * (1.0 + 1e-12);
+  for (const std::size_t i : order) {
+    if (!out.rise_m.empty() && kept + d.weight[i] > limit) break;
+    kept += d.weight[i];
+    out.rise_m.push_back(d.rise_m[i]);
+    out.weight.push_back(d.weight[i]);
+    if (!d.warming_k.empty()) out.warming_k.push_back(d.warming_k[i]);
+  }
+  for (double& w : out.weight) w /= kept;
+  return out;
+}
 
 }  // namespace tidewright::planning

@@ -147,6 +147,11 @@ std::vector<AllowanceRow> allowance_table(const PlanningInputs& in, const std::v
     for (double t : return_periods_yr) {
       AllowanceRow row;
       row.allowance = planning::allowance(in.fit.model, cond, t);
+      for (const auto& [p, out] : {std::pair{0.999, &row.cut_at_p999_m}, std::pair{0.99, &row.cut_at_p99_m}}) {
+        planning::YearConditions cut = cond;
+        cut.rise = planning::cut_at_quantile(cond.rise, p);
+        *out = planning::allowance(in.fit.model, cut, t).allowance_m;
+      }
       if (!models.empty()) {
         row.range = planning::range_over_parameters(
             in.fit.model, models,
@@ -184,15 +189,17 @@ nlohmann::ordered_json monte_carlo_json(const planning::MonteCarloError& e, cons
   return j;
 }
 
-std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e) {
+std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e,
+                                const std::string& members_input) {
   if (!e.few_effective_members()) return "";
   return figure + " rests on about " + num(e.effective_sample_size, 0) + " effective members (fewer than " +
          num(planning::min_effective_sample_size, 0) + "; the heaviest carries " + num(100.0 * e.heaviest_share, 0) +
          " % of the weight): its Monte Carlo error is " + num(e.standard_error, 3) +
-         "; project more --samples to settle it";
+         "; more members (" + members_input + ") settle it";
 }
 
-nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows) {
+nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows,
+                                      const std::string& members_input) {
   nlohmann::ordered_json j = planning_context_json(in);
   nlohmann::ordered_json list = nlohmann::ordered_json::array();
   nlohmann::ordered_json warnings = nlohmann::ordered_json::array();
@@ -207,9 +214,10 @@ nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vecto
     a["sd_rise_m"] = r.allowance.sd_rise_m;
     a["method"] = r.allowance.method;
     a["monte_carlo"] = monte_carlo_json(r.allowance.monte_carlo, "m");
+    a["tail_sensitivity"] = {{"rise_cut_at_p99_9_m", r.cut_at_p999_m}, {"rise_cut_at_p99_m", r.cut_at_p99_m}};
     const std::string w = few_members_warning(
         "the " + num(r.allowance.return_period_yr, 0) + "-year allowance in " + std::to_string(r.allowance.first_year),
-        r.allowance.monte_carlo);
+        r.allowance.monte_carlo, members_input);
     if (!w.empty()) warnings.push_back(w);
     if (r.range) {
       a["parameter_range"] = {{"lower_m", r.range->lower}, {"upper_m", r.range->upper},

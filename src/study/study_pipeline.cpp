@@ -204,22 +204,33 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   const std::string level_unit = "m above " + datum;
   report::Table heights{"design_heights",
                         "Still-water design heights: today's T-year level plus the allowance that keeps the expected "
-                        "number of exceedances per year at today's (Hunter 2012), per scenario and year.",
+                        "number of exceedances per year at today's (Hunter 2012), per scenario and year. Monte Carlo "
+                        "error: the allowance's standard error over the ensemble's members; effective members: how "
+                        "many members it rests on (Kish); the last column is the allowance with the year's rise cut "
+                        "at its 99th percentile, to show how much of it comes from the top 1 % of the rise.",
                         {{"Scenario", ""}, {"Year", ""}, {"Return period", "years"}, {"Today's level", level_unit},
-                         {"Allowance", "m"}, {"Design height", level_unit}, {"Mean rise", "m"}, {"Rise sd", "m"}},
+                         {"Allowance", "m"}, {"Monte Carlo error", "m"}, {"Effective members", ""},
+                         {"Design height", level_unit}, {"Mean rise", "m"}, {"Rise sd", "m"},
+                         {"Allowance, rise cut at 99%", "m"}},
                         {}};
+  std::vector<std::string> ensemble_warnings;
   Json scen_json = Json::array();
   for (const auto& run : runs) {
     Json sj;
     sj["name"] = run.settings.name;
     sj["projection"] = projection_json(run.projection);
-    sj["allowances"] = allowance_json(run.inputs, run.allowances)["allowances"];
+    const Json allowances = allowance_json(run.inputs, run.allowances, "projection.members");
+    sj["allowances"] = allowances["allowances"];
+    sj["warnings"] = allowances["warnings"];
+    for (const auto& w : allowances["warnings"]) ensemble_warnings.push_back(run.settings.name + ": " + w.get<std::string>());
     sj["notes"] = run.inputs.notes;
     for (const auto& r : run.allowances) {
       const auto& a = r.allowance;
+      const auto& mc = a.monte_carlo;
       heights.add_row({run.settings.name, std::to_string(a.first_year), fixed(a.return_period_yr, 0),
-                       fixed(a.present_level_m, 2), fixed(a.allowance_m, 2), fixed(a.present_level_m + a.allowance_m, 2),
-                       fixed(a.mean_rise_m, 2), fixed(a.sd_rise_m, 2)});
+                       fixed(a.present_level_m, 2), fixed(a.allowance_m, 2), mc.sampled ? fixed(mc.standard_error, 3) : "-",
+                       mc.sampled ? fixed(mc.effective_sample_size, 0) : "-", fixed(a.present_level_m + a.allowance_m, 2),
+                       fixed(a.mean_rise_m, 2), fixed(a.sd_rise_m, 2), fixed(r.cut_at_p99_m, 2)});
     }
     scen_json.push_back(sj);
   }
@@ -408,6 +419,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                                                 "design year equal to today's (Hunter 2012). They are still-water levels: "
                                                 "add waves, freeboard and local code requirements."});
   answers.blocks.emplace_back(heights);
+  for (const auto& w : ensemble_warnings) answers.blocks.emplace_back(report::Paragraph{"Warning: " + w + "."});
   answers.blocks.emplace_back(report::Figure{"design_heights", "Design height of today's " + fixed(design_rp, 0) +
                                                                    "-year level by year, per scenario.",
                                              report::design_height_plot(plot_years, height_series, datum,

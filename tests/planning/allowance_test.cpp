@@ -2,6 +2,8 @@
 
 #include <gtest/gtest.h>
 
+#include <boost/math/distributions/normal.hpp>
+
 #include <cmath>
 #include <numeric>
 #include <vector>
@@ -131,6 +133,31 @@ TEST(Allowance, MonteCarloErrorMatchesTheSpreadOverSeeds) {
   EXPECT_NEAR(reported / spread, 1.0, 0.2) << "reported " << reported << " m, spread " << spread << " m";
   // Hunter (2012): mu + sigma^2/(2 lambda) = 0.5 + 0.0144/0.2 = 0.572 m, within the error of the mean of the seeds.
   EXPECT_NEAR(mean, hunter_allowance_gumbel_normal(0.1, 0.5, 0.12), 4.0 * spread / std::sqrt(seeds));
+}
+
+// Tail sensitivity: members cut at their p-quantile. For normal Delta = mu + sigma Z cut at
+// z_p, E[exp(a Z) | Z <= z_p] = exp(a^2/2) Phi(z_p - a) / p (the truncated normal's moment
+// generating function, e.g. Johnson, Kotz & Balakrishnan 1994, ch. 13), so the Gumbel
+// allowance is mu + sigma^2/(2 lambda) + lambda ln(Phi(z_p - sigma/lambda)/p).
+TEST(Allowance, RiseCutAtAQuantileMatchesTheTruncatedNormalClosedForm) {
+  const Eigen::VectorXd steps = Eigen::VectorXd::LinSpaced(1000, 0.001, 1.0);
+  const RiseDistribution cut = cut_at_quantile(RiseDistribution::members(steps), 0.99);
+  ASSERT_EQ(cut.size(), 990U);
+  EXPECT_DOUBLE_EQ(cut.max_m(), 0.990);
+  EXPECT_NEAR(std::accumulate(cut.weight.begin(), cut.weight.end(), 0.0), 1.0, 1e-12);
+  EXPECT_THROW((void)cut_at_quantile(RiseDistribution::members(steps), 0.0), tidewright::InputError);
+
+  const std::size_t n = 200000;
+  const auto draws = tidewright::testing::normal_draws(n, 0.5, 0.1, 20261203);
+  const Eigen::VectorXd d = Eigen::Map<const Eigen::VectorXd>(draws.data(), static_cast<Eigen::Index>(n));
+  const boost::math::normal_distribution<double> unit;
+  for (const double p : {0.99, 0.999}) {
+    const YearConditions c{2100, cut_at_quantile(RiseDistribution::members(d), p), {}};
+    const Allowance a = allowance(gumbel(3.0, 0.1), c, 100.0);
+    const double expected = 0.5 + 0.01 / 0.2 + 0.1 * std::log(boost::math::cdf(unit, boost::math::quantile(unit, p) - 1.0) / p);
+    // Within 4 reported standard errors plus the quantile's own sampling error (about 0.001 m here).
+    EXPECT_NEAR(a.allowance_m, expected, 4.0 * a.monte_carlo.standard_error + 0.001) << "p " << p;
+  }
 }
 
 // Design life: for Gumbel, A = lambda ln( mean_t E[exp(Delta_t/lambda)] ) (Hunter 2012 applied

@@ -44,6 +44,11 @@ struct RiseDistribution {
   [[nodiscard]] double max_m() const;
 };
 
+// The distribution cut at its p-quantile: the lowest nodes whose weights add up to at most p
+// (at least one), weights scaled back to sum 1, kind kept. For a tail sensitivity: how much of
+// a figure comes from the top 1 - p of the rise. Throws InputError unless 0 < p <= 1.
+[[nodiscard]] RiseDistribution cut_at_quantile(const RiseDistribution& d, double p);
+
 // Standard normal Gauss-Hermite nodes s_k and weights w_k (sum 1) for n points, by the
 // Golub & Welsch (1969, Math. Comp. 23:221) eigenvalue method on the Jacobi matrix of the
 // probabilists' Hermite polynomials (off-diagonal sqrt(k)).

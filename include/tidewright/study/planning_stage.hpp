@@ -42,6 +42,10 @@ struct PlanningInputs {
 struct AllowanceRow {
   planning::Allowance allowance;
   std::optional<planning::ParameterRange> range;  // over the fit's parameter uncertainty
+  // Tail sensitivity: the allowance with the year's rise cut at its 99.9th and 99th
+  // percentiles (planning::cut_at_quantile), so a reader sees how much of it is the top tail.
+  double cut_at_p999_m = 0.0;
+  double cut_at_p99_m = 0.0;
 };
 
 // Allowances for each year and return period (Hunter 2012), with ranges over `draws`
@@ -61,8 +65,11 @@ struct AllowanceRow {
 // {"standard_error", "effective_sample_size", "heaviest_member_share"}, or null for quadrature
 // nodes (no sampling error); `unit` names the standard error's key suffix ("m", "" for a ratio).
 [[nodiscard]] nlohmann::ordered_json monte_carlo_json(const planning::MonteCarloError& e, const std::string& unit);
-// The warning for a figure resting on few effective members (monte_carlo_error.hpp), or "".
-[[nodiscard]] std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e);
-[[nodiscard]] nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows);
+// The warning for a figure resting on few effective members (monte_carlo_error.hpp), or "";
+// `members_input` names where the member count is set (the command's flag or a site-file key).
+[[nodiscard]] std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e,
+                                              const std::string& members_input);
+[[nodiscard]] nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vector<AllowanceRow>& rows,
+                                                    const std::string& members_input = "project --samples");
 
 }  // namespace tidewright::study
