@@ -160,6 +160,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     req.maxima.year_start_month = a.year_start_month;
     req.maxima.detrend = record::parse_detrend_method(a.detrend, "--detrend");
     req.maxima.epoch_yr = a.epoch;
+    req.detrend_given = a.detrend != "none";
     req.peaks.threshold_m = a.threshold_m;
     req.peaks.threshold_quantile = a.threshold_quantile;
     req.peaks.separation_h = a.separation_h;

@@ -84,6 +84,17 @@ DetrendedLevels remove_mean_sea_level_trend(const WaterLevelSeries& series,
                      format_epoch(out.detrend.epoch_yr) + " is not a year from 1 to 9999",
                      "give a decimal year such as 2000.0");
   }
+  if (epoch_yr && !years.years.empty()) {
+    const double first = years.years.front().year;
+    const double end = years.years.back().year + 1.0;
+    if (*epoch_yr < first - max_epoch_outside_record_yr || *epoch_yr > end + max_epoch_outside_record_yr) {
+      throw InputError("reference epoch",
+                       format_epoch(*epoch_yr) + " lies more than " + format_epoch(max_epoch_outside_record_yr) +
+                           " years outside the record (" + std::to_string(years.years.front().year) + "-" +
+                           std::to_string(years.years.back().year) + "), so the trend would be extrapolated too far",
+                       "give an epoch within the record, e.g. its middle (the default)");
+    }
+  }
   const double epoch_s = utc_s_of_decimal_year(out.detrend.epoch_yr);
   auto years_from_epoch = [&](double utc_s) { return (utc_s - epoch_s) / seconds_per_year; };
   const std::size_t n_kept = years.kept_count();

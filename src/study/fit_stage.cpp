@@ -70,6 +70,27 @@ void fill_intervals(FitStageResult& out, const FitRequest& request) {
   }
 }
 
+// Options that would change nothing are refused, so that nobody believes a trend was removed.
+void refuse_ignored_options(const FitRequest& r, RecordKind kind) {
+  const bool detrends = r.maxima.detrend != record::DetrendMethod::none;
+  const std::optional<double>& epoch = r.maxima.epoch_yr;
+  if (kind != RecordKind::series) {
+    if (detrends && r.detrend_given) {
+      throw InputError(r.detrend_input, "removes a mean-sea-level trend from a water-level series, but " +
+                                            r.input.string() + " holds annual maxima, where it would be ignored",
+                       "remove it, or give the series the maxima came from");
+    }
+    if (epoch) {
+      throw InputError(r.epoch_input, "refers detrended series levels to an epoch, but " + r.input.string() +
+                                          " holds annual maxima, where it would be ignored",
+                       "remove it, or give the series the maxima came from with a detrending method");
+    }
+  } else if (epoch && !detrends) {
+    throw InputError(r.epoch_input, "sets the epoch of detrended levels, but no trend is removed, so it would be ignored",
+                     "choose a detrending method (annual-mean or linear) or remove the epoch");
+  }
+}
+
 }  // namespace
 
 FitStageResult run_fit_stage(const FitRequest& request) {
@@ -82,6 +103,7 @@ FitStageResult run_fit_stage(const FitRequest& request) {
   FitStageResult out;
   out.source = request.input.string();
   const RecordKind kind = detect_kind(request);
+  refuse_ignored_options(request, kind);
   const std::string& model = request.model;
   if (model == "gpd") {
     if (kind != RecordKind::series) {

@@ -67,6 +67,7 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
     require(*v >= 1 && *v <= 12, *rec, "year_start_month", "must be 1 to 12", "give a month number");
     c.record.year_start_month = static_cast<int>(*v);
   }
+  c.record.detrend_given = rec->has("detrend");
   c.record.detrend = rec->choice("detrend", {"none", "annual_mean", "linear"}, "linear");
   c.record.reference_epoch = rec->optional_number("reference_epoch");
   rec->finish();

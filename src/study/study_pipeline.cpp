@@ -75,6 +75,9 @@ FitRequest fit_request(const SiteConfig& c) {
   r.peaks.year_start_month = c.record.year_start_month;
   r.peaks.detrend = method;
   r.peaks.epoch_yr = c.record.reference_epoch;
+  r.detrend_input = field_location(c.file.string(), "record.detrend");
+  r.epoch_input = field_location(c.file.string(), "record.reference_epoch");
+  r.detrend_given = c.record.detrend_given;
   r.peaks.separation_h = c.extremes.declustering_hours;
   if (c.extremes.threshold_m) r.peaks.threshold_m = c.extremes.threshold_m;
   else r.peaks.threshold_quantile = c.extremes.threshold_quantile;

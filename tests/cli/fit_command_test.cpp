@@ -3,6 +3,13 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <sstream>
+#include <string>
+#include <vector>
+
 #include <nlohmann/json.hpp>
 
 #include "support/run_cli.hpp"
@@ -112,4 +119,43 @@ TEST(FitCommand, PlotIsWrittenAsSvgOrPng) {
   EXPECT_THAT(svg, HasSubstr("Return period (years)"));
   expect_one_line_error(run_cli(base + shell_quote((dir / "rl.pdf").string())), "neither a .svg nor a .png");
   EXPECT_FALSE(std::filesystem::exists(dir / "rl.pdf"));
+}
+
+// Options that the record would ignore are refused with the option's name, exit 2: detrending
+// or an epoch on annual maxima, an epoch without detrending, an epoch more than 10 years
+// outside the record (record::max_epoch_outside_record_yr). Inside those bounds they run.
+TEST(FitCommand, OptionsTheRecordWouldIgnoreAreRefused) {
+  TempDir dir;
+  const std::string am = shell_quote(portpirie) + " --level-column level_m";
+  expect_one_line_error(run_cli("fit " + am + " --detrend linear"), "--detrend: removes a mean-sea-level trend");
+  expect_one_line_error(run_cli("fit " + am + " --epoch 1950"), "--epoch: refers detrended series levels");
+  EXPECT_EQ(run_cli("fit " + am + " --detrend none -q").exit_code, 0);
+  // An invented six-hourly series of 2000-2011 (a tide-like sine), for the series rules.
+  std::string text = "time,level\n";
+  for (int y = 2000; y <= 2011; ++y) {
+    for (int d = 1; d <= 28; ++d) {
+      for (int m = 1; m <= 12; ++m) {
+        for (int h = 0; h < 24; h += 6) {
+          char line[64];
+          std::snprintf(line, sizeof line, "%04d-%02d-%02dT%02d:00Z,%.3f\n", y, m, d, h,
+                        1.0 + 0.5 * std::sin(0.5 * (d * 24 + h) + m + y));
+          text += line;
+        }
+      }
+    }
+  }
+  // Rows are grouped by day-of-month: sort them into time order.
+  std::vector<std::string> rows;
+  std::istringstream in(text.substr(text.find('\n') + 1));
+  for (std::string line; std::getline(in, line);) rows.push_back(line);
+  std::sort(rows.begin(), rows.end());
+  std::string sorted = "time,level\n";
+  for (const auto& r : rows) sorted += r + "\n";
+  tidewright::write_text_file(dir / "series.csv", sorted, true);
+  const std::string series = shell_quote((dir / "series.csv").string()) + " --model gumbel -q";
+  expect_one_line_error(run_cli("fit " + series + " --epoch 2003"), "--epoch: sets the epoch of detrended levels");
+  expect_one_line_error(run_cli("fit " + series + " --detrend linear --epoch 1980"),
+                        "lies more than 10 years outside the record (2000-2011)");
+  EXPECT_EQ(run_cli("fit " + series + " --detrend linear --epoch 2020").exit_code, 0);
+  EXPECT_EQ(run_cli("fit " + series + " --detrend annual-mean --epoch 2003").exit_code, 0);
 }

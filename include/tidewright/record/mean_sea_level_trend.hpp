@@ -49,9 +49,14 @@ struct DetrendedLevels {
 // kept year and the end of the last (the default reference epoch).
 [[nodiscard]] double record_mid_epoch(const RecordYears& years);
 
+// How far a given epoch may lie outside the record's years: our choice, a decade of
+// extrapolated trend (at 3 mm/yr about 3 cm) before the levels' reference becomes a guess.
+inline constexpr double max_epoch_outside_record_yr = 10.0;
+
 // `epoch_yr` empty: record_mid_epoch. With DetrendMethod::none the levels are returned as they
 // are and detrend.method is none. InputError when fewer than 2 kept years (annual_mean) or
-// samples (linear) are there to fit.
+// samples (linear) are there to fit, or when a given epoch lies more than
+// max_epoch_outside_record_yr years before the record's first year or after its last.
 [[nodiscard]] DetrendedLevels remove_mean_sea_level_trend(const WaterLevelSeries& series,
                                                           const RecordYears& years,
                                                           DetrendMethod method,

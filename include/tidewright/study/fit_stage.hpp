@@ -23,6 +23,10 @@ namespace tidewright::study {
 
 enum class RecordKind { detect, series, annual_maxima };
 
+// run_fit_stage throws InputError for options the record would ignore: detrending or an epoch
+// for a file of annual maxima, an epoch without detrending (and, through the record module, an
+// epoch more than record::max_epoch_outside_record_yr years outside the record).
+
 struct FitRequest {
   std::filesystem::path input;
   RecordKind kind = RecordKind::detect;  // detect: a series if the file has the time column
@@ -34,6 +38,12 @@ struct FitRequest {
   std::size_t r_largest = 0;           // rlargest: values per year kept (0: all given)
   std::size_t bootstrap_samples = 0;   // 0: no bootstrap
   unsigned long long seed = 20261201ULL;
+  // Where the detrending options came from, for messages (the flags, or the site-file keys),
+  // and whether detrending was asked for rather than defaulted: options that would be ignored
+  // (detrending annual maxima, an epoch without detrending) are refused, defaults are not.
+  std::string detrend_input = "--detrend";
+  std::string epoch_input = "--epoch";
+  bool detrend_given = false;
 };
 
 struct FitStageResult {

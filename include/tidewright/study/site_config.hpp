@@ -31,6 +31,7 @@ struct RecordSettings {
   double min_completeness = 0.75;  // Slangen et al. (2017): years > 75 % complete
   int year_start_month = 1;
   std::string detrend = "linear";  // "none", "annual_mean", "linear"
+  bool detrend_given = false;      // the key was in the file (a default is not refused for maxima)
   std::optional<double> reference_epoch;  // decimal year; default: the record's middle
 };
 
