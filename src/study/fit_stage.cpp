@@ -186,6 +186,10 @@ std::vector<std::string> numerical_warnings(const extremes::FitResult& fit) {
   const auto num = [](double v) { return report::fixed(v, 3); };
   if (xi > 0.5) {
     w.push_back("the fitted shape is " + num(xi) + ", above 0.5: a very heavy tail; long return levels are unreliable");
+  } else if (xi > still_water_shape_caution) {
+    w.push_back("the fitted shape is " + num(xi) + ", above " + num(still_water_shape_caution) +
+                ": still-water extremes are rarely this heavy-tailed; check the record for mixed populations "
+                "(e.g. surges of different storm types), outliers or too short a span before using long return levels");
   }
   // Smith (1985, Biometrika 72:67): for xi <= -0.5 the maximum-likelihood estimator is not
   // regular, so its standard errors (and delta-method intervals) cannot be trusted.

@@ -159,3 +159,23 @@ TEST(FitCommand, OptionsTheRecordWouldIgnoreAreRefused) {
   EXPECT_EQ(run_cli("fit " + series + " --detrend linear --epoch 2020").exit_code, 0);
   EXPECT_EQ(run_cli("fit " + series + " --detrend annual-mean --epoch 2003").exit_code, 0);
 }
+
+// A GEV shape above 0.2 gets a caution (study::still_water_shape_caution); Port Pirie's -0.05
+// (Coles 2001, §3.4.1) does not. The heavy-tailed record is invented: Frechet-like maxima
+// mu + sigma (E^-xi - 1)/xi with xi = 0.45 at evenly spaced plotting positions.
+TEST(FitCommand, HeavyTailedStillWaterFitGetsACaution) {
+  TempDir dir;
+  std::string text = "year,level\n";
+  const int n = 60;
+  for (int i = 1; i <= n; ++i) {
+    const double p = (i - 0.44) / (n + 0.12);  // Gringorten
+    const double level = 2.0 + 0.2 * (std::pow(-std::log(p), -0.45) - 1.0) / 0.45;
+    text += std::to_string(1950 + i) + "," + std::to_string(level) + "\n";
+  }
+  tidewright::write_text_file(dir / "heavy.csv", text, true);
+  const auto heavy = run_cli("fit " + shell_quote((dir / "heavy.csv").string()) + " --model gev");
+  EXPECT_EQ(heavy.exit_code, 0) << heavy.err;
+  EXPECT_THAT(heavy.out, HasSubstr("above 0.200: still-water extremes are rarely this heavy-tailed"));
+  const auto light = run_cli("fit " + shell_quote(portpirie) + " --level-column level_m");
+  EXPECT_THAT(light.out, ::testing::Not(HasSubstr("rarely this heavy-tailed")));
+}

@@ -67,8 +67,14 @@ struct FitStageResult {
 
 [[nodiscard]] FitStageResult run_fit_stage(const FitRequest& request);
 
-// Warnings a fit's numbers need beside them: a very heavy tail, a shape where the likelihood is
-// not regular, the largest value at the fitted upper end point.
+// Above this GEV/GPD shape a still-water fit gets a caution: fitted shapes of tide-gauge
+// extremes mostly lie between about -0.2 and 0.2, so a heavier tail more often means mixed
+// populations, outliers or a short record than a real tail (common practice; from memory).
+inline constexpr double still_water_shape_caution = 0.2;
+
+// Warnings a fit's numbers need beside them: a very heavy tail (above still_water_shape_caution
+// and above 0.5), a shape where the likelihood is not regular, the largest value at the fitted
+// upper end point.
 [[nodiscard]] std::vector<std::string> numerical_warnings(const extremes::FitResult& fit);
 
 // The return-level plot of a fit: the profile band where every period has one, else the delta
