@@ -68,17 +68,30 @@ void print_result(const study::FitStageResult& r, const FitArgs& a) {
       << extremes::family_name(r.deviance_test->chosen) << " at 5%)\n";
   }
   o << "Anderson-Darling A2 = " << report::fixed(r.anderson_darling, 3) << "\n\n";
-  o << "Return levels (m above " << r.datum << "), 95% intervals:\n";
-  std::vector<std::string> head{"return period (yr)", "level (m)", "profile likelihood", "delta method"};
+  o << "Return levels (m above " << r.datum << ") with 95% intervals; " << extremes::return_period_definition
+    << ":\n";
+  std::vector<std::string> head{"return period (yr)", "AEP (%)", "level (m)", "95% interval (profile likelihood)",
+                                "delta method (approximate)"};
   if (r.bootstrap) head.emplace_back("bootstrap");
   report::TextTable levels(head);
+  bool clipped = false;
   for (std::size_t i = 0; i < r.profile.size(); ++i) {
-    std::vector<std::string> row{report::fixed(r.profile[i].return_period_yr, 0), report::fixed(r.profile[i].level_m, 3),
-                                 interval_text(r.profile[i]), interval_text(r.delta[i])};
+    const double t = r.profile[i].return_period_yr;
+    std::string delta = interval_text(r.delta[i]);
+    if (study::delta_lower_below_shorter_level(r, i)) {
+      delta = "[*, " + report::fixed(r.delta[i].upper_m, 3) + "]";
+      clipped = true;
+    }
+    std::vector<std::string> row{report::fixed(t, 0), report::fixed(100.0 * extremes::annual_exceedance_probability_of_period(t), 3),
+                                 report::fixed(r.profile[i].level_m, 3), interval_text(r.profile[i]), delta};
     if (r.bootstrap) row.push_back(interval_text(r.bootstrap->levels[i]));
     levels.add_row(row);
   }
   o << levels.render();
+  if (clipped) {
+    o << "* the delta method's lower bound falls below a shorter return period's level: not shown (use the profile "
+         "interval)\n";
+  }
   if (r.reference_epoch) {
     o << "Levels are relative to mean sea level at epoch " << report::fixed(*r.reference_epoch, 2)
       << " (trend removed: " << report::fixed(r.trend_mm_per_yr, 2) << " mm/yr).\n";

@@ -106,8 +106,10 @@ std::vector<PlotPoint> diagnostic_plot_points(const FitResult& fit) {
     p.plotting_position = (static_cast<double>(i + 1) - 0.44) / (nd + 0.12);
     p.model_probability = fitted_cdf(fit, x[i]);
     p.model_level_m = fitted_quantile(fit, p.plotting_position);
-    const double rate = fit.family == Family::gpd ? fit.rate_per_yr : 1.0;
-    p.return_period_yr = 1.0 / (rate * (1.0 - p.plotting_position));
+    // T = 1/N_0 as everywhere (return_levels.hpp): annual maxima N_0 = -log P_i, GPD
+    // N_0 = lambda_u (1 - P_i).
+    p.return_period_yr = fit.family == Family::gpd ? 1.0 / (fit.rate_per_yr * (1.0 - p.plotting_position))
+                                                   : -1.0 / std::log(p.plotting_position);
     out.push_back(p);
   }
   return out;

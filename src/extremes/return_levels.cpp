@@ -54,8 +54,10 @@ double level_argument(const FitResult& fit, double t) {
     }
     return std::log(m);
   }
-  // y_p = -log(1 - 1/T) (Coles 2001, eq. 3.10); s = -log y_p.
-  return -std::log(-std::log1p(-1.0 / t));
+  // One meaning of T in every command: the level exceeded on average once in T years,
+  // N_0(z_T) = -log F(z_T) = 1/T under Poisson occurrence (docs/methods-extremes.md). So y_p = 1/T
+  // in Coles (2001) eq. 3.10 (not -log(1 - 1/T)), and s = -log y_p = log T.
+  return std::log(t);
 }
 
 ParamVector vec2(double a, double b) {
@@ -385,6 +387,10 @@ double profile_end(const FitResult& fit, double t, double z_hat, double se, doub
   return profile_end_bracketed(fit, t, z_hat, se, critical, dir);
 }
 }  // namespace
+
+double annual_exceedance_probability_of_period(double return_period_yr) {
+  return -std::expm1(-1.0 / return_period_yr);
+}
 
 const char* interval_method_name(IntervalMethod method) {
   switch (method) {

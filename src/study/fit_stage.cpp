@@ -179,6 +179,15 @@ FitStageResult run_fit_stage(const FitRequest& request) {
   return out;
 }
 
+bool delta_lower_below_shorter_level(const FitStageResult& r, std::size_t i) {
+  if (i >= r.delta.size()) return false;
+  const extremes::ReturnLevel& l = r.delta[i];
+  for (const auto& other : r.delta) {
+    if (other.return_period_yr < l.return_period_yr && l.lower_m < other.level_m) return true;
+  }
+  return false;
+}
+
 std::vector<std::string> numerical_warnings(const extremes::FitResult& fit) {
   std::vector<std::string> w;
   if (fit.family == extremes::Family::gumbel) return w;
@@ -263,17 +272,26 @@ nlohmann::ordered_json fit_result_json(const FitStageResult& r) {
   }
   nlohmann::ordered_json levels = nlohmann::ordered_json::array();
   auto add = [&](const std::vector<extremes::ReturnLevel>& v) {
-    for (const auto& l : v) {
-      levels.push_back({{"return_period", l.return_period_yr},
-                        {"level", l.level_m},
-                        {"lower", number_or_null(l.lower_m)},
-                        {"upper", number_or_null(l.upper_m)},
-                        {"method", extremes::interval_method_name(l.method)}});
+    for (std::size_t i = 0; i < v.size(); ++i) {
+      const auto& l = v[i];
+      nlohmann::ordered_json e{{"return_period", l.return_period_yr},
+                               {"annual_exceedance_probability",
+                                extremes::annual_exceedance_probability_of_period(l.return_period_yr)},
+                               {"level", l.level_m},
+                               {"lower", number_or_null(l.lower_m)},
+                               {"upper", number_or_null(l.upper_m)},
+                               {"method", extremes::interval_method_name(l.method)}};
+      if (l.method == extremes::IntervalMethod::delta) {
+        e["approximate"] = true;
+        e["lower_below_shorter_period_level"] = delta_lower_below_shorter_level(r, i);
+      }
+      levels.push_back(e);
     }
   };
   add(r.profile);
   add(r.delta);
   if (r.bootstrap) add(r.bootstrap->levels);
+  j["return_period_definition"] = extremes::return_period_definition;
   j["return_levels"] = levels;
   j["confidence"] = 0.95;
   nlohmann::ordered_json diag;

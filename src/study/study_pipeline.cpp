@@ -469,9 +469,14 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
             fixed(fit.trend_mm_per_yr, 2) + " mm/yr).";
   }
   evidence.blocks.emplace_back(report::Paragraph{diag});
-  report::Table rl{"return_levels", "Present-day return levels with 95% profile-likelihood and delta-method intervals.",
-                   {{"Return period", "years"}, {"Level", level_unit}, {"Profile lower", level_unit},
-                    {"Profile upper", level_unit}, {"Delta lower", level_unit}, {"Delta upper", level_unit}},
+  report::Table rl{"return_levels",
+                   std::string("Present-day return levels with 95% profile-likelihood intervals (the interval to "
+                               "quote) and, as an approximation, delta-method intervals; a delta lower bound below a "
+                               "shorter return period's level is not shown. ") +
+                       extremes::return_period_definition + ".",
+                   {{"Return period", "years"}, {"AEP", "%"}, {"Level", level_unit}, {"Profile lower", level_unit},
+                    {"Profile upper", level_unit}, {"Delta lower (approx.)", level_unit},
+                    {"Delta upper (approx.)", level_unit}},
                    {}};
   for (std::size_t i = 0; i < fit.profile.size(); ++i) {
     const auto& p = fit.profile[i];
@@ -479,8 +484,10 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     const auto end = [](double v) {
       return std::isnan(v) ? std::string("not available") : std::isfinite(v) ? fixed(v, 2) : std::string("unbounded");
     };
-    rl.add_row({fixed(p.return_period_yr, 0), fixed(p.level_m, 2), end(p.lower_m), end(p.upper_m), end(d.lower_m),
-                end(d.upper_m)});
+    rl.add_row({fixed(p.return_period_yr, 0),
+                fixed(100.0 * extremes::annual_exceedance_probability_of_period(p.return_period_yr), 3),
+                fixed(p.level_m, 2), end(p.lower_m), end(p.upper_m),
+                delta_lower_below_shorter_level(fit, i) ? std::string("not shown") : end(d.lower_m), end(d.upper_m)});
   }
   std::string band_method;
   const report::ReturnLevelPlotInput rlp = return_level_plot_input(fit, &band_method);

@@ -31,7 +31,8 @@ TEST(ExtremesDiagnostics, GringortenPlotPoints) {
     EXPECT_DOUBLE_EQ(pts[i].plotting_position, p);
     EXPECT_NEAR(pts[i].model_probability, tx::cdf(g, sorted[i]), 1e-15);
     EXPECT_NEAR(pts[i].model_level_m, tx::quantile(g, p), 1e-12);
-    EXPECT_NEAR(pts[i].return_period_yr, 1.0 / (1.0 - p), 1e-12);
+    // T = 1/N_0 with N_0 = -log F for annual maxima (return_levels.hpp).
+    EXPECT_NEAR(pts[i].return_period_yr, -1.0 / std::log(p), 1e-12);
   }
   EXPECT_NEAR(pts.front().plotting_position, 0.56 / 30.12, 1e-15);
   EXPECT_NEAR(pts.back().plotting_position, 29.56 / 30.12, 1e-15);

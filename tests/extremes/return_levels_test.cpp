@@ -28,7 +28,8 @@ TEST(ExtremesReturnLevels, GumbelClosedForms) {
   const std::vector<double> periods{2.0, 100.0};
   const auto rl = tx::return_levels_delta(f, periods);
   for (const auto& r : rl) {
-    const double s = -std::log(-std::log1p(-1.0 / r.return_period_yr));
+    // N_0(z_T) = 1/T: Coles (2001) eq. 3.10 with y_p = 1/T, s = -log y_p = log T.
+    const double s = std::log(r.return_period_yr);
     EXPECT_NEAR(r.level_m, f.location() + f.scale() * s, 1e-14);
     const double var =
         f.covariance(0, 0) + 2.0 * s * f.covariance(0, 1) + s * s * f.covariance(1, 1);
@@ -41,7 +42,7 @@ TEST(ExtremesReturnLevels, GevLevelIsTheUpperQuantile) {
   const auto f = tx::fit_gev(tx::draw(tx::Gev(1.0, 0.2, 0.1), 80, 22));
   for (double t : tx::standard_return_periods_yr) {
     EXPECT_NEAR(tx::return_level(f, t),
-                tx::quantile(tx::complement(tx::Gev(f.location(), f.scale(), f.shape()), 1.0 / t)),
+                tx::quantile(tx::complement(tx::Gev(f.location(), f.scale(), f.shape()), -std::expm1(-1.0 / t))),
                 1e-12);
   }
 }

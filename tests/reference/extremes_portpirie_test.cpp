@@ -55,10 +55,14 @@ TEST(ExtremesPortPirie, GevFitMatchesColes341) {
 // 100-year level 4.69 with [4.38, 5.00] (secondary, docs/references.md). Coles centres the
 // printed interval on the rounded level (4.30 +- 1.96 se; the unrounded level is 4.296), so
 // each printed end carries two roundings of 0.005: the ends are checked to 0.01, the level and
-// the half-width (1.96 se, free of the centring) to 0.005.
+// the half-width (1.96 se, free of the centring) to 0.005. Coles' T-year level has F = 1 - 1/T;
+// ours has N_0 = 1/T (return_levels.hpp), so his 10 and 100 years are our
+// T' = -1/log(1 - 1/T) = 9.4912 and 99.4992 years.
+std::vector<double> coles_periods() { return {-1.0 / std::log1p(-0.1), -1.0 / std::log1p(-0.01)}; }
+
 TEST(ExtremesPortPirie, DeltaIntervalsMatchColes341) {
   const auto f = tx::fit_gev(port_pirie());
-  const std::vector<double> periods{10.0, 100.0};
+  const std::vector<double> periods = coles_periods();
   const auto rl = tx::return_levels_delta(f, periods);
   EXPECT_NEAR(rl[0].level_m, 4.30, 0.005);
   EXPECT_NEAR((rl[0].upper_m - rl[0].lower_m) / 2.0, (4.41 - 4.19) / 2.0, 0.005);
@@ -75,12 +79,13 @@ TEST(ExtremesPortPirie, DeltaIntervalsMatchColes341) {
 }
 
 // Profile-likelihood intervals: docs/references.md gives "about [4.20, 4.45]" for 10 years and
-// "about [4.49, 5.26]" for 100 years (secondary / computed, read from Coles' Fig. 3.4 profile);
+// "about [4.49, 5.26]" for 100 years (secondary / computed, read from Coles' Fig. 3.4 profile;
+// his periods, as above);
 // tolerance 0.01 m for that reading. The profile interval must also be asymmetric, longer
 // above, as Coles stresses for xi near 0.
 TEST(ExtremesPortPirie, ProfileIntervalsMatchColes341) {
   const auto f = tx::fit_gev(port_pirie());
-  const std::vector<double> periods{10.0, 100.0};
+  const std::vector<double> periods = coles_periods();
   const auto rl = tx::return_levels_profile(f, periods);
   EXPECT_NEAR(rl[0].lower_m, 4.20, 0.01);
   EXPECT_NEAR(rl[0].upper_m, 4.45, 0.01);

@@ -64,3 +64,28 @@ TEST(FitWarnings, RealFitToABoundedSampleIsFlagged) {
   ASSERT_LE(fit.shape(), -0.5);
   EXPECT_THAT(joined(tidewright::study::numerical_warnings(fit)), HasSubstr("not regular (Smith 1985)"));
 }
+
+TEST(FitWarnings, ShapeAboveTwoTenthsGetsTheStillWaterCaution) {
+  const auto w = joined(tidewright::study::numerical_warnings(gev(3.0, 0.2, 0.25, {2.9, 3.1, 3.6})));
+  EXPECT_THAT(w, HasSubstr("above 0.200: still-water extremes are rarely this heavy-tailed"));
+  EXPECT_THAT(w, ::testing::Not(HasSubstr("above 0.5")));
+}
+
+// A delta-method lower bound below a shorter return period's level is flagged (not printed);
+// one above every shorter level is not, nor is the shortest period's.
+TEST(FitIntervals, DeltaLowerBoundBelowAShorterPeriodsLevelIsFlagged) {
+  tidewright::study::FitStageResult r;
+  const auto level = [](double t, double z, double lo) {
+    ex::ReturnLevel l;
+    l.return_period_yr = t;
+    l.level_m = z;
+    l.lower_m = lo;
+    l.upper_m = 2.0 * z - lo;
+    return l;
+  };
+  r.delta = {level(2.0, 1.90, 1.80), level(10.0, 2.20, 1.85), level(100.0, 2.60, 2.30)};
+  EXPECT_FALSE(tidewright::study::delta_lower_below_shorter_level(r, 0));
+  EXPECT_TRUE(tidewright::study::delta_lower_below_shorter_level(r, 1));
+  EXPECT_FALSE(tidewright::study::delta_lower_below_shorter_level(r, 2));
+  EXPECT_FALSE(tidewright::study::delta_lower_below_shorter_level(r, 3));  // out of range
+}

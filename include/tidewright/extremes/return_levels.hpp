@@ -1,9 +1,12 @@
 // Return levels of a fitted model with confidence intervals: delta method, profile likelihood
 // and parametric bootstrap.
 //
-// Glossary (Coles 2001): T return period (years); p = 1/T; y_p = -log(1 - p);
-// z_T return level. Annual maxima (Gumbel, GEV, r-largest GEV): F(z_T) = 1 - 1/T, so
-// z_T = mu + sigma [y_p^(-xi) - 1]/xi (Coles 2001, eq. 3.10). GPD with rate lambda_u per year:
+// Glossary (Coles 2001): T return period (years), one meaning for every family and command:
+// the level exceeded on average once in T years, N_0(z_T) = 1/T, with annual exceedance
+// probability AEP = 1 - exp(-1/T) (Poisson occurrence); z_T return level.
+// Annual maxima (Gumbel, GEV, r-largest GEV): N_0 = -log F, so F(z_T) = exp(-1/T), y_p = 1/T and
+// z_T = mu + sigma [y_p^(-xi) - 1]/xi (Coles 2001, eq. 3.10, whose F = 1 - 1/T is the same level
+// for T' = -1/log(1 - 1/T), e.g. 99.50 years for Coles' 100). GPD with rate lambda_u per year:
 // the level exceeded on average once in T years, lambda_u [1 + xi (z_T - u)/sigma]^(-1/xi) = 1/T,
 // so z_T = u + sigma [(lambda_u T)^xi - 1]/xi (Coles 2001, eq. 4.13 with m = lambda_u T).
 #pragma once
@@ -19,6 +22,15 @@ namespace tidewright::extremes {
 // The project's standard list (common practice in coastal design tables).
 inline const std::vector<double> standard_return_periods_yr = {2,   5,   10,  20,  50,
                                                                100, 200, 500, 1000};
+
+// The meaning of "T-year level" stated in every output that lists return periods.
+inline constexpr const char* return_period_definition =
+    "T-year level: exceeded on average once in T years (annual rate 1/T), "
+    "annual exceedance probability 1 - exp(-1/T)";
+
+// The annual exceedance probability of the T-year level, 1 - exp(-1/T) (Poisson occurrence of
+// a rate 1/T; Coles 2001, sec. 4.4), by expm1 so that long periods keep their digits.
+[[nodiscard]] double annual_exceedance_probability_of_period(double return_period_yr);
 
 enum class IntervalMethod { delta, profile, bootstrap };
 [[nodiscard]] const char* interval_method_name(IntervalMethod method);

@@ -72,6 +72,11 @@ struct FitStageResult {
 // populations, outliers or a short record than a real tail (common practice; from memory).
 inline constexpr double still_water_shape_caution = 0.2;
 
+// True when the delta-method lower bound of level i lies below the point estimate of a shorter
+// return period in the fit: a symmetric interval that has left the data's support; such a bound
+// is not printed (the profile interval is the answer, the delta interval an approximation).
+[[nodiscard]] bool delta_lower_below_shorter_level(const FitStageResult& r, std::size_t i);
+
 // Warnings a fit's numbers need beside them: a very heavy tail (above still_water_shape_caution
 // and above 0.5), a shape where the likelihood is not regular, the largest value at the fitted
 // upper end point.
