@@ -114,13 +114,15 @@ void configure(CLI::App& app, CommonOptions& common) {
       life["allowances"] = dl;
       nlohmann::ordered_json risks = nlohmann::ordered_json::array();
       if (!a->heights.empty()) {
-        report::TextTable rt({"height (m)", "P(at least one exceedance)", "expected exceedances"});
+        report::TextTable rt({"height (m)", "P(at least one exceedance)", "Monte Carlo error",
+                              study::expected_count_heading(in.fit.model), "member-years beyond the model (%)"});
         for (double h : a->heights) {
           const auto r = planning::design_life_risk(in.fit.model, span, h);
           rt.add_row({report::fixed(h, 3), report::probability_text(r.probability, r.rounds_to_one),
-                      report::fixed(r.expected_exceedances, 3)});
-          risks.push_back({{"height_m", h}, {"probability", r.probability}, {"probability_none", r.probability_none},
-                           {"expected_exceedances", r.expected_exceedances}, {"rounds_to_one", r.rounds_to_one}});
+                      r.monte_carlo.sampled ? report::fixed(r.monte_carlo.standard_error, 4) : "-",
+                      report::fixed(study::expected_count(in.fit.model, r), 3),
+                      report::fixed(100.0 * r.beyond_range_fraction, 2)});
+          risks.push_back(study::design_life_risk_json(r));
         }
         o << rt.render();
       }

@@ -24,16 +24,6 @@ struct AmplifyArgs {
   std::string json, csv, plot;
 };
 
-std::string period_text(double t) {
-  if (!std::isfinite(t)) return "never";
-  if (t >= 1e6) return "> 1,000,000";
-  return t >= 100 ? report::fixed(t, 0) : report::fixed(t, 2);
-}
-
-nlohmann::ordered_json finite_or_null(double v) {
-  return std::isfinite(v) ? nlohmann::ordered_json(v) : nlohmann::ordered_json(nullptr);
-}
-
 void configure(CLI::App& app, CommonOptions& common) {
   auto a = std::make_shared<AmplifyArgs>();
   add_planning_options(app, a->planning);
@@ -74,31 +64,30 @@ void configure(CLI::App& app, CommonOptions& common) {
     nlohmann::ordered_json j = study::planning_context_json(in);
     nlohmann::ordered_json rows = nlohmann::ordered_json::array();
     std::ostringstream csv;
-    csv << "year,level_m,present_return_period_yr,future_return_period_yr,amplification_factor\n";
+    // Numeric columns hold numbers only: a bound goes to its own column, an empty cell where
+    // there is no number (docs/file-formats.md).
+    csv << "year,level_m,present_return_period_yr,future_return_period_yr,amplification_factor,"
+           "beyond_annual_maxima_range,amplification_factor_above,members_beyond_model_range_fraction\n";
+    const auto cell = [](double v) { return std::isfinite(v) ? report::fixed(v, 6) : std::string(); };
     const std::string datum = in.fit.datum.empty() ? "datum" : in.fit.datum;
     report::TextTable t({"year", "level (m, " + datum + ")", "today's return period (yr)",
-                         "future return period (yr)", "amplification factor"});
+                         "future return period (yr)", "amplification factor", "members beyond the model (%)"});
+    bool any_beyond = false;
     for (int y : a->years) {
       const auto cond = planning::conditions_in_year(in.rise, y, in.storminess);
       for (const auto& target : targets) {
         const auto am = planning::amplification(in.fit.model, cond, target.level_m);
-        // An annual-maxima model counts years with an exceedance, not exceedances: past one a year
-        // only a bound is honest.
-        const bool beyond = in.fit.model.family != extremes::Family::gpd && am.future_rate_per_yr > 1.0;
-        t.add_row({std::to_string(y), report::fixed(target.level_m, 3), period_text(am.present_return_period_yr),
-                   beyond ? "< 1 (more than yearly)" : period_text(am.future_return_period_yr),
-                   am.present_rate_is_zero ? "not finite (level above today's upper end point)"
-                   : beyond                ? "> " + report::fixed(1.0 / am.present_rate_per_yr, 1)
-                                           : report::fixed(am.amplification_factor, 1)});
-        rows.push_back({{"year", y},
-                        {"level", target.level_m},
-                        {"present_return_period", finite_or_null(am.present_return_period_yr)},
-                        {"future_return_period", finite_or_null(am.future_return_period_yr)},
-                        {"amplification_factor", finite_or_null(am.amplification_factor)},
-                        {"present_rate_is_zero", am.present_rate_is_zero},
-                        {"beyond_annual_maxima_range", beyond}});
-        csv << y << ',' << report::fixed(target.level_m, 4) << ',' << am.present_return_period_yr << ','
-            << am.future_return_period_yr << ',' << am.amplification_factor << '\n';
+        const auto text = study::amplification_text(am);
+        any_beyond = any_beyond || am.beyond_annual_maxima_range;
+        t.add_row({std::to_string(y), report::fixed(target.level_m, 3),
+                   study::return_period_text(am.present_return_period_yr), text.future_return_period, text.factor,
+                   report::fixed(100.0 * am.beyond_range_fraction, 1)});
+        rows.push_back(study::amplification_json(am));
+        const bool beyond = am.beyond_annual_maxima_range;
+        csv << y << ',' << report::fixed(target.level_m, 4) << ',' << cell(am.present_return_period_yr) << ','
+            << (beyond ? std::string() : cell(am.future_return_period_yr)) << ','
+            << (beyond ? std::string() : cell(am.amplification_factor)) << ',' << (beyond ? "true" : "false") << ','
+            << (beyond ? cell(am.quotable_factor()) : std::string()) << ',' << am.beyond_range_fraction << '\n';
       }
     }
     j["rows"] = rows;
@@ -108,7 +97,8 @@ void configure(CLI::App& app, CommonOptions& common) {
                                                                           report::fixed(a->frequency, 2) + " times a year"});
     for (const auto& target : targets) {
       const auto r = planning::emergence_year(in.fit.model, span, target.level_m, a->frequency);
-      e.add_row({report::fixed(target.level_m, 3), period_text(1.0 / in.fit.model.annual_exceedance_rate(target.level_m)),
+      e.add_row({report::fixed(target.level_m, 3),
+                 study::return_period_text(1.0 / in.fit.model.annual_exceedance_rate(target.level_m)),
                  r.year ? std::to_string(*r.year) : "not by " + std::to_string(in.rise.years.back())});
       em.push_back({{"level", target.level_m},
                     {"frequency_per_yr", a->frequency},
@@ -119,7 +109,12 @@ void configure(CLI::App& app, CommonOptions& common) {
     std::ostringstream o;
     o << "tidewright amplify: scenario '" << in.rise.scenario << "'" << (in.rise.illustrative ? " (illustrative)" : "")
       << ", " << in.rise.member_count() << " members\n"
-      << t.render() << "\nEmergence:\n"
+      << t.render()
+      << (any_beyond ? "'< 1' and '> x': the level would be passed more than once a year, beyond what a model of "
+                       "annual maxima can count; fit peaks over a threshold (--model gpd) where frequent levels "
+                       "matter.\n"
+                     : "")
+      << "\nEmergence:\n"
       << e.render();
     for (const auto& n : in.notes) o << "note: " << n << "\n";
     o << "Planning estimates of still water only; a licensed coastal engineer must review them against local codes "
@@ -134,7 +129,9 @@ void configure(CLI::App& app, CommonOptions& common) {
         report::NamedSeries s{target.period_yr > 0 ? "today's " + report::fixed(target.period_yr, 0) + "-year level"
                                                    : report::fixed(target.level_m, 2) + " m",
                               {}};
-        for (const auto& cond : span) s.values.push_back(planning::amplification(in.fit.model, cond, target.level_m).amplification_factor);
+        for (const auto& cond : span) {
+          s.values.push_back(planning::amplification(in.fit.model, cond, target.level_m).quotable_factor());
+        }
         series.push_back(std::move(s));
       }
       write_plot(report::amplification_plot(years, series), a->plot, common.force);

@@ -1,9 +1,11 @@
 // Glossary: see include/tidewright/planning/amplification.hpp.
 #include "tidewright/planning/amplification.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <string>
+#include <vector>
 
 #include "tidewright/common/error.hpp"
 
@@ -27,12 +29,40 @@ Amplification amplification(const extremes::StillWaterModel& present, const Year
   a.present_return_period_yr = reciprocal_period(a.present_rate_per_yr);
   a.future_return_period_yr = reciprocal_period(a.future_rate_per_yr);
   a.present_rate_is_zero = !(a.present_rate_per_yr > 0.0);
+  std::vector<double> rates(conditions.rise.size());
+  node_rates(present, conditions, level_m, rates);
+  const bool annual_maxima = present.family != extremes::Family::gpd;
+  double beyond = 0.0;
+  double bound = 0.0;
+  double aep = 0.0;
+  bool any_above_one = false;
+  for (std::size_t i = 0; i < rates.size(); ++i) {
+    const double w = conditions.rise.weight[i];
+    if (!std::isfinite(rates[i])) beyond += w;
+    any_above_one = any_above_one || rates[i] > 1.0;
+    bound += w * std::min(rates[i], 1.0);
+    aep += w * -std::expm1(-rates[i]);
+  }
+  a.beyond_range_fraction = beyond;
+  a.future_aep = aep;
+  a.present_aep = annual_exceedance_probability(a.present_rate_per_yr);
+  a.beyond_annual_maxima_range = annual_maxima && any_above_one;
+  a.rate_lower_bound_per_yr = a.beyond_annual_maxima_range ? bound : a.future_rate_per_yr;
+  if (beyond == 0.0 && !a.present_rate_is_zero) {
+    a.monte_carlo = scaled(weighted_mean_error(rates, conditions.rise.weight, conditions.rise.kind == "members"),
+                           1.0 / a.present_rate_per_yr);
+  }
   // AF = N_t(z) / N_0(z) (IPCC AR5 WG1 ch. 13; Buchanan et al. 2017).
   a.amplification_factor = a.present_rate_is_zero
                                ? (a.future_rate_per_yr > 0.0 ? std::numeric_limits<double>::infinity()
                                                              : std::numeric_limits<double>::quiet_NaN())
                                : a.future_rate_per_yr / a.present_rate_per_yr;
   return a;
+}
+
+double Amplification::quotable_factor() const {
+  if (present_rate_is_zero) return std::numeric_limits<double>::quiet_NaN();
+  return beyond_annual_maxima_range ? rate_lower_bound_per_yr / present_rate_per_yr : amplification_factor;
 }
 
 Amplification amplification_of_return_level(const extremes::StillWaterModel& present,

@@ -37,10 +37,16 @@ DesignLifeRisk design_life_risk(const extremes::StillWaterModel& present, std::s
   check_paths(years);
   const std::size_t n = years.front().rise.size();
   std::vector<double> path_sum(n, 0.0);
+  std::vector<double> years_with(n, 0.0);
+  std::vector<double> beyond(n, 0.0);
   std::vector<double> rates(n);
   for (const auto& c : years) {
     node_rates(present, c, level_m, rates);
-    for (std::size_t i = 0; i < n; ++i) path_sum[i] += rates[i];
+    for (std::size_t i = 0; i < n; ++i) {
+      path_sum[i] += rates[i];
+      years_with[i] += -std::expm1(-rates[i]);  // P(at least one exceedance in the year), 1 when N is infinite
+      if (!std::isfinite(rates[i])) beyond[i] += 1.0;
+    }
   }
   const auto& w = years.front().rise.weight;
   DesignLifeRisk r;
@@ -50,12 +56,21 @@ DesignLifeRisk design_life_risk(const extremes::StillWaterModel& present, std::s
   double p = 0.0;
   double q = 0.0;
   double expected = 0.0;
+  double expected_years = 0.0;
+  double beyond_share = 0.0;
+  std::vector<double> member_p(n);
   for (std::size_t i = 0; i < n; ++i) {
     // P = 1 - E[exp(-S)] (docs/design.md); -expm1(-S) keeps the digits of small P.
-    p += w[i] * -std::expm1(-path_sum[i]);
+    member_p[i] = -std::expm1(-path_sum[i]);
+    p += w[i] * member_p[i];
     q += w[i] * std::exp(-path_sum[i]);
     expected += w[i] * path_sum[i];
+    expected_years += w[i] * years_with[i];
+    beyond_share += w[i] * beyond[i];
   }
+  r.expected_years_with_exceedance = expected_years;
+  r.beyond_range_fraction = beyond_share / static_cast<double>(years.size());
+  r.monte_carlo = weighted_mean_error(member_p, w, years.front().rise.kind == "members");
   r.probability = std::min(p, 1.0);
   r.probability_none = q;
   r.expected_exceedances = expected;

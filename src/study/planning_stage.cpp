@@ -189,6 +189,72 @@ nlohmann::ordered_json monte_carlo_json(const planning::MonteCarloError& e, cons
   return j;
 }
 
+namespace {
+nlohmann::ordered_json finite_or_null(double v) {
+  return std::isfinite(v) ? nlohmann::ordered_json(v) : nlohmann::ordered_json(nullptr);
+}
+}  // namespace
+
+nlohmann::ordered_json amplification_json(const planning::Amplification& a) {
+  nlohmann::ordered_json j;
+  j["year"] = a.year;
+  j["level"] = a.level_m;
+  j["present_return_period"] = finite_or_null(a.present_return_period_yr);
+  j["present_rate_is_zero"] = a.present_rate_is_zero;
+  j["beyond_annual_maxima_range"] = a.beyond_annual_maxima_range;
+  j["present_annual_exceedance_probability"] = a.present_aep;
+  j["future_annual_exceedance_probability"] = a.future_aep;
+  j["future_return_period"] = a.beyond_annual_maxima_range ? nullptr : finite_or_null(a.future_return_period_yr);
+  j["future_return_period_below"] =
+      a.beyond_annual_maxima_range ? finite_or_null(1.0 / a.rate_lower_bound_per_yr) : nlohmann::ordered_json(nullptr);
+  j["amplification_factor"] = a.beyond_annual_maxima_range ? nullptr : finite_or_null(a.amplification_factor);
+  j["amplification_factor_above"] =
+      a.beyond_annual_maxima_range ? finite_or_null(a.quotable_factor()) : nlohmann::ordered_json(nullptr);
+  j["members_beyond_model_range_fraction"] = a.beyond_range_fraction;
+  j["monte_carlo"] = monte_carlo_json(a.monte_carlo, "");
+  return j;
+}
+
+std::string return_period_text(double t_yr) {
+  if (!std::isfinite(t_yr)) return "never";
+  if (t_yr >= 1e6) return "> 1,000,000";
+  return t_yr >= 100 ? num(t_yr, 0) : num(t_yr, 2);
+}
+
+AmplificationText amplification_text(const planning::Amplification& a) {
+  AmplificationText t;
+  const double below = 1.0 / a.rate_lower_bound_per_yr;
+  t.future_return_period = !a.beyond_annual_maxima_range ? return_period_text(a.future_return_period_yr)
+                           : below <= 1.0                ? "< 1 (more than yearly)"
+                                                         : "< " + return_period_text(below);
+  t.factor = a.present_rate_is_zero           ? "not finite (level above today's upper end point)"
+             : a.beyond_annual_maxima_range   ? "> " + num(a.quotable_factor(), 1)
+                                              : num(a.amplification_factor, 1);
+  return t;
+}
+
+nlohmann::ordered_json design_life_risk_json(const planning::DesignLifeRisk& r) {
+  nlohmann::ordered_json j;
+  j["height_m"] = r.level_m;
+  j["probability"] = r.probability;
+  j["probability_none"] = r.probability_none;
+  j["rounds_to_one"] = r.rounds_to_one;
+  j["monte_carlo"] = monte_carlo_json(r.monte_carlo, "");
+  j["expected_years_with_exceedance"] = r.expected_years_with_exceedance;
+  j["expected_exceedances"] = std::isfinite(r.expected_exceedances) ? nlohmann::ordered_json(r.expected_exceedances)
+                                                                    : nlohmann::ordered_json(nullptr);
+  j["beyond_model_range_fraction"] = r.beyond_range_fraction;
+  return j;
+}
+
+std::string expected_count_heading(const extremes::StillWaterModel& m) {
+  return m.family == extremes::Family::gpd ? "expected exceedances" : "expected years with an exceedance";
+}
+
+double expected_count(const extremes::StillWaterModel& m, const planning::DesignLifeRisk& r) {
+  return m.family == extremes::Family::gpd ? r.expected_exceedances : r.expected_years_with_exceedance;
+}
+
 std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e,
                                 const std::string& members_input) {
   if (!e.few_effective_members()) return "";

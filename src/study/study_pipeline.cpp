@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <chrono>
 #include <limits>
+#include <cctype>
 #include <cmath>
 #include <fstream>
 #include <sstream>
@@ -25,6 +26,12 @@
 
 namespace tidewright::study {
 namespace {
+
+std::string sentence_case(std::string s) {
+  if (!s.empty()) s[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(s[0])));
+  return s;
+}
+
 
 using report::fixed;
 using Json = nlohmann::ordered_json;
@@ -241,9 +248,12 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   report::Table shifts{"return_period_shifts",
                        "How often today's levels will be exceeded: future return period and amplification factor "
                        "N_t(z)/N_0(z), per scenario and year. '< 1' and '> x': the level would be passed more than "
-                       "once a year, beyond what a model of annual maxima can count.",
+                       "once a year, beyond what a model of annual maxima can count (the figure draws the bound x); a "
+                       "peaks-over-threshold fit answers for frequent levels. Members beyond the model: the share of "
+                       "members whose rise takes the level below the fitted lower end point.",
                        {{"Scenario", ""}, {"Year", ""}, {"Level", level_unit}, {"Today's return period", "years"},
-                        {"Future return period", "years"}, {"Amplification factor", ""}},
+                        {"Future return period", "years"}, {"Amplification factor", ""},
+                        {"Members beyond the model", "%"}},
                        {}};
   report::Table emergence{"emergence_years",
                           "First year in which today's level is expected to be exceeded at least once a year.",
@@ -253,9 +263,14 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   const int life_first = c.planning.design_life_start, life_last = c.planning.design_life_end;
   report::Table risk{"design_life_risk",
                      "Probability of at least one exceedance over the design life " + std::to_string(life_first) + "-" +
-                         std::to_string(life_last) + ", from the ensemble members (year-to-year correlation kept).",
+                         std::to_string(life_last) +
+                         ", from the ensemble members (year-to-year correlation kept), with its Monte Carlo error; the "
+                         "expected count (years with an exceedance for a model of annual maxima, which cannot count a "
+                         "second exceedance in a year); and the share of member-years in which the rise takes the "
+                         "height below the fitted model's lower end point (exceeded for certain in that year).",
                      {{"Scenario", ""}, {"Height", level_unit}, {"Probability of exceedance", ""},
-                      {"Expected exceedances", ""}},
+                      {"Monte Carlo error", ""}, {sentence_case(expected_count_heading(fit.present_day)), ""},
+                      {"Member-years beyond the model", "%"}},
                      {}};
   report::Table target{"target_heights",
                        "Height with the target probability of at least one exceedance over the design life.",
@@ -281,18 +296,10 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       const auto cond = planning::conditions_in_year(run.inputs.rise, y, run.inputs.storminess);
       for (double z : follow_levels) {
         const auto am = planning::amplification(fit.present_day, cond, z);
-        // An annual-maxima model says how often a level is the year's highest, not how many times a
-        // year it is passed: beyond one exceedance a year only a bound is honest.
-        const bool beyond = fit.present_day.family != extremes::Family::gpd && am.future_rate_per_yr > 1.0;
-        shifts.add_row({run.settings.name, std::to_string(y), fixed(z, 2), fixed(am.present_return_period_yr, 1),
-                        beyond ? "< 1" : fixed(am.future_return_period_yr, 2),
-                        am.present_rate_is_zero ? "not finite"
-                        : beyond                ? "> " + fixed(1.0 / am.present_rate_per_yr, 1)
-                                                : fixed(am.amplification_factor, 1)});
-        rows.push_back({{"year", y}, {"level", z}, {"present_return_period", am.present_return_period_yr},
-                        {"future_return_period", am.future_return_period_yr},
-                        {"amplification_factor", std::isfinite(am.amplification_factor) ? Json(am.amplification_factor) : Json(nullptr)},
-                        {"beyond_annual_maxima_range", beyond}});
+        const auto text = amplification_text(am);
+        shifts.add_row({run.settings.name, std::to_string(y), fixed(z, 2), return_period_text(am.present_return_period_yr),
+                        text.future_return_period, text.factor, fixed(100.0 * am.beyond_range_fraction, 1)});
+        rows.push_back(amplification_json(am));
       }
     }
     sj["amplification"] = rows;
@@ -310,9 +317,9 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     for (double h : c.planning.levels_of_interest_m) {
       const auto r = planning::design_life_risk(fit.present_day, life, h);
       risk.add_row({run.settings.name, fixed(h, 2), report::probability_text(r.probability, r.rounds_to_one),
-                    fixed(r.expected_exceedances, 3)});
-      rj.push_back({{"height_m", h}, {"probability", r.probability}, {"expected_exceedances", r.expected_exceedances},
-                    {"rounds_to_one", r.rounds_to_one}});
+                    r.monte_carlo.sampled ? fixed(r.monte_carlo.standard_error, 4) : "-",
+                    fixed(expected_count(fit.present_day, r), 3), fixed(100.0 * r.beyond_range_fraction, 2)});
+      rj.push_back(design_life_risk_json(r));
     }
     const auto tl = planning::level_for_design_life_risk(fit.present_day, life, c.planning.target_risk);
     target.add_row({run.settings.name, std::to_string(life_first) + "-" + std::to_string(life_last),
@@ -328,7 +335,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     const double z_design = planning::present_return_level(fit.present_day, design_rp);
     for (double y : plot_years) {
       const auto cond = planning::conditions_in_year(run.inputs.rise, static_cast<int>(y), run.inputs.storminess);
-      af.values.push_back(planning::amplification(fit.present_day, cond, z_design).amplification_factor);
+      af.values.push_back(planning::amplification(fit.present_day, cond, z_design).quotable_factor());
       const auto a = planning::allowance(fit.present_day, cond, design_rp);
       al.values.push_back(a.allowance_m);
       dh.values.push_back(a.present_level_m + a.allowance_m);

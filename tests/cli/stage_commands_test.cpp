@@ -90,14 +90,29 @@ TEST(StageCommands, AmplifyThroughTheCommandsMatchesClosedForm) {
   GumbelCase c;
   const auto json = (c.dir / "am.json").string();
   const auto r = run_cli("amplify --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members) +
-                         " --years 2100 --return-periods 100 --json " + shell_quote(json) + " --quiet");
+                         " --years 2100 --return-periods 100,10000 --json " + shell_quote(json) + " --quiet");
   ASSERT_EQ(r.exit_code, 0) << r.err;
-  const double mean_exp = c.mean_exp();
+  const double mean_exp = c.mean_exp();  // about 245
   const auto j = nlohmann::json::parse(read_all(json));
-  ASSERT_EQ(j["rows"].size(), 1U);
-  EXPECT_NEAR(j["rows"][0]["amplification_factor"].get<double>() / mean_exp, 1.0, 1e-9);
-  EXPECT_NEAR(j["rows"][0]["present_return_period"].get<double>(), 100.0, 1e-6);
-  EXPECT_NEAR(j["rows"][0]["future_return_period"].get<double>(), 100.0 / mean_exp, 1e-6);
+  ASSERT_EQ(j["rows"].size(), 2U);
+  // 10,000 years: every member's N_0(z - Delta_i) = 1e-4 exp(Delta_i/lambda) is at most 0.3 a
+  // year, inside what an annual-maxima model can count: AF = mean exp(Delta/lambda) exactly.
+  const auto& inside = j["rows"][1];
+  EXPECT_FALSE(inside["beyond_annual_maxima_range"].get<bool>());
+  EXPECT_NEAR(inside["amplification_factor"].get<double>() / mean_exp, 1.0, 1e-9);
+  EXPECT_NEAR(inside["present_return_period"].get<double>(), 10000.0, 1e-4);
+  EXPECT_NEAR(inside["future_return_period"].get<double>(), 10000.0 / mean_exp, 1e-6);
+  // 100 years: members with 0.01 exp(Delta_i/lambda) > 1 a year can only be counted as at
+  // least one exceedance a year, so the row gives bounds from L = mean min(0.01 exp(Delta_i/lambda), 1).
+  double bound = 0.0;
+  for (double d : c.delta) bound += std::min(0.01 * std::exp(d / c.lambda), 1.0) / static_cast<double>(c.delta.size());
+  const auto& beyond = j["rows"][0];
+  EXPECT_TRUE(beyond["beyond_annual_maxima_range"].get<bool>());
+  EXPECT_TRUE(beyond["amplification_factor"].is_null());
+  EXPECT_NEAR(beyond["amplification_factor_above"].get<double>(), bound / 0.01, 1e-6);
+  EXPECT_TRUE(beyond["future_return_period"].is_null());
+  EXPECT_NEAR(beyond["future_return_period_below"].get<double>(), 1.0 / bound, 1e-9);
+  EXPECT_DOUBLE_EQ(beyond["members_beyond_model_range_fraction"].get<double>(), 0.0);
 }
 
 TEST(StageCommands, ProjectWritesContractAndMembersThatAllowanceReads) {

@@ -76,3 +76,32 @@ TEST(Emergence, GumbelLinearRiseReachesAnnualInClosedFormYear) {
   EXPECT_FALSE(emergence_year(m, years, z100, 1e6).year.has_value());
   EXPECT_THROW((void)emergence_year(m, years, z100, 0.0), tidewright::InputError);
 }
+
+// A member whose rise takes the level below an annual-maxima model's lower end point
+// (GEV(2, 0.15, 0.3) ends at 1.5 m, Coles 2001 §3.1.1) makes N_t infinite: the row is beyond
+// the model's range, the share of such members is stated, and the quotable factor is the
+// bound L/N_0 with L = mean min(N_0(z - delta_i), 1), never inf; here N_0(2.0) = 1 and the
+// members at 0.1 and 0.2 m rise have N_0 > 1, so L = 1.
+TEST(Amplification, MembersBeyondTheLowerEndPointGiveABoundNotInfinity) {
+  const tidewright::extremes::StillWaterModel m = tidewright::testing::gev(2.0, 0.15, 0.3);
+  Eigen::VectorXd d(4);
+  d << 0.0, 0.1, 0.2, 0.6;
+  const YearConditions c{2100, RiseDistribution::members(d), {}};
+  const Amplification a = amplification(m, c, 2.0);
+  EXPECT_TRUE(a.beyond_annual_maxima_range);
+  EXPECT_DOUBLE_EQ(a.beyond_range_fraction, 0.25);
+  EXPECT_TRUE(std::isinf(a.amplification_factor));
+  EXPECT_NEAR(a.quotable_factor(), 1.0, 1e-12);
+  // Without that member the row is inside the range and the factor is N_t/N_0 itself.
+  const Eigen::VectorXd inside = d.head(3);
+  const Amplification b = amplification(m, YearConditions{2100, RiseDistribution::members(inside), {}}, 3.0);
+  EXPECT_FALSE(b.beyond_annual_maxima_range);
+  EXPECT_DOUBLE_EQ(b.beyond_range_fraction, 0.0);
+  EXPECT_DOUBLE_EQ(b.quotable_factor(), b.amplification_factor);
+  EXPECT_TRUE(b.monte_carlo.sampled);
+  // Today's AEP and the future one, the expected share of years with an exceedance.
+  EXPECT_NEAR(b.present_aep, -std::expm1(-m.annual_exceedance_rate(3.0)), 1e-15);
+  double aep = 0.0;
+  for (double x : {0.0, 0.1, 0.2}) aep += -std::expm1(-m.annual_exceedance_rate(3.0 - x)) / 3.0;
+  EXPECT_NEAR(b.future_aep, aep, 1e-15);
+}

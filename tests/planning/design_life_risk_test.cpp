@@ -115,3 +115,25 @@ TEST(DesignLifeRisk, RefusesMismatchedPaths) {
   years[1] = {2033, RiseDistribution::members(Eigen::VectorXd::Zero(3)), {}};
   EXPECT_THROW((void)design_life_risk(m, years, 2.5), tidewright::InputError);
 }
+
+// An annual-maxima model with xi > 0 has a lower end point mu - sigma/xi (Coles 2001, §3.1.1):
+// GEV(2, 0.15, 0.3) ends at 1.5 m. Of two members, one rises 0.6 m in every year, taking a
+// height of 2.0 m below that end point (N_0 infinite: exceeded for certain each year); the
+// other does not rise. Over 10 years the expected number of years with an exceedance is
+// (10 + 10 (1 - exp(-N_0(2.0))))/2 with N_0(2.0) = 1, the share of member-years beyond the
+// model 0.5, and the rate sum is infinite (not reported as a number).
+TEST(DesignLifeRisk, BeyondAnAnnualMaximaModelsRangeCountsYearsNotRates) {
+  const StillWaterModel m = gev(2.0, 0.15, 0.3);
+  Eigen::MatrixXd rise(2, 2);
+  rise << 0.6, 0.6, 0.0, 0.0;
+  const auto years = conditions_over_years(ensemble({2020, 2100}, rise), 2030, 2039);
+  const DesignLifeRisk r = design_life_risk(m, years, 2.0);
+  EXPECT_NEAR(m.annual_exceedance_rate(2.0), 1.0, 1e-15);
+  EXPECT_NEAR(r.expected_years_with_exceedance, 0.5 * (10.0 + 10.0 * -std::expm1(-1.0)), 1e-12);
+  EXPECT_DOUBLE_EQ(r.beyond_range_fraction, 0.5);
+  EXPECT_TRUE(std::isinf(r.expected_exceedances));
+  EXPECT_NEAR(r.probability, 0.5 * (1.0 + -std::expm1(-10.0)), 1e-12);
+  // Two members: the probability's Monte Carlo error is that of a mean of two values.
+  ASSERT_TRUE(r.monte_carlo.sampled);
+  EXPECT_NEAR(r.monte_carlo.standard_error, 0.5 * std::exp(-10.0), 1e-12);
+}

@@ -15,6 +15,7 @@
 
 #include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/planning/future_exceedance.hpp"
+#include "tidewright/planning/monte_carlo_error.hpp"
 
 namespace tidewright::planning {
 
@@ -29,6 +30,22 @@ struct Amplification {
   // True when z lies above the fitted distribution's upper end point today (N_0 = 0), so the
   // factor is not a finite number; say so rather than print it.
   bool present_rate_is_zero = false;
+  // An annual-maxima model (Gumbel, GEV) states how likely a year's highest level is to pass z,
+  // not how many times a year z is passed. Where a member's N_0(z - delta_i) exceeds 1 a year
+  // (infinite where its rise takes z below the model's lower end point), its count is known only
+  // to be at least 1, so only bounds are honest: N_t >= L = sum_i w_i min(N_0(z - delta_i), 1),
+  // a future return period under 1/L and a factor above L/N_0. The one place this rule lives.
+  bool beyond_annual_maxima_range = false;
+  double beyond_range_fraction = 0.0;  // weight of the members with N_0(z - delta_i) infinite
+  double rate_lower_bound_per_yr = 0.0;  // L (= N_t when inside the range)
+  // AEP in year t, sum_i w_i (1 - exp(-N_0(z - delta_i))): the expected share of years with an
+  // exceedance, finite for every model; and today's, 1 - exp(-N_0(z)).
+  double future_aep = 0.0;
+  double present_aep = 0.0;
+  // The factor to quote and plot: N_t/N_0, or its bound L/N_0 beyond the annual-maxima range
+  // (so a table's "> 10" and a figure's 10 agree); NaN where N_0 = 0.
+  [[nodiscard]] double quotable_factor() const;
+  MonteCarloError monte_carlo;  // of amplification_factor (N_t's error / N_0)
 };
 
 [[nodiscard]] Amplification amplification(const extremes::StillWaterModel& present,

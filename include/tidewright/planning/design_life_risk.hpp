@@ -14,6 +14,7 @@
 
 #include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/planning/future_exceedance.hpp"
+#include "tidewright/planning/monte_carlo_error.hpp"
 
 namespace tidewright::planning {
 
@@ -23,7 +24,15 @@ struct DesignLifeRisk {
   double level_m = 0.0;
   double probability = 0.0;           // P, at least one exceedance
   double probability_none = 1.0;      // Q = 1 - P, computed as E[exp(-S)]
-  double expected_exceedances = 0.0;  // E[S], sum over the years of N_t(H)
+  double expected_exceedances = 0.0;  // E[S], sum over the years of N_t(H); +inf when a member
+                                      // takes H beyond an annual-maxima model's range
+  // E[sum_t (1 - exp(-N_t(H)))]: the expected number of years with at least one exceedance,
+  // what an annual-maxima model can state (it cannot count a second exceedance in a year).
+  double expected_years_with_exceedance = 0.0;
+  // Share of member-years in which H lies below the lower end point of an annual-maxima model
+  // with xi > 0 after the rise (N_0 infinite: exceeded for certain that year).
+  double beyond_range_fraction = 0.0;
+  MonteCarloError monte_carlo;  // of `probability`
   // True when P rounds to 1 in double precision (Q below half an ulp of 1): quote
   // "P > 1 - probability_none" or probability_none itself, never a bare 1.
   bool rounds_to_one = false;

@@ -65,6 +65,29 @@ struct AllowanceRow {
 // {"standard_error", "effective_sample_size", "heaviest_member_share"}, or null for quadrature
 // nodes (no sampling error); `unit` names the standard error's key suffix ("m", "" for a ratio).
 [[nodiscard]] nlohmann::ordered_json monte_carlo_json(const planning::MonteCarloError& e, const std::string& unit);
+// One amplification row as JSON, the same shape in `amplify` and the study: return periods and
+// factor as numbers or null (never inf), the annual-maxima bound flags, the factor's bound and
+// Monte Carlo error, the share of members beyond the model's range.
+[[nodiscard]] nlohmann::ordered_json amplification_json(const planning::Amplification& a);
+// A return period as printed: "never" when infinite, "> 1,000,000" beyond, 0 or 2 decimals.
+[[nodiscard]] std::string return_period_text(double t_yr);
+// The printed future return period and factor of a row, with the bounds spelled out.
+struct AmplificationText {
+  std::string future_return_period;
+  std::string factor;
+};
+[[nodiscard]] AmplificationText amplification_text(const planning::Amplification& a);
+
+// One design-life risk row as JSON: probability (with its Monte Carlo error), the expected
+// number of years with an exceedance, the expected exceedances (null where a member takes the
+// height beyond an annual-maxima model's range) and the share of member-years beyond it.
+[[nodiscard]] nlohmann::ordered_json design_life_risk_json(const planning::DesignLifeRisk& r);
+// The column a design-life table shows for a model: "expected years with an exceedance" for
+// annual maxima (which cannot count a second exceedance in a year), "expected exceedances"
+// for peaks over threshold; and its value for one row.
+[[nodiscard]] std::string expected_count_heading(const extremes::StillWaterModel& m);
+[[nodiscard]] double expected_count(const extremes::StillWaterModel& m, const planning::DesignLifeRisk& r);
+
 // The warning for a figure resting on few effective members (monte_carlo_error.hpp), or "";
 // `members_input` names where the member count is set (the command's flag or a site-file key).
 [[nodiscard]] std::string few_members_warning(const std::string& figure, const planning::MonteCarloError& e,
