@@ -63,7 +63,8 @@ void configure(CLI::App& app, CommonOptions& common) {
     report::TextTable t(head);
     std::ostringstream csv;
     csv << "year,return_period_yr,present_level_m,allowance_m,allowance_se_m,effective_members,heaviest_member_share,"
-           "design_level_m,mean_rise_m,sd_rise_m,allowance_rise_cut_p99_9_m,allowance_rise_cut_p99_m,method\n";
+           "design_level_m,mean_rise_m,sd_rise_m,allowance_rise_cut_p99_9_m,allowance_rise_cut_p99_m,"
+           "members_beyond_model_range_fraction,method\n";
     for (const auto& r : rows) {
       const auto& al = r.allowance;
       const auto& mc = al.monte_carlo;
@@ -84,7 +85,8 @@ void configure(CLI::App& app, CommonOptions& common) {
       }
       csv << report::fixed(al.present_level_m + al.allowance_m, 4) << ','
           << report::fixed(al.mean_rise_m, 4) << ',' << report::fixed(al.sd_rise_m, 4) << ','
-          << report::fixed(r.cut_at_p999_m, 4) << ',' << report::fixed(r.cut_at_p99_m, 4) << ',' << al.method << '\n';
+          << report::fixed(r.cut_at_p999_m, 4) << ',' << report::fixed(r.cut_at_p99_m, 4) << ','
+          << al.beyond_range_fraction << ',' << al.method << '\n';
     }
     o << t.render();
     o << "\nHow much is the top of the rise distribution (allowance with the rise cut at a percentile):\n";

@@ -168,6 +168,16 @@ Allowance solve(const extremes::StillWaterModel& present, std::span<const YearCo
                 const PooledRise& pooled, double level_m, const AllowanceOptions& options) {
   Allowance a = solve_root(present, years, pooled, level_m, options);
   a.monte_carlo = allowance_error(present, years, level_m + a.allowance_m);
+  double beyond = 0.0;
+  std::vector<double> rates;
+  for (const auto& c : years) {
+    rates.resize(c.rise.size());
+    node_rates(present, c, level_m, rates);
+    for (std::size_t i = 0; i < rates.size(); ++i) {
+      if (!std::isfinite(rates[i])) beyond += c.rise.weight[i];
+    }
+  }
+  a.beyond_range_fraction = beyond / static_cast<double>(years.size());
   return a;
 }
 

@@ -280,6 +280,16 @@ nlohmann::ordered_json allowance_json(const PlanningInputs& in, const std::vecto
     a["sd_rise_m"] = r.allowance.sd_rise_m;
     a["method"] = r.allowance.method;
     a["monte_carlo"] = monte_carlo_json(r.allowance.monte_carlo, "m");
+    a["members_beyond_model_range_fraction"] = r.allowance.beyond_range_fraction;
+    if (r.allowance.beyond_range_fraction > 0.0) {
+      warnings.push_back("in " + std::to_string(r.allowance.first_year) + ", " +
+                         num(100.0 * r.allowance.beyond_range_fraction, 1) + " % of the members take today's " +
+                         num(r.allowance.return_period_yr, 0) +
+                         "-year level below the fitted model's lower end point, so the " +
+                         num(r.allowance.return_period_yr, 0) +
+                         "-year allowance is set by lifting them back into its range (it can exceed a longer "
+                         "return period's); fit peaks over a threshold where frequent levels matter");
+    }
     a["tail_sensitivity"] = {{"rise_cut_at_p99_9_m", r.cut_at_p999_m}, {"rise_cut_at_p99_m", r.cut_at_p99_m}};
     const std::string w = few_members_warning(
         "the " + num(r.allowance.return_period_yr, 0) + "-year allowance in " + std::to_string(r.allowance.first_year),

@@ -292,3 +292,20 @@ TEST(MonotoneRoot, HalleyFindsRootAndFallsBack) {
   };
   EXPECT_NEAR(solve_non_increasing_halley(jump, 0.0, 0.0, 3.0, 1e-12, 0.0, "test").x, 1.0, 1e-11);
 }
+
+// GEV(2, 0.15, 0.3) ends at 1.5 m (Coles 2001, §3.1.1): a member rising 0.6 m takes a 2.0 m
+// level out of the model's range, the root lifts it back (A >= 0.6 - 0.5 = 0.1 m), and the row
+// says which share of members did that.
+TEST(Allowance, MembersBeyondTheLowerEndPointAreCounted) {
+  const StillWaterModel m = gev(2.0, 0.15, 0.3);
+  Eigen::VectorXd d(4);
+  d << 0.0, 0.05, 0.1, 0.6;
+  const Allowance a = allowance_at_level(m, YearConditions{2100, RiseDistribution::members(d), {}}, 2.0);
+  EXPECT_DOUBLE_EQ(a.beyond_range_fraction, 0.25);
+  EXPECT_GT(a.allowance_m, 0.1);
+  Eigen::VectorXd inside(3);
+  inside << 0.0, 0.05, 0.1;
+  EXPECT_DOUBLE_EQ(allowance_at_level(m, YearConditions{2100, RiseDistribution::members(inside), {}}, 2.0)
+                       .beyond_range_fraction,
+                   0.0);
+}

@@ -44,6 +44,10 @@ struct Allowance {
   // Of the allowance (m), from the members' rates at z + A carried through the root:
   // SE(A) = SE(sum_t N_t) / |d/dA sum_t N_t| (monte_carlo_error.hpp).
   MonteCarloError monte_carlo;
+  // Share of members (member-years over a design life) whose rise takes today's level below
+  // the lower end point of an annual-maxima model with xi > 0 (N_0 infinite): the root then has
+  // to lift every such member back into the model's range, so they, not the rest, set A.
+  double beyond_range_fraction = 0.0;
 };
 
 // Hunter (2012) closed form for Gumbel scale lambda and normal Delta: mu + sigma^2/(2 lambda).
