@@ -45,8 +45,8 @@ void configure(CLI::App& app, CommonOptions& common) {
   add_quiet_flag(app, common);
 
   app.callback([a, &common] {
-    if (!a->json.empty()) check_output_path(a->json, common.force, "--json");
-    if (!a->csv.empty()) check_output_path(a->csv, common.force, "--csv");
+    const std::vector<DataOutput> outputs{{a->json, "--json"}, {a->csv, "--csv"}};
+    check_data_outputs(outputs, common.force);
     if ((!a->heights.empty() || a->target_risk) && a->design_life.empty()) {
       throw InputError("--heights/--target-risk", "need a design life", "add --design-life FIRST-LAST");
     }
@@ -141,9 +141,9 @@ void configure(CLI::App& app, CommonOptions& common) {
     for (const auto& w : j["warnings"]) std::cerr << "tidewright: warning: " << w.get<std::string>() << "\n";
     o << "Planning estimates of still water only; a licensed coastal engineer must review them against local codes "
          "and datums.\n";
-    if (!a->json.empty()) write_json_file(a->json, j, common.force, "--json");
-    if (!a->csv.empty()) write_text_file(a->csv, csv.str(), common.force, "--csv");
-    if (!common.quiet) std::cout << o.str();
+    write_data_output(outputs[0], j, common.force);
+    write_data_output(outputs[1], csv.str(), common.force);
+    if (!common.quiet) summary_stream(outputs) << o.str();
   });
 }
 

@@ -41,8 +41,8 @@ void configure(CLI::App& app, CommonOptions& common) {
   add_quiet_flag(app, common);
 
   app.callback([a, &common] {
-    if (!a->json.empty()) check_output_path(a->json, common.force, "--json");
-    if (!a->csv.empty()) check_output_path(a->csv, common.force, "--csv");
+    const std::vector<DataOutput> outputs{{a->json, "--json"}, {a->csv, "--csv"}};
+    check_data_outputs(outputs, common.force);
     if (!a->plot.empty()) check_plot_path(a->plot, common.force);
     std::vector<double> periods = a->periods;
     if (periods.empty() && a->levels.empty()) periods = {10.0, 100.0};
@@ -119,8 +119,8 @@ void configure(CLI::App& app, CommonOptions& common) {
     for (const auto& n : in.notes) o << "note: " << n << "\n";
     o << "Planning estimates of still water only; a licensed coastal engineer must review them against local codes "
          "and datums.\n";
-    if (!a->json.empty()) write_json_file(a->json, j, common.force, "--json");
-    if (!a->csv.empty()) write_text_file(a->csv, csv.str(), common.force, "--csv");
+    write_data_output(outputs[0], j, common.force);
+    write_data_output(outputs[1], csv.str(), common.force);
     if (!a->plot.empty()) {
       std::vector<double> years;
       for (int y = in.rise.years.front(); y <= in.rise.years.back(); ++y) years.push_back(y);
@@ -136,7 +136,7 @@ void configure(CLI::App& app, CommonOptions& common) {
       }
       write_plot(report::amplification_plot(years, series), a->plot, common.force);
     }
-    if (!common.quiet) std::cout << o.str();
+    if (!common.quiet) summary_stream(outputs) << o.str();
   });
 }
 

@@ -1,6 +1,10 @@
 #include "command.hpp"
 
 #include <algorithm>
+#include <iostream>
+
+#include "tidewright/common/atomic_output.hpp"
+#include "tidewright/common/error.hpp"
 
 namespace tidewright::cli {
 namespace {
@@ -38,12 +42,51 @@ CLI::Option* add_seed_option(CLI::App& app, unsigned long long& seed) {
 }
 
 CLI::Option* add_json_option(CLI::App& app, std::string& path) {
-  return app.add_option("--json", path, "Write the full result as JSON to FILE")
+  return app.add_option("--json", path, "Write the full result as JSON to FILE ('-': standard output)")
       ->type_name("FILE");
 }
 
 CLI::Option* add_csv_option(CLI::App& app, std::string& path) {
-  return app.add_option("--csv", path, "Write the result table as CSV to FILE")->type_name("FILE");
+  return app.add_option("--csv", path, "Write the result table as CSV to FILE ('-': standard output)")
+      ->type_name("FILE");
+}
+
+void check_data_outputs(const std::vector<DataOutput>& outputs, bool force) {
+  const char* to_stdout = nullptr;
+  for (const auto& o : outputs) {
+    if (o.path.empty()) continue;
+    if (o.path == stdout_name) {
+      if (to_stdout != nullptr) {
+        throw InputError(o.option, "sends a second output to standard output after " + std::string(to_stdout),
+                         "give one of them a file name");
+      }
+      to_stdout = o.option;
+      continue;
+    }
+    check_output_path(o.path, force, o.option);
+  }
+}
+
+void write_data_output(const DataOutput& output, const std::string& text, bool force) {
+  if (output.path.empty()) return;
+  if (output.path == stdout_name) {
+    std::cout << text << std::flush;
+    return;
+  }
+  write_text_file(output.path, text, force, output.option);
+}
+
+void write_data_output(const DataOutput& output, const nlohmann::ordered_json& value, bool force) {
+  if (output.path == stdout_name) {
+    write_data_output(output, value.dump(2) + "\n", force);
+    return;
+  }
+  if (!output.path.empty()) write_json_file(output.path, value, force, output.option);
+}
+
+std::ostream& summary_stream(const std::vector<DataOutput>& outputs) {
+  const bool piped = std::any_of(outputs.begin(), outputs.end(), [](const DataOutput& o) { return o.path == stdout_name; });
+  return piped ? std::cerr : std::cout;
 }
 
 CLI::Option* add_out_dir_option(CLI::App& app, std::string& path) {

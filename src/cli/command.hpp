@@ -5,6 +5,8 @@
 
 #include <CLI/CLI.hpp>
 #include <functional>
+#include <nlohmann/json.hpp>
+#include <ostream>
 #include <string>
 #include <vector>
 
@@ -35,6 +37,21 @@ CLI::Option* add_seed_option(CLI::App& app, unsigned long long& seed);  // defau
 CLI::Option* add_json_option(CLI::App& app, std::string& path);
 CLI::Option* add_csv_option(CLI::App& app, std::string& path);
 CLI::Option* add_out_dir_option(CLI::App& app, std::string& path);
+
+// Data outputs (--json, --csv) given as "-" go to standard output, so they can be piped; the
+// printed summary then goes to standard error (unless --quiet). At most one output can be "-".
+inline constexpr const char* stdout_name = "-";
+struct DataOutput {
+  std::string path;
+  const char* option;
+};
+// check_output_path for each given output, "-" accepted; InputError when two are "-".
+void check_data_outputs(const std::vector<DataOutput>& outputs, bool force);
+// Writes to the file (atomically) or, for "-", to standard output.
+void write_data_output(const DataOutput& output, const std::string& text, bool force);
+void write_data_output(const DataOutput& output, const nlohmann::ordered_json& value, bool force);
+// Where the human summary goes: standard error when one of the outputs is "-".
+[[nodiscard]] std::ostream& summary_stream(const std::vector<DataOutput>& outputs);
 
 // The seed used when --seed is not given, so that two runs agree by default.
 inline constexpr unsigned long long default_seed = 20261201ULL;

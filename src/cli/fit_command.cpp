@@ -43,7 +43,7 @@ std::string interval_text(const extremes::ReturnLevel& l) {
   return "[" + end(l.lower_m) + ", " + end(l.upper_m) + "]";
 }
 
-void print_result(const study::FitStageResult& r, const FitArgs& a) {
+void print_result(const study::FitStageResult& r, const FitArgs& a, std::ostream& out) {
   std::ostringstream o;
   o << "tidewright fit: " << r.source << "\n";
   std::istringstream summary(r.data_summary);
@@ -99,9 +99,9 @@ void print_result(const study::FitStageResult& r, const FitArgs& a) {
   for (const auto& w : r.warnings) o << "warning: " << w << "\n";
   o << "Planning estimates of still water only; a licensed coastal engineer must review them "
        "against local codes and datums (tidewright --help lists the cautions).\n";
-  if (!a.json.empty()) o << "Wrote " << a.json << "\n";
+  if (!a.json.empty() && a.json != stdout_name) o << "Wrote " << a.json << "\n";
   if (!a.plot.empty()) o << "Wrote " << a.plot << "\n";
-  std::cout << o.str();
+  out << o.str();
 }
 
 void configure(CLI::App& app, CommonOptions& common) {
@@ -153,7 +153,8 @@ void configure(CLI::App& app, CommonOptions& common) {
 
   app.callback([args, &common] {
     const FitArgs& a = *args;
-    if (!a.json.empty()) check_output_path(a.json, common.force, "--json");
+    const std::vector<DataOutput> outputs{{a.json, "--json"}};
+    check_data_outputs(outputs, common.force);
     if (!a.plot.empty()) check_plot_path(a.plot, common.force);
     study::FitRequest req;
     req.input = a.input;
@@ -186,9 +187,9 @@ void configure(CLI::App& app, CommonOptions& common) {
     req.bootstrap_samples = a.bootstrap;
     req.seed = a.seed;
     const auto result = study::run_fit_stage(req);
-    if (!a.json.empty()) write_json_file(a.json, study::fit_result_json(result), common.force, "--json");
+    if (!a.json.empty()) write_data_output(outputs[0], study::fit_result_json(result), common.force);
     if (!a.plot.empty()) write_plot(report::return_level_plot(study::return_level_plot_input(result)), a.plot, common.force);
-    if (!common.quiet) print_result(result, a);
+    if (!common.quiet) print_result(result, a, summary_stream(outputs));
   });
 }
 

@@ -30,7 +30,7 @@ struct ProjectArgs {
   std::string json, csv, members, plot;
 };
 
-void print_result(const study::ProjectionStageResult& r) {
+void print_result(const study::ProjectionStageResult& r, std::ostream& out) {
   const auto& t = r.local.total;
   std::ostringstream o;
   o << "tidewright project: scenario '" << t.scenario << "'" << (t.illustrative ? " (illustrative)" : "") << ", "
@@ -53,7 +53,7 @@ void print_result(const study::ProjectionStageResult& r) {
   o << "Local relative sea-level rise (m):\n" << table.render();
   for (const auto& c : r.cautions) o << "note: " << c << "\n";
   o << "Planning estimates; a licensed coastal engineer must review them against local codes and datums.\n";
-  std::cout << o.str();
+  out << o.str();
 }
 
 void configure(CLI::App& app, CommonOptions& common) {
@@ -104,9 +104,9 @@ void configure(CLI::App& app, CommonOptions& common) {
       std::cout << "Built-in illustrative pathways (not official scenario data):\n" << t.render();
       return;
     }
-    for (const auto& [path, opt] : {std::pair{a->json, "--json"}, {a->csv, "--csv"}, {a->members, "--members"}}) {
-      if (!path.empty()) check_output_path(path, common.force, opt);
-    }
+    const std::vector<DataOutput> outputs{{a->json, "--json"}, {a->csv, "--csv"}};
+    check_data_outputs(outputs, common.force);
+    if (!a->members.empty()) check_output_path(a->members, common.force, "--members");
     if (!a->plot.empty()) check_plot_path(a->plot, common.force);
     study::ProjectionRequest r;
     r.label = a->label;
@@ -144,13 +144,13 @@ void configure(CLI::App& app, CommonOptions& common) {
     r.local.land_motion.uplift_sd_mm_per_yr = a->land_motion_sd;
     r.local_terms_given = !a->fingerprints.empty() || a->land_motion != 0.0 || a->land_motion_sd != 0.0;
     const auto result = study::run_projection_stage(r);
-    if (!a->json.empty()) write_json_file(a->json, study::projection_json(result), common.force, "--json");
-    if (!a->csv.empty()) write_text_file(a->csv, study::projection_csv(result), common.force, "--csv");
+    if (!a->json.empty()) write_data_output(outputs[0], study::projection_json(result), common.force);
+    if (!a->csv.empty()) write_data_output(outputs[1], study::projection_csv(result), common.force);
     if (!a->members.empty()) study::write_members_csv(a->members, result.local.total, common.force);
     if (!a->plot.empty()) {
       write_plot(report::projection_fan_chart(study::fan_chart_input(result, result.local.total)), a->plot, common.force);
     }
-    if (!common.quiet) print_result(result);
+    if (!common.quiet) print_result(result, summary_stream(outputs));
   });
 }
 

@@ -219,3 +219,21 @@ TEST(StageCommands, ProjectionInputsOutsideThePhysicalRangeNeedAcceptExtreme) {
   const auto inside = run_cli(base + shell_quote((tmp / "c.json").string()));
   EXPECT_EQ(inside.exit_code, 0) << inside.err;
 }
+
+// "-" sends a data output to standard output, the summary then goes to standard error; two
+// outputs cannot both be "-".
+TEST(StageCommands, DashWritesADataOutputToStandardOutput) {
+  GumbelCase c;
+  const std::string base = "allowance --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members) +
+                           " --years 2100 --return-periods 100";
+  const auto csv = run_cli(base + " --csv -");
+  ASSERT_EQ(csv.exit_code, 0) << csv.err;
+  EXPECT_THAT(csv.out, ::testing::StartsWith("year,return_period_yr,present_level_m,allowance_m,"));
+  EXPECT_EQ(count_lines(csv.out), 2U);
+  EXPECT_THAT(csv.err, HasSubstr("tidewright allowance:"));
+  const auto json = run_cli(base + " --json - --quiet");
+  ASSERT_EQ(json.exit_code, 0) << json.err;
+  EXPECT_NEAR(nlohmann::json::parse(json.out)["allowances"][0]["allowance_m"].get<double>(),
+              c.lambda * std::log(c.mean_exp()), 1e-9);
+  expect_one_line_error(run_cli(base + " --json - --csv -"), "--csv: sends a second output to standard output");
+}
