@@ -26,6 +26,7 @@ struct FitArgs {
   double min_completeness = record::default_min_completeness;
   int year_start_month = 1;
   std::string detrend = "none";
+  bool accept_implausible = false;
   std::optional<double> epoch;
   std::optional<double> threshold_m;
   std::optional<double> threshold_quantile;
@@ -130,6 +131,8 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--year-start-month", args->year_start_month, "Series: month in which a year starts (1-12)")
       ->check(CLI::Range(1, 12))
       ->default_val(1);
+  app.add_flag("--accept-implausible-levels", args->accept_implausible,
+               "Read levels over 20 m from the record's median, or a column named in another unit, on purpose");
   app.add_option("--detrend", args->detrend, "Series: remove the mean-sea-level trend: none, annual-mean, linear")
       ->check(CLI::IsMember({"none", "annual-mean", "linear"}))
       ->default_str("none");
@@ -170,6 +173,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     req.read.datum = a.datum;
     for (const auto& m : a.missing) req.read.missing.markers.push_back(m);
     req.read.missing.sentinels = a.sentinels;
+    req.read.accept_implausible_levels = a.accept_implausible;
     req.maxima.min_completeness = a.min_completeness;
     req.maxima.year_start_month = a.year_start_month;
     req.maxima.detrend = record::parse_detrend_method(a.detrend, "--detrend");

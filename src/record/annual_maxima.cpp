@@ -6,6 +6,7 @@
 
 #include "prepared_record.hpp"
 #include "tidewright/common/error.hpp"
+#include "tidewright/record/level_plausibility.hpp"
 
 namespace tidewright::record {
 namespace {
@@ -23,6 +24,7 @@ AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
   am.datum = options.datum;
   am.source = table.source();
   std::map<int, std::size_t> line_of_year;
+  std::vector<std::size_t> value_lines;
   int previous_year = 0;
   std::size_t previous_line = 0;
   for (const auto& row : table.rows()) {
@@ -91,6 +93,7 @@ AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
     }
     am.years.push_back(year);
     am.level_m.push_back(values.front());
+    value_lines.push_back(row.line);
     if (r_largest) am.r_largest_m.push_back(std::move(values));
   }
   am.cleaning.values_kept = am.level_m.size();
@@ -102,6 +105,7 @@ AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
                      "give at least 2 years (an extreme-value fit needs " +
                          std::to_string(minimum_maxima_gumbel) + " or more)");
   }
+  check_level_plausibility(am.level_m, value_lines, table.source(), options);
   const auto [lo, hi] = std::minmax_element(am.level_m.begin(), am.level_m.end());
   if (*lo == *hi) {
     throw InputError(table.source(),

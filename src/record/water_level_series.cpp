@@ -4,6 +4,7 @@
 
 #include "prepared_record.hpp"
 #include "tidewright/common/error.hpp"
+#include "tidewright/record/level_plausibility.hpp"
 #include "tidewright/record/timestamp.hpp"
 
 namespace tidewright::record {
@@ -74,6 +75,7 @@ WaterLevelSeries from_table(const CsvTable& table, const ReadOptions& options) {
                          " sentinels): too few values for a water-level series",
                      "give a series of at least 2 levels (years of data for an extreme-value fit)");
   }
+  check_level_plausibility(s.level_m, s.line, table.source(), options);
   const auto [lo, hi] = std::minmax_element(s.level_m.begin(), s.level_m.end());
   if (*lo == *hi) {
     throw InputError(table.source(),

@@ -59,6 +59,7 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
   c.record.units = rec->choice("units", {"m", "cm", "mm", "ft"}, "m");
   c.record.missing_markers = rec->strings("missing_markers");
   c.record.sentinels = rec->numbers("sentinels");
+  c.record.accept_implausible_levels = rec->optional_boolean("accept_implausible_levels").value_or(false);
   if (auto v = rec->optional_number("min_completeness")) {
     require(*v > 0.0 && *v <= 1.0, *rec, "min_completeness", "must lie in (0, 1]", "give a fraction such as 0.75");
     c.record.min_completeness = *v;

@@ -70,6 +70,7 @@ FitRequest fit_request(const SiteConfig& c) {
   r.read.datum = c.site.datum;
   for (const auto& m : c.record.missing_markers) r.read.missing.markers.push_back(m);
   r.read.missing.sentinels = c.record.sentinels;
+  r.read.accept_implausible_levels = c.record.accept_implausible_levels;
   r.model = c.extremes.model;
   r.return_periods_yr = c.extremes.return_periods_yr;
   const auto method = record::parse_detrend_method(c.record.detrend == "annual_mean" ? "annual-mean" : c.record.detrend,

@@ -24,6 +24,9 @@ struct ReadOptions {
   // compared with the value as written in the file, before unit conversion.
   MissingValues missing;
   CsvOptions csv;
+  // Read levels far from the record's median, or a column named in another unit, on purpose
+  // (level_plausibility.hpp).
+  bool accept_implausible_levels = false;
 };
 
 // Metres per unit: m 1, cm 0.01, mm 0.001, ft 0.3048 (the international foot, exact by the

@@ -28,6 +28,7 @@ struct RecordSettings {
   std::string units = "m";
   std::vector<std::string> missing_markers;  // in addition to the reader's defaults
   std::vector<double> sentinels;             // e.g. -99
+  bool accept_implausible_levels = false;    // record::ReadOptions, level_plausibility.hpp
   double min_completeness = 0.75;  // Slangen et al. (2017): years > 75 % complete
   int year_start_month = 1;
   std::string detrend = "linear";  // "none", "annual_mean", "linear"
