@@ -39,8 +39,7 @@ void print_result(const study::ProjectionStageResult& r, std::ostream& out) {
   for (const auto& c : r.local.component_names) head.push_back(c + " (median)");
   report::TextTable table(head);
   const std::vector<double> ps{0.05, 0.17, 0.5, 0.83, 0.95};
-  std::vector<std::vector<double>> q;
-  for (double p : ps) q.push_back(study::year_quantiles(t.rise_m, p));
+  const std::vector<std::vector<double>> q = study::year_quantiles(t.rise_m, ps);
   std::vector<std::vector<double>> comp;
   for (const auto& m : r.local.contribution_m) comp.push_back(study::year_quantiles(m, 0.5));
   for (std::size_t y = 0; y < t.years.size(); ++y) {

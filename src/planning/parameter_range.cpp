@@ -7,18 +7,10 @@
 #include <vector>
 
 #include "tidewright/common/error.hpp"
+#include "tidewright/common/sample_quantile.hpp"
 
 namespace tidewright::planning {
 namespace {
-
-// Sample quantile, Hyndman & Fan (1996) type 7: x_(floor h) + (h - floor h)(x_(floor h + 1) - x_(floor h)),
-// h = (n - 1) p, on sorted values.
-double sample_quantile(const std::vector<double>& sorted, double p) {
-  const double h = (static_cast<double>(sorted.size()) - 1.0) * p;
-  const auto lo = static_cast<std::size_t>(std::floor(h));
-  const std::size_t hi = std::min(lo + 1, sorted.size() - 1);
-  return sorted[lo] + (h - static_cast<double>(lo)) * (sorted[hi] - sorted[lo]);
-}
 
 }  // namespace
 
@@ -56,8 +48,8 @@ ParameterRange range_over_parameters(const extremes::StillWaterModel& fit,
                            "check the draws, or ask for levels inside every draw's support");
   }
   std::sort(values.begin(), values.end());
-  r.lower = sample_quantile(values, 0.5 * (1.0 - coverage));
-  r.upper = sample_quantile(values, 0.5 * (1.0 + coverage));
+  r.lower = quantile_of_sorted(values, 0.5 * (1.0 - coverage));
+  r.upper = quantile_of_sorted(values, 0.5 * (1.0 + coverage));
   char buf[160];
   std::snprintf(buf, sizeof buf, "%g-%g %% range over %d draws of the extreme-value parameters (at the fit: %g)",
                 50.0 * (1.0 - coverage), 50.0 * (1.0 + coverage), r.draws_used, r.at_fit);

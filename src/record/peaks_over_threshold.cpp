@@ -6,6 +6,7 @@
 
 #include "prepared_record.hpp"
 #include "tidewright/common/error.hpp"
+#include "tidewright/common/sample_quantile.hpp"
 
 namespace tidewright::record {
 namespace {
@@ -18,14 +19,7 @@ constexpr double max_rate_curve_levels = 100000.0;
 }  // namespace
 
 double sample_quantile(std::vector<double> values, double p) {
-  if (values.empty()) return std::nan("");
-  std::sort(values.begin(), values.end());
-  // Hyndman & Fan (1996) Am. Stat. 50:361, definition 7: h = (n − 1) p, linear between
-  // order statistics x_(⌊h⌋) and x_(⌊h⌋+1) (0-based).
-  const double h = static_cast<double>(values.size() - 1) * p;
-  const auto lo = static_cast<std::size_t>(std::floor(h));
-  if (lo + 1 >= values.size()) return values.back();
-  return values[lo] + (h - static_cast<double>(lo)) * (values[lo + 1] - values[lo]);
+  return tidewright::sample_quantile(std::move(values), p);
 }
 
 std::size_t count_clusters(const std::vector<std::int64_t>& time_utc_s,

@@ -9,6 +9,7 @@
 #include "tidewright/climate/scenario.hpp"
 #include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
+#include "tidewright/common/sample_quantile.hpp"
 #include "tidewright/local/quantile_table.hpp"
 #include "tidewright/record/peaks_over_threshold.hpp"
 #include "tidewright/report/cautions.hpp"
@@ -72,7 +73,8 @@ std::string p_key(double p) {
 
 nlohmann::ordered_json quantile_block(const Eigen::MatrixXd& m, const std::vector<double>& ps) {
   nlohmann::ordered_json j;
-  for (double p : ps) j[p_key(p)] = year_quantiles(m, p);
+  const std::vector<std::vector<double>> q = year_quantiles(m, ps);
+  for (std::size_t k = 0; k < ps.size(); ++k) j[p_key(ps[k])] = q[k];
   return j;
 }
 
@@ -103,15 +105,22 @@ climate::Scenario load_scenario(const ProjectionRequest& r, const std::string& l
   throw InputError(where, "is not a scenario file", "use a pathway, forcing, CO2 or warming CSV");
 }
 
-std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p) {
-  std::vector<double> out;
-  out.reserve(static_cast<std::size_t>(members_by_year.cols()));
+std::vector<std::vector<double>> year_quantiles(const Eigen::MatrixXd& members_by_year, std::span<const double> ps) {
+  std::vector<std::vector<double>> out(ps.size());
+  for (auto& row : out) row.reserve(static_cast<std::size_t>(members_by_year.cols()));
   std::vector<double> column(static_cast<std::size_t>(members_by_year.rows()));
   for (Eigen::Index c = 0; c < members_by_year.cols(); ++c) {
-    for (Eigen::Index r = 0; r < members_by_year.rows(); ++r) column[static_cast<std::size_t>(r)] = members_by_year(r, c);
-    out.push_back(record::sample_quantile(column, p));
+    // Columns are contiguous in Eigen's column-major storage: copy, sort once, read every p.
+    const double* first = members_by_year.col(c).data();
+    column.assign(first, first + members_by_year.rows());
+    std::sort(column.begin(), column.end());
+    for (std::size_t k = 0; k < ps.size(); ++k) out[k].push_back(quantile_of_sorted(column, ps[k]));
   }
   return out;
+}
+
+std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p) {
+  return year_quantiles(members_by_year, std::span<const double>(&p, 1)).front();
 }
 
 namespace {
@@ -275,11 +284,13 @@ report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const loca
   fan.title = "Relative sea-level rise, " + t.scenario;
   fan.baseline = "since " + t.reference;
   for (int y : t.years) fan.years.push_back(y);
-  fan.q05_m = year_quantiles(t.rise_m, 0.05);
-  fan.q17_m = year_quantiles(t.rise_m, 0.17);
-  fan.q50_m = year_quantiles(t.rise_m, 0.50);
-  fan.q83_m = year_quantiles(t.rise_m, 0.83);
-  fan.q95_m = year_quantiles(t.rise_m, 0.95);
+  const std::vector<double> ps{0.05, 0.17, 0.50, 0.83, 0.95};
+  auto q = year_quantiles(t.rise_m, ps);
+  fan.q05_m = std::move(q[0]);
+  fan.q17_m = std::move(q[1]);
+  fan.q50_m = std::move(q[2]);
+  fan.q83_m = std::move(q[3]);
+  fan.q95_m = std::move(q[4]);
   for (std::size_t k = 0; k < r.local.component_names.size(); ++k) {
     fan.component_medians_m.push_back({r.local.component_names[k], year_quantiles(r.local.contribution_m[k], 0.5)});
   }

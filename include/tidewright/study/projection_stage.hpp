@@ -5,6 +5,7 @@
 
 #include <filesystem>
 #include <optional>
+#include <span>
 #include <string>
 #include <vector>
 
@@ -69,7 +70,10 @@ struct ProjectionStageResult {
 // checked), without projecting it; `label` names it. InputError for a bad file.
 [[nodiscard]] climate::Scenario load_scenario(const ProjectionRequest& request, const std::string& label);
 
-// Per-year quantiles, type 7 (Hyndman & Fan 1996), of a members x years matrix.
+// Per-year quantiles, type 7 (Hyndman & Fan 1996, common/sample_quantile.hpp), of a members x
+// years matrix: one vector per probability, each column sorted once for all of them.
+[[nodiscard]] std::vector<std::vector<double>> year_quantiles(const Eigen::MatrixXd& members_by_year,
+                                                              std::span<const double> ps);
 [[nodiscard]] std::vector<double> year_quantiles(const Eigen::MatrixXd& members_by_year, double p);
 
 inline const std::vector<double> summary_probabilities{0.05, 0.17, 0.50, 0.83, 0.95, 0.99};
