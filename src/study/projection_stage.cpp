@@ -78,6 +78,25 @@ nlohmann::ordered_json quantile_block(const Eigen::MatrixXd& m, const std::vecto
   return j;
 }
 
+// The members' expansion efficiency of heat in the last year, thermal expansion over ocean heat
+// (both from the reference period; Kuhlbrodt & Gregory 2012, eq. 1): the drawn e for the
+// efficiency route, the effective one for the layered route. For checking the expansion term.
+nlohmann::ordered_json expansion_efficiency_json(const climate::ComponentEnsemble& g) {
+  const Eigen::Index last = g.ocean_heat_content_change_yj.cols() - 1;
+  std::vector<double> e;
+  for (Eigen::Index m = 0; m < g.ocean_heat_content_change_yj.rows(); ++m) {
+    const double heat_yj = g.ocean_heat_content_change_yj(m, last);
+    if (std::abs(heat_yj) > 1e-3) e.push_back(g.rise_m[0](m, last) / heat_yj);  // component 0: thermal expansion
+  }
+  const std::vector<double> ps{0.05, 0.5, 0.95};
+  const std::vector<double> q = sample_quantiles(e, ps);
+  nlohmann::ordered_json j;
+  j["year"] = g.years.back();
+  j["members_used"] = e.size();
+  for (std::size_t k = 0; k < ps.size(); ++k) j[p_key(ps[k])] = q[k];
+  return j;
+}
+
 }  // namespace
 
 climate::Scenario load_scenario(const ProjectionRequest& r, const std::string& label) {
@@ -273,6 +292,7 @@ nlohmann::ordered_json projection_json(const ProjectionStageResult& r) {
     j["global_surface_temperature_K"] = quantile_block(r.global->surface_warming_k, {0.05, 0.5, 0.95});
     j["ocean_heat_content_change_YJ"] = quantile_block(r.global->ocean_heat_content_change_yj, {0.05, 0.5, 0.95});
     j["global_mean_total"] = quantile_block(r.global->total_m(), {0.05, 0.17, 0.5, 0.83, 0.95});
+    j["expansion_efficiency_m_per_YJ"] = expansion_efficiency_json(*r.global);
   }
   j["notes"] = r.cautions;
   j["cautions"] = report::safety_cautions();

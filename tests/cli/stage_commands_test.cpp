@@ -140,6 +140,14 @@ TEST(StageCommands, ProjectWritesContractAndMembersThatAllowanceReads) {
     EXPECT_LE(p50[i].get<double>(), p95[i].get<double>());
   }
   EXPECT_TRUE(j["illustrative"].get<bool>());
+  // The members' expansion efficiency (thermal expansion over ocean heat) is the drawn
+  // N(0.11, 0.01) m per YJ (Kuhlbrodt & Gregory 2012): 5/50/95 % at 0.0936, 0.11, 0.1264,
+  // within the sampling error of quantiles of 200 members (about 0.0015; 3 of them allowed).
+  const auto& eff = j["expansion_efficiency_m_per_YJ"];
+  EXPECT_EQ(eff["members_used"].get<int>(), 200);
+  EXPECT_NEAR(eff["p50"].get<double>(), 0.11, 0.0045);
+  EXPECT_NEAR(eff["p05"].get<double>(), 0.11 - 1.6449 * 0.01, 0.0045);
+  EXPECT_NEAR(eff["p95"].get<double>(), 0.11 + 1.6449 * 0.01, 0.0045);
   const auto e = tidewright::study::read_members_csv(members);
   EXPECT_EQ(e.member_count(), 200);
   EXPECT_EQ(e.years.front(), 2020);
