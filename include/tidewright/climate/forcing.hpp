@@ -20,6 +20,11 @@ inline constexpr double preindustrial_co2_ppm = 277.15;
 // Pre-industrial N2O for the Meinshausen et al. (2020) CO2 formula: 273.87 ppb (from memory).
 inline constexpr double preindustrial_n2o_ppb = 273.87;
 
+// Effective radiative forcing of doubled CO2 as IPCC AR6 assessed it, 3.93 +- 0.47 W m-2 (AR6
+// WG1 sec. 7.3.2.1; from memory): the convention of the built-in pathways' effective forcings,
+// so the sensitivity they imply is 3.93/lambda, not 3.71/lambda (docs/methods-climate.md 2.2).
+inline constexpr double ar6_co2_doubling_erf_w_m2 = 3.93;
+
 enum class Co2ForcingFormula {
   myhre1998,        // dF = 5.35 ln(C/C0)
   meinshausen2020,  // dF = (alpha' + c1 sqrt(N)) ln(C/C0), AR6 WG1 Table 7.SM.1 (secondary)
