@@ -33,6 +33,12 @@ std::vector<double> cumulate(const std::vector<double>& warming_k, Rate rate) {
   return out;
 }
 
+// No more ice lost than there is.
+std::vector<double> capped(std::vector<double> loss_m, double inventory_m) {
+  for (double& x : loss_m) x = std::min(x, inventory_m);
+  return loss_m;
+}
+
 }  // namespace
 
 std::vector<double> glacier_rise_m(const GlacierParameters& p, const std::vector<int>& years,
@@ -69,7 +75,8 @@ std::vector<double> greenland_rise_m(const GreenlandParameters& p, const std::ve
   check_path(years, warming_k, "greenland");
   const double s = p.factor * p.smb_m_per_yr_k2;
   const double d = p.factor * p.discharge_m_per_yr_k;
-  return cumulate(warming_k, [s, d](double t) { return s * t * std::fabs(t) + d * t; });
+  return capped(cumulate(warming_k, [s, d](double t) { return s * t * std::fabs(t) + d * t; }),
+                greenland_inventory_m);
 }
 
 std::vector<double> antarctic_rise_m(const AntarcticParameters& p, const std::vector<int>& years,
@@ -77,7 +84,7 @@ std::vector<double> antarctic_rise_m(const AntarcticParameters& p, const std::ve
   check_path(years, warming_k, "antarctica");
   const double k = -p.accumulation_m_per_yr * p.snowfall_increase_per_k * p.antarctic_warming_ratio +
                    p.discharge_factor * p.discharge_m_per_yr_k;
-  return cumulate(warming_k, [k](double t) { return k * t; });
+  return capped(cumulate(warming_k, [k](double t) { return k * t; }), antarctica_inventory_m);
 }
 
 std::vector<double> land_water_rise_m(const LandWaterParameters& p, const std::vector<int>& years) {

@@ -2,6 +2,7 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <vector>
 
@@ -98,4 +99,21 @@ TEST(ClimateLandIce, CalibrationReproducesAr6MediansForMidway) {
   EXPECT_NEAR(rel_2100(p.greenland_m), 0.08, 0.003);
   EXPECT_NEAR(rel_2100(p.antarctica_m), 0.11, 0.003);
   EXPECT_NEAR(rel_2100(p.land_water_m), 0.03, 0.001);
+}
+
+// However extreme the warming, no ice sheet gives more than its inventory (7.42 m Greenland,
+// 57.9 m Antarctica; land_ice.hpp): 40 K for 300 years would otherwise give hundreds of metres.
+TEST(ClimateLandIce, IceSheetsGiveNoMoreThanTheirInventory) {
+  const std::vector<int> years = years_from(1850, 2150);
+  const std::vector<double> hot(years.size(), 40.0);
+  const auto g = greenland_rise_m(GreenlandParameters{}, years, hot);
+  AntarcticParameters a;
+  a.discharge_factor = 7.4;
+  const auto s = antarctic_rise_m(a, years, hot);
+  EXPECT_DOUBLE_EQ(g.back(), greenland_inventory_m);
+  EXPECT_DOUBLE_EQ(s.back(), antarctica_inventory_m);
+  EXPECT_TRUE(std::is_sorted(g.begin(), g.end()));
+  // An ordinary path stays far below the caps, untouched.
+  const std::vector<double> mild(years.size(), 2.0);
+  EXPECT_LT(greenland_rise_m(GreenlandParameters{}, years, mild).back(), 0.2 * greenland_inventory_m);
 }
