@@ -26,6 +26,7 @@ struct ProjectArgs {
   double land_motion = 0.0, land_motion_sd = 0.0;
   bool list = false;
   bool accept_extreme = false;
+  std::string storyline = "assessed";
   unsigned long long seed = default_seed;
   std::string json, csv, members, plot;
 };
@@ -74,6 +75,11 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--label", a->label, "Scenario label in every output");
   app.add_option("--first-year", a->first_year, "First projected year")->default_val(2020);
   app.add_option("--last-year", a->last_year, "Last projected year")->default_val(2150);
+  app.add_option("--storyline", a->storyline,
+                 "Ice sheets: assessed (the likely-range calibration) or high-end-ice (a low-likelihood, high-impact "
+                 "variant for testing a design)")
+      ->check(CLI::IsMember({"assessed", "high-end-ice"}))
+      ->default_str("assessed");
   app.add_option("--samples", a->samples, "Monte Carlo members (at most 200,000)")->default_val(2000);
   app.add_flag("--accept-extreme", a->accept_extreme,
                "Run a forcing, warming or land motion outside the physical ranges on purpose "
@@ -131,6 +137,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     r.last_year = a->last_year;
     r.members = a->samples;
     r.accept_extreme_inputs = a->accept_extreme;
+    r.storyline = a->storyline == "high-end-ice" ? climate::IceStoryline::high_end_ice : climate::IceStoryline::assessed;
     r.seed = a->seed;
     r.reference = climate::parse_year_span(a->reference, "--reference");
     for (const auto& f : a->fingerprints) {

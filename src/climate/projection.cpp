@@ -221,6 +221,7 @@ std::vector<MemberParameters> draw_members(const ProjectionOptions& o) {
     m.antarctica.snowfall_increase_per_k = draw(rng, d.antarctic_snowfall_increase_per_k);
     const double bound = d.antarctic_discharge_log_bound_sd;
     m.antarctica.discharge_factor = std::exp(d.antarctic_discharge_log_sd * draw(rng, {0.0, 1.0, -bound, bound}));
+    if (o.storyline == IceStoryline::high_end_ice) m.antarctica.discharge_factor *= high_end_antarctic_multiplier;
     m.land_water.factor = draw(rng, d.land_water_factor);
   }
   return out;

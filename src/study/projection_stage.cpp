@@ -197,9 +197,17 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
     throw InputError("--years", "the last year is not after the first", "give a span such as 2020-2150");
   }
   ProjectionStageResult out;
-  const std::string label = !r.label.empty() ? r.label
-                            : r.source == ScenarioSource::pathway ? r.pathway
-                                                                  : r.path.stem().string();
+  const bool high_end = r.storyline == climate::IceStoryline::high_end_ice;
+  const std::string base_label = !r.label.empty()                      ? r.label
+                                 : r.source == ScenarioSource::pathway ? r.pathway
+                                                                       : r.path.stem().string();
+  const std::string& label = base_label;
+  if (high_end && (r.source == ScenarioSource::table || r.source == ScenarioSource::temperature_csv)) {
+    // A table carries its own tail; given warming skips nothing the storyline changes, but the
+    // storyline is calibrated on forcing pathways only.
+    throw InputError(r.storyline_input, "applies to forcing-driven projections (a pathway, forcing or CO2)",
+                     "use it with a pathway, --forcing or --co2, or drop it");
+  }
   if (r.source == ScenarioSource::table) {
     if (r.local_terms_given) {
       throw InputError(r.path.string(),
@@ -230,7 +238,8 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
                            " (tails beyond the outer quantiles extrapolated; see docs/methods-local.md)");
     return out;
   }
-  const climate::Scenario scenario = load_scenario(r, label);
+  climate::Scenario scenario = load_scenario(r, label);
+  if (high_end) scenario.label += ", " + std::string(climate::high_end_label);
   check_projection_inputs(r, &scenario);
   climate::ProjectionOptions options;
   options.first_year = r.first_year;
@@ -238,6 +247,7 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
   options.member_count = r.members;
   options.seed = r.seed;
   options.reference = r.reference;
+  options.storyline = r.storyline;
   climate::validate(scenario, options);
   out.global = climate::project_global_components(scenario, options);
   local::LocalTerms terms = r.local;
@@ -248,6 +258,11 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
     terms.land_motion.reference_year = 0.5 * (r.reference.first_year + r.reference.last_year);
   }
   out.local = local::local_relative_rise(*out.global, terms);
+  if (high_end) {
+    out.cautions.push_back(std::string("this ensemble is the ") + climate::high_end_label +
+                           ": Antarctic discharge raised for deep uncertainty in ice-sheet processes, to test a "
+                           "design's robustness; do not read its percentiles as likely ranges");
+  }
   // The per-component "defaulted to 1" cautions, said once with the components listed.
   std::vector<std::string> defaulted;
   for (const auto& c : out.local.cautions) {

@@ -100,6 +100,7 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
     ScenarioSettings s;
     s.name = sc.string("name");
     s.source = sc.choice("source", {"pathway", "forcing_csv", "co2_csv", "temperature_csv", "table"}, "pathway");
+    s.storyline = sc.choice("storyline", {"assessed", "high-end-ice"}, "assessed");
     if (s.source == "pathway") s.pathway = sc.string("pathway");
     else s.path = sc.path("path");
     sc.finish();

@@ -27,6 +27,11 @@
 namespace tidewright::study {
 namespace {
 
+// The scenario as tables, figures and warnings name it: a high-end storyline says so there too.
+std::string display_name(const ScenarioSettings& s) {
+  return s.storyline == "high-end-ice" ? s.name + " [high-end ice storyline]" : s.name;
+}
+
 std::string sentence_case(std::string s) {
   if (!s.empty()) s[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(s[0])));
   return s;
@@ -108,6 +113,8 @@ ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings
                                                : ScenarioSource::table;
     r.path = *s.path;
   }
+  r.storyline = s.storyline == "high-end-ice" ? climate::IceStoryline::high_end_ice : climate::IceStoryline::assessed;
+  r.storyline_input = field_location(c.file.string(), "scenario.storyline");
   r.first_year = c.projection.start_year;
   r.last_year = c.projection.end_year;
   r.members = c.projection.members;
@@ -229,16 +236,17 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   for (const auto& run : runs) {
     Json sj;
     sj["name"] = run.settings.name;
+    sj["storyline"] = run.settings.storyline;
     sj["projection"] = projection_json(run.projection);
     const Json allowances = allowance_json(run.inputs, run.allowances, "projection.members");
     sj["allowances"] = allowances["allowances"];
     sj["warnings"] = allowances["warnings"];
-    for (const auto& w : allowances["warnings"]) ensemble_warnings.push_back(run.settings.name + ": " + w.get<std::string>());
+    for (const auto& w : allowances["warnings"]) ensemble_warnings.push_back(display_name(run.settings) + ": " + w.get<std::string>());
     sj["notes"] = run.inputs.notes;
     for (const auto& r : run.allowances) {
       const auto& a = r.allowance;
       const auto& mc = a.monte_carlo;
-      heights.add_row({run.settings.name, std::to_string(a.first_year), fixed(a.return_period_yr, 0),
+      heights.add_row({display_name(run.settings), std::to_string(a.first_year), fixed(a.return_period_yr, 0),
                        fixed(a.present_level_m, 2), fixed(a.allowance_m, 2), mc.sampled ? fixed(mc.standard_error, 3) : "-",
                        mc.sampled ? fixed(mc.effective_sample_size, 0) : "-", fixed(a.present_level_m + a.allowance_m, 2),
                        fixed(a.mean_rise_m, 2), fixed(a.sd_rise_m, 2), fixed(r.cut_at_p99_m, 2)});
@@ -298,7 +306,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       for (double z : follow_levels) {
         const auto am = planning::amplification(fit.present_day, cond, z);
         const auto text = amplification_text(am);
-        shifts.add_row({run.settings.name, std::to_string(y), fixed(z, 2), return_period_text(am.present_return_period_yr),
+        shifts.add_row({display_name(run.settings), std::to_string(y), fixed(z, 2), return_period_text(am.present_return_period_yr),
                         text.future_return_period, text.factor, fixed(100.0 * am.beyond_range_fraction, 1)});
         rows.push_back(amplification_json(am));
       }
@@ -308,7 +316,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     Json em = Json::array();
     for (double z : follow_levels) {
       const auto e = planning::emergence_year(fit.present_day, span_all, z, 1.0);
-      emergence.add_row({run.settings.name, fixed(z, 2), fixed(1.0 / fit.present_day.annual_exceedance_rate(z), 1),
+      emergence.add_row({display_name(run.settings), fixed(z, 2), fixed(1.0 / fit.present_day.annual_exceedance_rate(z), 1),
                          e.year ? std::to_string(*e.year) : "not by " + std::to_string(run.inputs.rise.years.back())});
       em.push_back({{"level", z}, {"year", e.year ? Json(*e.year) : Json(nullptr)}});
     }
@@ -317,22 +325,22 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     Json rj = Json::array();
     for (double h : c.planning.levels_of_interest_m) {
       const auto r = planning::design_life_risk(fit.present_day, life, h);
-      risk.add_row({run.settings.name, fixed(h, 2), report::probability_text(r.probability, r.rounds_to_one),
+      risk.add_row({display_name(run.settings), fixed(h, 2), report::probability_text(r.probability, r.rounds_to_one),
                     r.monte_carlo.sampled ? fixed(r.monte_carlo.standard_error, 4) : "-",
                     fixed(expected_count(fit.present_day, r), 3), fixed(100.0 * r.beyond_range_fraction, 2)});
       rj.push_back(design_life_risk_json(r));
     }
     const auto tl = planning::level_for_design_life_risk(fit.present_day, life, c.planning.target_risk);
-    target.add_row({run.settings.name, std::to_string(life_first) + "-" + std::to_string(life_last),
+    target.add_row({display_name(run.settings), std::to_string(life_first) + "-" + std::to_string(life_last),
                     fixed(c.planning.target_risk, 3), fixed(tl.level_m, 2)});
     sj["design_life"] = {{"first_year", life_first}, {"last_year", life_last}, {"risks", rj},
                          {"target_probability", c.planning.target_risk}, {"target_height_m", tl.level_m}};
-    report::NamedSeries curve{run.settings.name, {}};
+    report::NamedSeries curve{display_name(run.settings), {}};
     for (double h : risk_heights) curve.values.push_back(planning::design_life_risk(fit.present_day, life, h).probability);
     risk_curves.push_back(curve);
-    report::NamedSeries af{run.settings.name + ", today's " + fixed(design_rp, 0) + "-year level", {}};
-    report::NamedSeries al{run.settings.name, {}};
-    report::NamedSeries dh{run.settings.name, {}};
+    report::NamedSeries af{display_name(run.settings) + ", today's " + fixed(design_rp, 0) + "-year level", {}};
+    report::NamedSeries al{display_name(run.settings), {}};
+    report::NamedSeries dh{display_name(run.settings), {}};
     const double z_design = planning::present_return_level(fit.present_day, design_rp);
     for (double y : plot_years) {
       const auto cond = planning::conditions_in_year(run.inputs.rise, static_cast<int>(y), run.inputs.storminess);
@@ -378,16 +386,16 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     add_present_levels(m, present, c.map.return_periods_yr);
     for (const auto& run : runs) {
       add_future_levels(m, present, run.inputs.rise, run.inputs.storminess, c.map.years, c.map.return_periods_yr,
-                        run.settings.name);
+                        display_name(run.settings));
     }
     add_present_aep(m, present);
     for (const auto& run : runs) {
-      add_future_aep(m, present, run.inputs.rise, run.inputs.storminess, c.map.years, run.settings.name);
+      add_future_aep(m, present, run.inputs.rise, run.inputs.storminess, c.map.years, display_name(run.settings));
     }
     const auto& last_run = runs.back();
     m.first_year = first_year_layer(present, last_run.inputs.rise, last_run.inputs.storminess,
                                     projection_years(last_run.inputs.rise, kFirstYearStepYr), c.map.aep_passing,
-                                    last_run.settings.name);
+                                    display_name(last_run.settings));
     m.polygons = true;
     m.out_dir = dir / "maps";
     m.force = false;
@@ -510,12 +518,12 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   for (const auto& run : runs) {
     const auto& t = run.inputs.rise;
     report::FanChartInput fan = fan_chart_input(run.projection, t);
-    fan.title = "Relative sea-level rise, " + run.settings.name;
+    fan.title = "Relative sea-level rise, " + display_name(run.settings);
     std::string name = "projection_" + run.settings.name;
     for (auto& ch : name) {
       if (!std::isalnum(static_cast<unsigned char>(ch)) && ch != '_' && ch != '-') ch = '_';
     }
-    evidence.blocks.emplace_back(report::Figure{name, "Scenario " + run.settings.name + ": median, 17-83% and 5-95% of " +
+    evidence.blocks.emplace_back(report::Figure{name, "Scenario " + display_name(run.settings) + ": median, 17-83% and 5-95% of " +
                                                           std::to_string(t.member_count()) + " members, with component medians.",
                                                 report::projection_fan_chart(fan)});
     report::BulletList notes;
@@ -613,7 +621,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   for (const auto& run : runs) {
     for (const auto& r : run.allowances) {
       if (r.allowance.first_year == c.planning.design_years.back() && r.allowance.return_period_yr == design_rp) {
-        out.headline.push_back("scenario " + run.settings.name + ": " + fixed(design_rp, 0) + "-year still-water level " +
+        out.headline.push_back("scenario " + display_name(run.settings) + ": " + fixed(design_rp, 0) + "-year still-water level " +
                                fixed(r.allowance.present_level_m, 2) + " m today, design height " +
                                fixed(r.allowance.present_level_m + r.allowance.allowance_m, 2) + " m in " +
                                std::to_string(r.allowance.first_year) + " (m above " + datum + ")");

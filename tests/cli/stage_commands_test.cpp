@@ -245,3 +245,29 @@ TEST(StageCommands, DashWritesADataOutputToStandardOutput) {
               c.lambda * std::log(c.mean_exp()), 1e-9);
   expect_one_line_error(run_cli(base + " --json - --csv -"), "--csv: sends a second output to standard output");
 }
+
+// The high-end ice-sheet storyline: a labelled variant whose `unchecked` 2100 95th percentile
+// is about 2 m (AR6 WG1 SPM B.5.3: "approaching 2 m by 2100 ... cannot be ruled out" under
+// SSP5-8.5; from memory; climate::high_end_antarctic_multiplier), against 1.48 m assessed.
+// The label reaches the JSON and the members file; a table source refuses it.
+TEST(StageCommands, HighEndIceStorylineIsLabelledAndReachesAboutTwoMetres) {
+  TempDir dir;
+  const auto json = (dir / "p.json").string();
+  const auto members = (dir / "m.csv").string();
+  const auto r = run_cli("project --pathway unchecked --storyline high-end-ice --last-year 2100 --json " +
+                         shell_quote(json) + " --members " + shell_quote(members) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto j = nlohmann::json::parse(read_all(json));
+  EXPECT_THAT(j["scenario"].get<std::string>(), HasSubstr("high-end ice-sheet storyline"));
+  EXPECT_THAT(j["notes"].dump(), HasSubstr("do not read its percentiles as likely ranges"));
+  EXPECT_THAT(read_all(members), HasSubstr("high-end ice-sheet storyline"));
+  const double p95 = j["total"]["p95"].back().get<double>();
+  EXPECT_NEAR(p95, 2.0, 0.1);
+  const auto assessed = run_cli("project --pathway unchecked --last-year 2100 --json - --quiet");
+  ASSERT_EQ(assessed.exit_code, 0) << assessed.err;
+  EXPECT_LT(nlohmann::json::parse(assessed.out)["total"]["p95"].back().get<double>(), p95 - 0.3);
+  tidewright::write_text_file(dir / "q.csv", "year,p05,p50,p95\n2050,0.1,0.2,0.3\n2100,0.3,0.5,0.9\n", false);
+  expect_one_line_error(run_cli("project --table " + shell_quote((dir / "q.csv").string()) +
+                                " --storyline high-end-ice"),
+                        "--storyline: applies to forcing-driven projections");
+}

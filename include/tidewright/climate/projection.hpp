@@ -64,6 +64,22 @@ struct MemberParameters {
   LandWaterParameters land_water;
 };
 
+// Which ice-sheet behaviour the ensemble samples. The high-end storyline is a separate,
+// labelled variant for deep uncertainty in Antarctic ice loss (the assessment's low-likelihood,
+// high-impact range: processes such as marine ice-cliff instability that the likely range leaves
+// out), for testing a design's robustness; it is not a likely range and says so in every output.
+enum class IceStoryline {
+  assessed,      // the likely-range calibration
+  high_end_ice,  // Antarctic discharge factor's median raised by high_end_antarctic_multiplier
+};
+// Calibrated so that the built-in `unchecked` pathway's 95th percentile of global rise is 2.0 m
+// in 2100 (2,000 members, default seed), the level that AR6 WG1 SPM B.5.3 says "cannot be ruled
+// out" under SSP5-8.5 (approaching 2 m by 2100 and 5 m by 2150, low confidence; from memory). In
+// 2150 its 95th percentile is 3.8 m and its 99th 5.0 m.
+inline constexpr double high_end_antarctic_multiplier = 1.6;
+// The label added to the scenario of a high-end ensemble, carried into every output.
+inline constexpr const char* high_end_label = "high-end ice-sheet storyline (low likelihood, not a likely range)";
+
 enum class ThermalExpansionRoute {
   efficiency,  // rise = e * ocean heat (Kuhlbrodt & Gregory 2012); e drawn per member
   layered,     // TEOS-10 alpha on each layer's warming (thermal_expansion.hpp)
@@ -77,6 +93,7 @@ struct ProjectionOptions {
   YearSpan reference{1995, 2014};            // sea level and ocean heat: AR6 WG1 baseline
   YearSpan warming_reference{1850, 1900};    // surface warming: AR6 pre-industrial proxy
   ThermalExpansionRoute thermal_route = ThermalExpansionRoute::efficiency;
+  IceStoryline storyline = IceStoryline::assessed;
   int spinup_start_year = historical_ramp_start_year;  // the ramp starts from equilibrium in 1850
   MemberParameters central;                  // C, C_d and every fixed constant come from here
   ParameterDistributions distributions;

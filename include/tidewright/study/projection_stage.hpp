@@ -37,6 +37,10 @@ struct ProjectionRequest {
   // Inputs outside the physical ranges of check_projection_inputs are refused unless this is
   // set (the command's --accept-extreme): a deliberate stress test, not a typing slip.
   bool accept_extreme_inputs = false;
+  // The high-end ice-sheet storyline instead of the assessed calibration (physics sources
+  // only; the label says so in every output). `storyline_input` names the caller's option.
+  climate::IceStoryline storyline = climate::IceStoryline::assessed;
+  std::string storyline_input = "--storyline";
 };
 
 // Physical ranges of projection inputs (docs/bad-inputs.md states them with their sources).

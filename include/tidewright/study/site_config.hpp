@@ -51,6 +51,7 @@ struct ScenarioSettings {
   std::string source = "pathway";  // "pathway", "forcing_csv", "co2_csv", "temperature_csv", "table"
   std::string pathway;             // built-in illustrative pathway name
   std::optional<std::filesystem::path> path;  // CSV for the other sources
+  std::string storyline = "assessed";         // "assessed" or "high-end-ice" (climate::IceStoryline)
 };
 
 struct ProjectionSettings {
