@@ -427,8 +427,11 @@ void configure(CLI::App& app, CommonOptions& common) {
                  "4 or 8 neighbours (8: water passes diagonally, the cautious side)")
       ->check(CLI::IsMember({4, 8}))
       ->default_val(8);
+  // Lists of plain numbers take the same syntax as in every command: comma-separated, or the
+  // option repeated.
   app.add_option("--level", o->levels,
-                 "Still-water level to map, m above the water-level datum (repeat)")
+                 "Still-water levels to map, m above the water-level datum (comma list or repeat)")
+      ->delimiter(',')
       ->type_name("M");
   app.add_flag("--accept-high-level", o->accept_high_levels,
                "Map a level more than 50 m above the water-level datum on purpose");
@@ -452,9 +455,11 @@ void configure(CLI::App& app, CommonOptions& common) {
   add_planning_options(app, o->planning, false);
   app.add_option("--years", o->years,
                  "Projected years to map (needs --fit and --members): AEP bands and, with --return-periods, levels")
+      ->delimiter(',')
       ->type_name("YEAR");
   app.add_option("--return-periods", o->return_periods_yr,
                  "Map today's T-year level and, with --members, each --years year's T-year level")
+      ->delimiter(',')
       ->type_name("T");  // T <= 1 is refused by planning::present_return_level, with the reason
   app.add_option("--first-year-step", o->first_year_step,
                  "Years between the projected years --aep-pass looks at")

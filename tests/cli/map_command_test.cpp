@@ -105,6 +105,13 @@ TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
   EXPECT_EQ(read_all(out / "notes.txt"), "site visit notes");
   EXPECT_EQ(read_all(out / "sea.geojson"), "{}");
   EXPECT_TRUE(std::filesystem::exists(out / "depth.tif"));
+  // Lists of numbers take the same syntax as in allowance and amplify: "--level 1.5,3.5".
+  const auto listed = tmp / "listed";
+  ASSERT_EQ(run_cli("map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 1.5,3.5 --quiet --out " +
+                    shell_quote(listed.string()))
+                .exit_code,
+            0);
+  EXPECT_THAT(read_all(listed / "summary.csv"), HasSubstr("\n3.5000,,,12,0,1200.00"));
 }
 
 TEST(MapCommand, AepAndFirstYearFromAStatedRise) {
@@ -251,7 +258,7 @@ TEST(MapCommand, AepAndLevelsFromProjectionMembers) {
   const auto r = run_cli("map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --fit " +
                          shell_quote((tmp / "fit.json").string()) + " --members " +
                          shell_quote((tmp / "members.csv").string()) +
-                         " --years 2050 --return-periods 10 --aep-pass 0.1 --first-year-step 10 --out " +
+                         " --years 2050,2100 --return-periods 10 --aep-pass 0.1 --first-year-step 10 --out " +
                          shell_quote(out.string()));
   ASSERT_EQ(r.exit_code, 0) << r.err;
   EXPECT_THAT(r.out, HasSubstr("note: water-level datum: test datum"));
