@@ -138,6 +138,7 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
   out.gaps_closed = close_diagonal_gaps(dem, crest);
   for (std::size_t i = 0; i < crest.size(); ++i) {
     if (std::isnan(crest[i]) || std::isnan(dem.elevation_m[i])) continue;
+    ++out.cells_touched;
     // Crest above the water-level datum: z_water = z_dem + offset (dem.hpp) unless given so.
     const double c = static_cast<double>(crest[i]);
     const double crest_m = source.crest_in_water_datum ? c : c + dem.offset_at(i);
@@ -151,6 +152,15 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
                     (source.crest_in_water_datum ? "water-level" : "DEM") +
                     " datum, ALL_TOUCHED burn, " + std::to_string(out.gaps_closed) +
                     " diagonal gaps closed, " + std::to_string(out.cells_raised) + " cells raised)";
+  if (out.cells_touched == 0) {
+    out.warnings.push_back(source.path + ": the " + std::to_string(out.features) +
+                           " defences touch none of the DEM's cells, so they change nothing: check their CRS and "
+                           "extent against the DEM (ogrinfo -so, gdalinfo)");
+  } else if (out.cells_raised == 0) {
+    out.warnings.push_back(source.path + ": every defence crest is at or below the ground under it (" +
+                           std::to_string(out.cells_touched) + " cells), so none was raised: check --crest-field and "
+                           "--crest-datum");
+  }
   return out;
 }
 

@@ -177,6 +177,25 @@ VerticalScale vertical_scale(const DemSource& source, GDALRasterBand& band,
 // scale factor spanning more than 100 units (metre DEMs are stored as floats or scaled integers;
 // whole metres cannot resolve a coast), or valid values spanning more than 1,000 units (no
 // coastal DEM in metres spans a kilometre of height): common practice.
+// Fill values that DEM producers write for "no data" (common practice): when one of them sits on
+// more than max_undeclared_fill_cells cells without being declared nodata, the cells are
+// elevations of thousands of metres or deep holes, and the map is wrong. Judged on stored values.
+constexpr float common_fill_values[] = {-9999.0F, -32768.0F, -32767.0F, -99999.0F, 9999.0F, 32767.0F,
+                                        -3.4028234663852886e38F, 3.4028234663852886e38F};
+constexpr std::size_t max_undeclared_fill_cells = 3;
+
+std::optional<std::string> undeclared_fill(const std::vector<float>& stored) {
+  for (const float fill : common_fill_values) {
+    const auto n = static_cast<std::size_t>(std::count(stored.begin(), stored.end(), fill));
+    if (n > max_undeclared_fill_cells) {
+      return std::to_string(n) + " cells hold " + number(static_cast<double>(fill)) +
+             ", a common no-data value, but it is not declared nodata: they are mapped as elevations "
+             "(declare it with --dem-nodata " + number(static_cast<double>(fill)) + ")";
+    }
+  }
+  return std::nullopt;
+}
+
 std::optional<std::string> unit_suspicion(const std::vector<float>& z, GDALDataType type, bool scaled) {
   float lo = std::numeric_limits<float>::infinity();
   float hi = -lo;
@@ -295,6 +314,12 @@ Dem read_dem(const DemSource& source) {
     return (has_nodata != 0 && v == static_cast<float>(file_nodata)) ||
            (source.nodata && v == static_cast<float>(*source.nodata));
   };
+  if (auto w = undeclared_fill(dem.elevation_m)) {
+    // Only values not declared: a declared nodata of -9999 is fine.
+    const bool declared_fill = std::any_of(std::begin(common_fill_values), std::end(common_fill_values),
+                                           [&](float f) { return is_declared(f); });
+    if (!declared_fill) dem.warnings.push_back(source.path + ": " + *w);
+  }
   std::size_t valid = 0;
   for (auto& v : dem.elevation_m) {
     if (std::isnan(v) || is_declared(v)) {

@@ -384,3 +384,37 @@ TEST(MapCommand, ProgressBarInGdalsStyleUnlessQuiet) {
   EXPECT_EQ(quiet.out, "");
   EXPECT_EQ(quiet.err, "");
 }
+
+// Inputs that touch nothing run but say so (issue: GIS edges): defences off the DEM, defences
+// whose crests are all below the ground, and a common fill value (-9999) on more than three
+// cells without being declared nodata. Declared, the fill value raises no warning.
+TEST(MapCommand, InputsThatTouchNothingAreWarnedAbout) {
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 1.5 --out ";
+  const auto far = (tmp / "far.gpkg").string();
+  write_vector(far, "GPKG", 32633, {{"LINESTRING(0 0,10 0)", 5.0}});
+  const auto off = run_cli(base + shell_quote((tmp / "a").string()) + " --defences " + shell_quote(far));
+  EXPECT_EQ(off.exit_code, 0) << off.err;
+  EXPECT_THAT(off.err, HasSubstr("touch none of the DEM's cells, so they change nothing"));
+  const auto low = (tmp / "low.gpkg").string();
+  // Along the ridge column (x 500020-500030, 3 m ground) with a 1 m crest.
+  write_vector(low, "GPKG", 32633, {{"LINESTRING(500025 6000000,500025 5999970)", 1.0}});
+  const auto under = run_cli(base + shell_quote((tmp / "b").string()) + " --defences " + shell_quote(low));
+  EXPECT_EQ(under.exit_code, 0) << under.err;
+  EXPECT_THAT(under.err, HasSubstr("every defence crest is at or below the ground under it"));
+  // A 6 x 3 DEM whose last column holds -9999 (4 of 18 cells would do; 3 are there plus one).
+  const auto filled = (tmp / "filled.tif").string();
+  std::vector<double> z;
+  for (int r = 0; r < 3; ++r) z.insert(z.end(), {0.0, 0.5, 3.0, 1.0, 2.0, -9999.0});
+  z[4] = -9999.0;
+  write_raster(filled, 6, 3, utm_10m, 32633, z);
+  const std::string filled_base =
+      "map --dem " + shell_quote(filled) + " --same-datum --sea-edge-below 0 --level 1.5 --quiet --out ";
+  const auto undeclared = run_cli(filled_base + shell_quote((tmp / "c").string()));
+  EXPECT_EQ(undeclared.exit_code, 0) << undeclared.err;
+  EXPECT_THAT(undeclared.err, HasSubstr("4 cells hold -9999, a common no-data value, but it is not declared nodata"));
+  const auto declared = run_cli(filled_base + shell_quote((tmp / "d").string()) + " --dem-nodata -9999");
+  EXPECT_EQ(declared.exit_code, 0) << declared.err;
+  EXPECT_THAT(declared.err, ::testing::Not(HasSubstr("common no-data value")));
+}

@@ -9,6 +9,7 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
 #include "tidewright/terrain/dem.hpp"
 
@@ -25,7 +26,11 @@ struct DefenceBurn {
   std::size_t features = 0;
   std::size_t cells_raised = 0;
   std::size_t gaps_closed = 0;  // diagonal gaps left by the burn and closed
+  std::size_t cells_touched = 0;  // DEM cells under a defence (whether raised or not)
   std::string description;
+  // Defences that change nothing: none over the DEM (another CRS or place?), or every crest at
+  // or below the ground it stands on (the crest field or its datum?).
+  std::vector<std::string> warnings;
 };
 
 // Throws InputError: unreadable file, missing layer or crest attribute, a feature with no crest
