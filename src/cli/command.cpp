@@ -1,6 +1,8 @@
 #include "command.hpp"
 
 #include <algorithm>
+#include <cctype>
+#include <string_view>
 #include <iostream>
 
 #include "tidewright/common/atomic_output.hpp"
@@ -49,6 +51,16 @@ CLI::Option* add_json_option(CLI::App& app, std::string& path) {
 CLI::Option* add_csv_option(CLI::App& app, std::string& path) {
   return app.add_option("--csv", path, "Write the result table as CSV to FILE ('-': standard output)")
       ->type_name("FILE");
+}
+
+std::string shell_word(const std::string& word) {
+  const bool safe = !word.empty() && std::all_of(word.begin(), word.end(), [](char c) {
+    return (std::isalnum(static_cast<unsigned char>(c)) != 0) || std::string_view("_@%+=:,./-").find(c) != std::string_view::npos;
+  });
+  if (safe) return word;
+  std::string out = "'";
+  for (const char c : word) out += c == '\'' ? std::string("'\\''") : std::string(1, c);
+  return out + "'";
 }
 
 void check_data_outputs(const std::vector<DataOutput>& outputs, bool force) {

@@ -53,6 +53,11 @@ void write_data_output(const DataOutput& output, const nlohmann::ordered_json& v
 // Where the human summary goes: standard error when one of the outputs is "-".
 [[nodiscard]] std::ostream& summary_stream(const std::vector<DataOutput>& outputs);
 
+// A word as a POSIX shell reads it back: unchanged when it holds only characters no shell treats
+// specially, else in single quotes (a quote inside written '\''). For recorded command lines
+// that can be pasted back.
+[[nodiscard]] std::string shell_word(const std::string& word);
+
 // The seed used when --seed is not given, so that two runs agree by default.
 inline constexpr unsigned long long default_seed = 20261201ULL;
 

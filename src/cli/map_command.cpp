@@ -493,9 +493,9 @@ void configure(CLI::App& app, CommonOptions& common) {
           if (!joined.empty()) joined += ',';
           joined += r;
         }
-        recipe.append(" ").append(name).append(" ").append(joined);
+        recipe.append(" ").append(name).append(" ").append(shell_word(joined));
       } else {
-        for (const auto& r : opt->results()) recipe.append(" ").append(name).append(" ").append(r);
+        for (const auto& r : opt->results()) recipe.append(" ").append(name).append(" ").append(shell_word(r));
       }
     }
     std::vector<std::string> notes;

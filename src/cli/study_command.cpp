@@ -57,7 +57,8 @@ void configure_study(CLI::App& app, CommonOptions& common) {
   add_quiet_flag(app, common);
   app.callback([site, out, &common] {
     const auto config = study::load_site_file(*site);
-    const auto outcome = run(config, *out, common, "tidewright study " + *site + " --out " + *out);
+    const auto outcome =
+        run(config, *out, common, "tidewright study " + shell_word(*site) + " --out " + shell_word(*out));
     if (!common.quiet) print_outcome(outcome);
   });
 }
@@ -95,7 +96,8 @@ void configure_demo(CLI::App& app, CommonOptions& common) {
     const auto config = study::load_site_file(inputs.site_toml);
     CommonOptions study_common = common;
     study_common.force = true;
-    const auto outcome = run(config, (dir / "study").string(), study_common, "tidewright demo --out " + dir.string());
+    const auto outcome =
+        run(config, (dir / "study").string(), study_common, "tidewright demo --out " + shell_word(dir.string()));
     if (!common.quiet) print_outcome(outcome);
   });
 }

@@ -418,3 +418,33 @@ TEST(MapCommand, InputsThatTouchNothingAreWarnedAbout) {
   EXPECT_EQ(declared.exit_code, 0) << declared.err;
   EXPECT_THAT(declared.err, ::testing::Not(HasSubstr("common no-data value")));
 }
+
+// The recorded command line is shell-quoted, so it can be pasted back: a path with a space and
+// a quote survives a POSIX shell's reading.
+TEST(MapCommand, RecordedCommandLineIsShellQuoted) {
+  TempDir tmp;
+  const auto dir = tmp / "survey 2026's";
+  std::filesystem::create_directories(dir);
+  std::vector<double> z;
+  for (int r = 0; r < 3; ++r) z.insert(z.end(), {0.0, 0.5, 3.0, 1.0, 2.0});
+  const auto dem = (dir / "dem.tif").string();
+  write_raster(dem, 5, 3, utm_10m, 32633, z);
+  const auto out = tmp / "maps";
+  ASSERT_EQ(run_cli("map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 1.5 --quiet --out " +
+                    shell_quote(out.string()))
+                .exit_code,
+            0);
+  const auto j = nlohmann::json::parse(read_all(out / "summary.json"));
+  const std::string command = j["command"].get<std::string>();
+  EXPECT_THAT(command, HasSubstr("--dem '" + tmp.path().string() + "/survey 2026'\\''s/dem.tif'"));
+  // Pasted back into a shell, the words are the original ones.
+  const std::string words = command.substr(command.find("--dem"));
+  FILE* pipe = popen(("printf '%s\\n' " + words).c_str(), "r");
+  ASSERT_NE(pipe, nullptr);
+  std::string echoed;
+  char buf[512];
+  std::size_t n = 0;
+  while ((n = std::fread(buf, 1, sizeof buf, pipe)) > 0) echoed.append(buf, n);
+  ASSERT_EQ(pclose(pipe), 0);
+  EXPECT_THAT(echoed, HasSubstr("\n" + dem + "\n"));
+}
