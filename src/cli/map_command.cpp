@@ -263,8 +263,9 @@ void add_model_layers(const MapOptions& o, terrain::MapRequest& req) {
       throw InputError("--aep-pass", "the first-year raster needs years",
                        "give --members FILE (with --fit) or --rise YEAR=M (repeat)");
     }
-    req.first_year =
-        terrain::FirstYearLayer{years, *o.aep_pass, model_label(*model) + " shifted by stated rises", o.scenario};
+    const StillWaterModel& m = *model;
+    req.first_year = terrain::FirstYearLayer{years, [m](double z) { return m.annual_exceedance_rate(z); }, *o.aep_pass,
+                                             model_label(m) + " shifted by stated rises", o.scenario};
   }
 }
 

@@ -62,6 +62,7 @@ terrain::FirstYearLayer first_year_layer(const extremes::StillWaterModel& presen
   fy.scenario = scenario;
   fy.description = "first year the AEP passes " + report::fixed(aep, 3) + ", scenario " + scenario;
   for (int y : years) fy.years.push_back({y, future_rate(present, conditions(rise, y, storminess))});
+  fy.today = [present](double z) { return present.annual_exceedance_rate(z); };
   return fy;
 }
 

@@ -361,15 +361,17 @@ MapSummary make_flood_maps(const MapRequest& req) {
   std::optional<FirstPassingYear> first;
   std::unique_ptr<GeoTiffWriter> first_writer;
   if (req.first_year) {
-    first.emplace(req.first_year->years, req.first_year->aep, lo, hi);
+    first.emplace(req.first_year->years, req.first_year->aep, lo, hi, req.first_year->today);
     Metadata m{{"AEP_PASSED", fixed(req.first_year->aep, 6)},
-               {"NEVER_VALUE", std::to_string(FirstPassingYear::never)}};
+               {"NEVER_VALUE", std::to_string(FirstPassingYear::never)},
+               {"ALREADY_TODAY_VALUE", std::to_string(FirstPassingYear::already_today)}};
     if (!req.first_year->scenario.empty()) m.emplace_back("SCENARIO", req.first_year->scenario);
     first_writer = std::make_unique<GeoTiffWriter>(
         dir / "first_year.tif", map.dem.grid, CellType::int16, FirstPassingYear::nodata,
         std::vector<BandInfo>{{"first year the cell's AEP reaches " +
                                    fixed(req.first_year->aep, 6) + " (" +
-                                   req.first_year->description + "); 0: not within the years given",
+                                   req.first_year->description + "); 0: not within the years given; 1: already "
+                                   "today",
                                "year", m}},
         common_metadata(req, map, "first year an AEP is passed"), req.format);
     s.files.emplace_back("first_year.tif");

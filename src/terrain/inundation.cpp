@@ -92,7 +92,7 @@ float AepLookup::operator()(float threshold_m) const noexcept {
 }
 
 FirstPassingYear::FirstPassingYear(const std::vector<YearlyRate>& years, double aep,
-                                   double lowest_m, double highest_m) {
+                                   double lowest_m, double highest_m, const RateFunction& today) {
   check_range(lowest_m, highest_m, "first-year raster");
   if (!(aep > 0.0 && aep < 1.0)) {
     throw InputError("first-year raster", "the AEP to pass is " + std::to_string(aep),
@@ -102,28 +102,29 @@ FirstPassingYear::FirstPassingYear(const std::vector<YearlyRate>& years, double 
     throw InputError("first-year raster", "no years given", "give at least one year");
   }
   const double target_rate = -std::log1p(-aep);  // N with 1 - exp(-N) = p*
+  // The highest level whose rate still reaches p*: -inf when none in range does, +inf when all do.
+  const auto critical = [&](const RateFunction& rate) {
+    const auto excess = [&](double z) { return rate(z) - target_rate; };
+    if (excess(lowest_m) < 0.0) return -inf;
+    if (excess(highest_m) >= 0.0) return inf;
+    // Bisection (Boost.Math roots.hpp) to 1e-9 m: robust for any monotone N.
+    const auto tolerance = [](double a, double b) { return std::abs(a - b) <= 1e-9; };
+    const auto [lo, hi] = boost::math::tools::bisect(excess, lowest_m, highest_m, tolerance);
+    (void)hi;
+    return lo;  // excess(lo) >= 0: the highest level known to pass
+  };
   int previous_year = std::numeric_limits<int>::min();
   for (const auto& y : years) {
-    if (y.year <= previous_year || y.year <= 0 || y.year > 32767) {
+    if (y.year <= previous_year || y.year <= already_today || y.year > 32767) {
       throw InputError("first-year raster",
                        "year " + std::to_string(y.year) + " is out of order or out of range",
-                       "give years in ascending order between 1 and 32767");
+                       "give years in ascending order between 2 and 32767");
     }
     previous_year = y.year;
     years_.push_back(y.year);
-    const auto excess = [&](double z) { return y.rate(z) - target_rate; };
-    if (excess(lowest_m) < 0.0) {
-      critical_m_.push_back(-inf);
-    } else if (excess(highest_m) >= 0.0) {
-      critical_m_.push_back(inf);
-    } else {
-      // Bisection (Boost.Math roots.hpp) to 1e-9 m: robust for any monotone N.
-      const auto tolerance = [](double a, double b) { return std::abs(a - b) <= 1e-9; };
-      const auto [lo, hi] = boost::math::tools::bisect(excess, lowest_m, highest_m, tolerance);
-      (void)hi;
-      critical_m_.push_back(lo);  // excess(lo) >= 0: the highest level known to pass
-    }
+    critical_m_.push_back(critical(y.rate));
   }
+  if (today) critical_today_m_ = critical(today);
 }
 
 std::int16_t FirstPassingYear::operator()(float threshold_m) const noexcept {
@@ -132,6 +133,7 @@ std::int16_t FirstPassingYear::operator()(float threshold_m) const noexcept {
   }
   if (threshold_m == std::numeric_limits<float>::infinity()) return never;
   const auto t = static_cast<double>(threshold_m);
+  if (t <= critical_today_m_) return already_today;
   for (std::size_t i = 0; i < years_.size(); ++i) {
     if (t <= critical_m_[i]) return static_cast<std::int16_t>(years_[i]);
   }

@@ -117,7 +117,8 @@ TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
 TEST(MapCommand, AepAndFirstYearFromAStatedRise) {
   // Gumbel mu 1.0, sigma 0.5: the bowl's threshold is 3 m. First year the AEP reaches 0.1:
   // c_t = mu + rise_t - sigma ln(-ln 0.9) = 1.0 + rise_t + 1.1252; with rises 0.5 (2050) and
-  // 1.0 (2100), the bowl (3 m) passes in 2100 and the beach (0.5 m) in 2050.
+  // 1.0 (2100), the bowl (3 m) passes in 2100; the beach (0.5 m) is below today's c_0 = 2.13 m,
+  // so it passes already today (code 1), not in the first year given.
   TempDir tmp;
   const auto dem = profile_dem(tmp);
   const auto out = tmp / "maps";
@@ -133,7 +134,7 @@ TEST(MapCommand, AepAndFirstYearFromAStatedRise) {
                                               nullptr),
             CE_None);
   EXPECT_EQ(std::vector<std::int16_t>(y.begin(), y.begin() + 5),
-            (std::vector<std::int16_t>{-32768, 2050, 2100, 2100, 2100}));
+            (std::vector<std::int16_t>{-32768, 1, 2100, 2100, 2100}));
   GDALDatasetUniquePtr aep(GDALDataset::Open((out / "aep.tif").c_str(), GDAL_OF_RASTER));
   ASSERT_TRUE(aep);
   EXPECT_EQ(aep->GetRasterCount(), 3);  // present day, 2050, 2100
@@ -285,13 +286,14 @@ TEST(MapCommand, AepAndLevelsFromProjectionMembers) {
   EXPECT_THAT(summary, HasSubstr(buf));
   std::snprintf(buf, sizeof buf, "\n%.4f,2050,two members,", z_2050);
   EXPECT_THAT(summary, HasSubstr(buf));
-  // First year (every 10 years from 2020) the AEP reaches 0.1: the beach (0.5 m) from the start;
+  // First year (every 10 years from 2020) the AEP reaches 0.1: the beach (0.5 m) already today
+  // (code 1; today's c_0 = 1 - 0.5 ln(-ln 0.9) = 2.13 m);
   // the 3 m cells never by 2100 (N_2100(3) = mean(exp(-(2 - d)/0.5)) = 0.093 < -ln 0.9 = 0.105).
   GDALDatasetUniquePtr first(GDALDataset::Open((out / "first_year.tif").c_str(), GDAL_OF_RASTER));
   ASSERT_TRUE(first);
   std::vector<std::int16_t> y(5);
   ASSERT_EQ(first->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, 5, 1, y.data(), 5, 1, GDT_Int16, 0, 0, nullptr), CE_None);
-  EXPECT_EQ(y, (std::vector<std::int16_t>{-32768, 2020, 0, 0, 0}));
+  EXPECT_EQ(y, (std::vector<std::int16_t>{-32768, 1, 0, 0, 0}));
 }
 
 TEST(MapCommand, ProjectionOptionsRefuseWhatDoesNotFit) {

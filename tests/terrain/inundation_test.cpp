@@ -105,6 +105,13 @@ TEST(Inundation, FirstYearFollowsGumbelCriticalLevels) {
   EXPECT_EQ(first(inf_f), tw::FirstPassingYear::never);
   EXPECT_EQ(first(-inf_f), tw::FirstPassingYear::nodata);
   EXPECT_EQ(first(nan_f), tw::FirstPassingYear::nodata);
+  // With today's rate (no rise), cells at or below c_0 = base pass already today (code 1),
+  // those between c_0 and c_2030 in 2030.
+  const tw::FirstPassingYear with_today(years, p, -2.0, 6.0,
+                                        [=](double z) { return std::exp(-(z - mu) / sigma); });
+  EXPECT_EQ(with_today(static_cast<float>(base - 0.01)), tw::FirstPassingYear::already_today);
+  EXPECT_EQ(with_today(static_cast<float>(base + 0.05)), 2030);
+  EXPECT_EQ(with_today(static_cast<float>(base + 0.7)), tw::FirstPassingYear::never);
 }
 
 TEST(Inundation, FirstYearRefusesBadRequests) {

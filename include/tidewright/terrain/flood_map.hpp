@@ -45,6 +45,7 @@ struct AepLayer {
 
 struct FirstYearLayer {
   std::vector<YearlyRate> years;
+  RateFunction today;  // today's rate: cells passing under it are "already today" (code 1)
   double aep = 0.01;
   std::string description;
   std::string scenario;

@@ -11,6 +11,7 @@
 #include <cstddef>
 #include <cstdint>
 #include <functional>
+#include <limits>
 #include <vector>
 
 namespace tidewright::terrain {
@@ -70,8 +71,11 @@ class FirstPassingYear {
  public:
   static constexpr std::int16_t nodata = -32768;  // sea and nodata cells
   static constexpr std::int16_t never = 0;        // land that does not reach p* in the years given
+  static constexpr std::int16_t already_today = 1;  // land whose AEP reaches p* under today's rate
+  // `today`, when given, is today's rate: cells that pass under it are already_today, not the
+  // first projected year.
   FirstPassingYear(const std::vector<YearlyRate>& years, double aep, double lowest_m,
-                   double highest_m);
+                   double highest_m, const RateFunction& today = {});
   [[nodiscard]] std::int16_t operator()(float threshold_m) const noexcept;
   // c_t per year: -inf when no land in range reaches p*, +inf when all of it does.
   [[nodiscard]] const std::vector<double>& critical_levels_m() const noexcept {
@@ -82,6 +86,7 @@ class FirstPassingYear {
  private:
   std::vector<int> years_;
   std::vector<double> critical_m_;
+  double critical_today_m_ = -std::numeric_limits<double>::infinity();
 };
 
 }  // namespace tidewright::terrain
