@@ -152,22 +152,23 @@ std::string short_number(double v) {
 }  // namespace
 
 void check_projection_inputs(const ProjectionRequest& r, const climate::Scenario* scenario) {
+  const auto& names = r.input_names;
   if (r.members <= 0) {
-    throw InputError("--samples", "is " + std::to_string(r.members) + ", not a positive count",
+    throw InputError(names.members, "is " + std::to_string(r.members) + ", not a positive count",
                      "give the number of Monte Carlo members, e.g. 2000");
   }
   if (r.members > max_members) {
-    throw InputError("--samples",
+    throw InputError(names.members,
                      "is " + std::to_string(r.members) + ", above the limit of " +
                          std::to_string(max_members) + " members (memory grows with members x years)",
                      "give fewer members (the default is 2,000)");
   }
   if (r.accept_extreme_inputs) return;
-  const std::string accept = " or pass --accept-extreme to run it on purpose";
+  const std::string accept = " or " + names.accept_extreme + " to run it on purpose";
   const auto& lm = r.local.land_motion;
   for (const double v : {lm.uplift_mm_per_yr, lm.uplift_sd_mm_per_yr}) {
     if (!std::isfinite(v) || std::abs(v) > max_abs_land_motion_mm_per_yr) {
-      throw InputError(v == lm.uplift_mm_per_yr ? "--land-motion" : "--land-motion-sd",
+      throw InputError(v == lm.uplift_mm_per_yr ? names.land_motion : names.land_motion_sd,
                        "is " + short_number(v) + " mm/yr, beyond any measured vertical land motion (" +
                            short_number(max_abs_land_motion_mm_per_yr) + " mm/yr at most)",
                        "give the rate in mm/yr (positive = uplift)" + accept);
@@ -194,7 +195,7 @@ void check_projection_inputs(const ProjectionRequest& r, const climate::Scenario
 ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
   check_projection_inputs(r, nullptr);
   if (r.last_year <= r.first_year) {
-    throw InputError("--years", "the last year is not after the first", "give a span such as 2020-2150");
+    throw InputError(r.input_names.years, "the last year is not after the first", "give a span such as 2020-2150");
   }
   ProjectionStageResult out;
   const bool high_end = r.storyline == climate::IceStoryline::high_end_ice;

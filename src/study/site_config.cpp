@@ -121,6 +121,7 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
     require(c.projection.end_year > c.projection.start_year, *pr, "end_year", "is not after start_year",
             "give an end year after the start year");
     c.projection.reference = pr->optional_string("reference").value_or(c.projection.reference);
+    c.projection.accept_extreme = pr->optional_boolean("accept_extreme").value_or(false);
     pr->finish();
   }
 

@@ -118,6 +118,12 @@ ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings
   r.first_year = c.projection.start_year;
   r.last_year = c.projection.end_year;
   r.members = c.projection.members;
+  r.accept_extreme_inputs = c.projection.accept_extreme;
+  r.input_names.members = field_location(c.file.string(), "projection.members");
+  r.input_names.years = field_location(c.file.string(), "projection.start_year/end_year");
+  r.input_names.land_motion = field_location(c.file.string(), "local.land_motion_mm_per_yr");
+  r.input_names.land_motion_sd = field_location(c.file.string(), "local.land_motion_sd_mm_per_yr");
+  r.input_names.accept_extreme = "set projection.accept_extreme = true";
   r.seed = c.seed + index;  // each scenario its own stream, reproducible
   r.reference = climate::parse_year_span(c.projection.reference,
                                          field_location(c.file.string(), "projection.reference"));

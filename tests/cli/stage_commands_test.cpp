@@ -271,3 +271,25 @@ TEST(StageCommands, HighEndIceStorylineIsLabelledAndReachesAboutTwoMetres) {
                                 " --storyline high-end-ice"),
                         "--storyline: applies to forcing-driven projections");
 }
+
+// In a study, library errors name the site-file keys the user wrote, not command flags they
+// never typed: detrending set on annual maxima, and a land motion beyond the physical range
+// (with the site file's way to accept it on purpose).
+TEST(StageCommands, StudyErrorsNameTheSiteFileKeys) {
+  TempDir dir;
+  const std::string portpirie = std::string(TIDEWRIGHT_SOURCE_DIR) + "/tests/reference/data/portpirie.csv";
+  const auto site = [&](const std::string& record_extra, const std::string& tail) {
+    tidewright::write_text_file(dir / "site.toml",
+                                "[site]\nname = \"Test\"\nwater_level_datum = \"test datum\"\n\n[record]\npath = \"" +
+                                    portpirie + "\"\nkind = \"annual_maxima\"\nlevel_column = \"level_m\"\n" +
+                                    record_extra + "\n[[scenario]]\nname = \"mid\"\npathway = \"midway\"\n" + tail,
+                                true);
+    return "study " + shell_quote((dir / "site.toml").string()) + " --quiet --out " + shell_quote((dir / "out").string());
+  };
+  expect_one_line_error(run_cli(site("detrend = \"linear\"\n", "")),
+                        "site.toml: record.detrend: removes a mean-sea-level trend from a water-level series");
+  const auto motion = run_cli(site("detrend = \"none\"\n", "\n[local]\nland_motion_mm_per_yr = 1e300\n"));
+  expect_one_line_error(motion, "site.toml: local.land_motion_mm_per_yr: is 1e+300 mm/yr");
+  EXPECT_THAT(motion.err, HasSubstr("set projection.accept_extreme = true to run it on purpose"));
+  EXPECT_THAT(motion.err, ::testing::Not(HasSubstr("--")));
+}

@@ -41,6 +41,15 @@ struct ProjectionRequest {
   // only; the label says so in every output). `storyline_input` names the caller's option.
   climate::IceStoryline storyline = climate::IceStoryline::assessed;
   std::string storyline_input = "--storyline";
+  // How the caller names these inputs in messages: the command's flags by default, the site
+  // file's keys in a study.
+  struct InputNames {
+    std::string members = "--samples";
+    std::string years = "--first-year/--last-year";
+    std::string land_motion = "--land-motion";
+    std::string land_motion_sd = "--land-motion-sd";
+    std::string accept_extreme = "pass --accept-extreme";
+  } input_names;
 };
 
 // Physical ranges of projection inputs (docs/bad-inputs.md states them with their sources).

@@ -59,6 +59,7 @@ struct ProjectionSettings {
   int start_year = 2020;
   int end_year = 2150;
   std::string reference = "1995-2014";  // "YYYY" or "YYYY-YYYY"
+  bool accept_extreme = false;  // project's --accept-extreme: inputs outside the physical ranges on purpose
 };
 
 struct LocalSettings {
