@@ -45,6 +45,9 @@ int main(int argc, char** argv) {
   cli::CommonOptions common;
   for (const auto& command : cli::registered_commands()) {
     CLI::App* sub = app.add_subcommand(command.name, command.summary);
+    // One line, not the whole block on every page: the cautions are on 'tidewright --help'.
+    sub->footer("Results are planning estimates for review by a licensed coastal engineer against local codes; "
+                "'tidewright --help' lists the cautions.");
     command.configure(*sub, common);
   }
 

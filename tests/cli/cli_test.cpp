@@ -17,6 +17,18 @@ TEST(Cli, HelpListsCautionsAndExitsZero) {
   EXPECT_THAT(r.out, HasSubstr("Not for navigation"));
 }
 
+// A command's help lists its options and points to the cautions in one line, instead of
+// repeating the whole block on every page.
+TEST(Cli, CommandHelpPointsToTheCautionsInOneLine) {
+  for (const char* command : {"fit", "project", "allowance", "amplify", "map", "study", "demo"}) {
+    const auto r = run_cli(std::string(command) + " --help");
+    EXPECT_EQ(r.exit_code, 0) << command;
+    EXPECT_THAT(r.out, HasSubstr("--help")) << command;
+    EXPECT_THAT(r.out, HasSubstr("'tidewright --help' lists the cautions")) << command;
+    EXPECT_THAT(r.out, ::testing::Not(HasSubstr("Not for navigation"))) << command;
+  }
+}
+
 TEST(Cli, VersionPrintsProjectVersion) {
   const auto r = run_cli("--version");
   EXPECT_EQ(r.exit_code, 0);
