@@ -247,7 +247,31 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     const Json allowances = allowance_json(run.inputs, run.allowances, "projection.members");
     sj["allowances"] = allowances["allowances"];
     sj["warnings"] = allowances["warnings"];
-    for (const auto& w : allowances["warnings"]) ensemble_warnings.push_back(display_name(run.settings) + ": " + w.get<std::string>());
+    // One line per scenario and kind in the report (the JSON keeps one warning per row).
+    std::string few;
+    std::string beyond;
+    for (const auto& r : run.allowances) {
+      const auto& a = r.allowance;
+      const std::string row = fixed(a.return_period_yr, 0) + "-year in " + std::to_string(a.first_year);
+      if (a.monte_carlo.few_effective_members()) {
+        few += (few.empty() ? "" : ", ") + row + " (" + fixed(a.monte_carlo.effective_sample_size, 0) + ")";
+      }
+      if (a.beyond_range_fraction > 0.0) {
+        beyond += (beyond.empty() ? "" : ", ") + row + " (" + fixed(100.0 * a.beyond_range_fraction, 1) + " %)";
+      }
+    }
+    if (!few.empty()) {
+      ensemble_warnings.push_back(display_name(run.settings) +
+                                  ": allowances that rest on fewer than 100 effective members (their Monte Carlo "
+                                  "error is in the table): " + few + "; more members (projection.members) settle them");
+    }
+    if (!beyond.empty()) {
+      ensemble_warnings.push_back(display_name(run.settings) +
+                                  ": allowances set by members whose rise takes today's level below the fitted "
+                                  "model's lower end point (share of members): " + beyond +
+                                  "; such an allowance can exceed a longer return period's, and a peaks-over-threshold "
+                                  "fit answers for frequent levels");
+    }
     sj["notes"] = run.inputs.notes;
     for (const auto& r : run.allowances) {
       const auto& a = r.allowance;
