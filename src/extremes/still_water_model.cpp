@@ -390,6 +390,15 @@ std::string_view family_name(Family family) {
   return "unknown";
 }
 
+StillWaterModel StillWaterModel::squared_rates() const {
+  StillWaterModel m = *this;
+  m.scale_m = 0.5 * scale_m;
+  m.shape = 0.5 * shape;
+  m.rate_per_yr = rate_per_yr * rate_per_yr;
+  for (double& r : m.below_threshold.rate_per_yr) r *= r;
+  return m;
+}
+
 double StillWaterModel::annual_exceedance_rate(double level_m) const {
   const double xi = family == Family::gumbel ? 0.0 : shape;
   if (family != Family::gpd) return tail_power((level_m - location_m) / scale_m, xi);

@@ -83,6 +83,10 @@ bool smooth_rate_curve(const extremes::StillWaterModel& m) {
 MonteCarloError allowance_error(const extremes::StillWaterModel& present, std::span<const YearConditions> years,
                                 double raised_level_m) {
   const RiseDistribution& first = years.front().rise;
+  if (years.size() == 1 && !years.front().storminess.active()) {
+    // One year: every figure from batch sums, without a pass member by member.
+    return rate_mean_error(present, years.front(), raised_level_m);
+  }
   std::vector<double> per_member(first.size(), 0.0);
   std::vector<double> rates(first.size());
   double slope = 0.0;
@@ -169,14 +173,7 @@ Allowance solve(const extremes::StillWaterModel& present, std::span<const YearCo
   Allowance a = solve_root(present, years, pooled, level_m, options);
   a.monte_carlo = allowance_error(present, years, level_m + a.allowance_m);
   double beyond = 0.0;
-  std::vector<double> rates;
-  for (const auto& c : years) {
-    rates.resize(c.rise.size());
-    node_rates(present, c, level_m, rates);
-    for (std::size_t i = 0; i < rates.size(); ++i) {
-      if (!std::isfinite(rates[i])) beyond += c.rise.weight[i];
-    }
-  }
+  for (const auto& c : years) beyond += beyond_range_share(present, c, level_m);
   a.beyond_range_fraction = beyond / static_cast<double>(years.size());
   return a;
 }

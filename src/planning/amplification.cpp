@@ -19,7 +19,7 @@ double reciprocal_period(double rate) {
 }  // namespace
 
 Amplification amplification(const extremes::StillWaterModel& present, const YearConditions& conditions,
-                            double level_m) {
+                            double level_m, const AmplificationOptions& options) {
   if (!std::isfinite(level_m)) throw InputError("level", "is not a finite number", "give a level in metres");
   Amplification a;
   a.year = conditions.year;
@@ -29,28 +29,49 @@ Amplification amplification(const extremes::StillWaterModel& present, const Year
   a.present_return_period_yr = reciprocal_period(a.present_rate_per_yr);
   a.future_return_period_yr = reciprocal_period(a.future_rate_per_yr);
   a.present_rate_is_zero = !(a.present_rate_per_yr > 0.0);
-  std::vector<double> rates(conditions.rise.size());
-  node_rates(present, conditions, level_m, rates);
-  const bool annual_maxima = present.family != extremes::Family::gpd;
-  double beyond = 0.0;
-  double bound = 0.0;
-  double aep = 0.0;
-  bool any_above_one = false;
-  for (std::size_t i = 0; i < rates.size(); ++i) {
-    const double w = conditions.rise.weight[i];
-    if (!std::isfinite(rates[i])) beyond += w;
-    any_above_one = any_above_one || rates[i] > 1.0;
-    bound += w * std::min(rates[i], 1.0);
-    aep += w * -std::expm1(-rates[i]);
-  }
-  a.beyond_range_fraction = beyond;
-  a.future_aep = aep;
   a.present_aep = annual_exceedance_probability(a.present_rate_per_yr);
-  a.beyond_annual_maxima_range = annual_maxima && any_above_one;
-  a.rate_lower_bound_per_yr = a.beyond_annual_maxima_range ? bound : a.future_rate_per_yr;
-  if (beyond == 0.0 && !a.present_rate_is_zero) {
-    a.monte_carlo = scaled(weighted_mean_error(rates, conditions.rise.weight, conditions.rise.kind == "members"),
-                           1.0 / a.present_rate_per_yr);
+  a.beyond_range_fraction = beyond_range_share(present, conditions, level_m);
+  const RiseDistribution& rise = conditions.rise;
+  const bool annual_maxima = present.family != extremes::Family::gpd;
+  if (conditions.storminess.active() || options.future_aep) {
+    // Member by member: under a storminess change N_0 is not monotone in the rise.
+    std::vector<double> rates(rise.size());
+    node_rates(present, conditions, level_m, rates);
+    double bound = 0.0;
+    double aep = 0.0;
+    bool any_above_one = false;
+    for (std::size_t i = 0; i < rates.size(); ++i) {
+      any_above_one = any_above_one || rates[i] > 1.0;
+      bound += rise.weight[i] * std::min(rates[i], 1.0);
+      aep += rise.weight[i] * -std::expm1(-rates[i]);
+    }
+    a.future_aep = options.future_aep ? aep : std::numeric_limits<double>::quiet_NaN();
+    a.beyond_annual_maxima_range = annual_maxima && any_above_one;
+    a.rate_lower_bound_per_yr = a.beyond_annual_maxima_range ? bound : a.future_rate_per_yr;
+  } else {
+    // N_0 falls with z, so the member with the largest rise has the largest rate; for annual
+    // maxima N_0(mu) = 1, so a member's rate exceeds 1 exactly when z - delta_i < mu.
+    a.future_aep = std::numeric_limits<double>::quiet_NaN();
+    a.beyond_annual_maxima_range = annual_maxima && present.annual_exceedance_rate(level_m - rise.max_m()) > 1.0;
+    a.rate_lower_bound_per_yr = a.future_rate_per_yr;
+    if (a.beyond_annual_maxima_range) {
+      std::vector<double> below;
+      std::vector<double> below_weight;
+      double above_one_weight = 0.0;
+      for (std::size_t i = 0; i < rise.size(); ++i) {
+        if (level_m - rise.rise_m[i] < present.location_m) {
+          above_one_weight += rise.weight[i];
+        } else {
+          below.push_back(rise.rise_m[i]);
+          below_weight.push_back(rise.weight[i]);
+        }
+      }
+      a.rate_lower_bound_per_yr =
+          above_one_weight + (below.empty() ? 0.0 : present.weighted_shifted_rates(level_m, below, below_weight, false).rate);
+    }
+  }
+  if (a.beyond_range_fraction == 0.0 && !a.present_rate_is_zero) {
+    a.monte_carlo = scaled(rate_mean_error_of_rate(present, conditions, level_m), 1.0 / a.present_rate_per_yr);
   }
   // AF = N_t(z) / N_0(z) (IPCC AR5 WG1 ch. 13; Buchanan et al. 2017).
   a.amplification_factor = a.present_rate_is_zero
@@ -66,8 +87,9 @@ double Amplification::quotable_factor() const {
 }
 
 Amplification amplification_of_return_level(const extremes::StillWaterModel& present,
-                                            const YearConditions& conditions, double return_period_yr) {
-  Amplification a = amplification(present, conditions, present_return_level(present, return_period_yr));
+                                            const YearConditions& conditions, double return_period_yr,
+                                            const AmplificationOptions& options) {
+  Amplification a = amplification(present, conditions, present_return_level(present, return_period_yr), options);
   a.present_return_period_yr = return_period_yr;  // exact by construction, not 1/(1/T) in floating point
   return a;
 }

@@ -157,6 +157,71 @@ extremes::RateDerivatives future_exceedance_rate_derivatives(const extremes::Sti
   return sum;
 }
 
+namespace {
+
+// S, dS/dz and SE(S) of the members' mean rate; member by member under a storminess change.
+struct RateMean {
+  MonteCarloError error;  // standard_error: of S
+  double slope = 0.0;
+};
+
+RateMean rate_mean(const extremes::StillWaterModel& present, const YearConditions& c, double level_m,
+                   bool slope = true) {
+  RateMean out;
+  const RiseDistribution& rise = c.rise;
+  out.error.sampled = rise.kind == "members";
+  if (!out.error.sampled || rise.size() < 2) return out;
+  if (c.storminess.active()) {
+    std::vector<double> rates(rise.size());
+    node_rates(present, c, level_m, rates);
+    out.error = weighted_mean_error(rates, rise.weight, true);
+    out.slope = future_exceedance_rate_derivatives(present, c, level_m).first;
+    return out;
+  }
+  const extremes::RateDerivatives s = present.weighted_shifted_rates(level_m, rise.rise_m, rise.weight, slope);
+  const double q = present.squared_rates().weighted_shifted_rates(level_m, rise.rise_m, rise.weight, false).rate;
+  out.slope = s.first;
+  if (!(s.rate > 0.0) || !std::isfinite(s.rate) || !std::isfinite(q)) return out;
+  const auto n = static_cast<double>(rise.size());
+  // Equal weights 1/n: sum c = S, sum c^2 = Q/n, SE(S)^2 = (Q - S^2)/(n - 1) (monte_carlo_error.hpp).
+  out.error.standard_error = std::sqrt(std::max(0.0, q - s.rate * s.rate) / (n - 1.0));
+  out.error.effective_sample_size = n * s.rate * s.rate / q;
+  out.error.heaviest_share = present.annual_exceedance_rate(level_m - rise.max_m()) / (n * s.rate);
+  return out;
+}
+
+}  // namespace
+
+MonteCarloError rate_mean_error(const extremes::StillWaterModel& present, const YearConditions& conditions,
+                                double level_m) {
+  const RateMean m = rate_mean(present, conditions, level_m);
+  return through_root(m.error, m.slope);
+}
+
+MonteCarloError rate_mean_error_of_rate(const extremes::StillWaterModel& present, const YearConditions& conditions,
+                                        double level_m) {
+  return rate_mean(present, conditions, level_m, false).error;
+}
+
+double beyond_range_share(const extremes::StillWaterModel& present, const YearConditions& conditions, double level_m) {
+  const RiseDistribution& rise = conditions.rise;
+  if (conditions.storminess.active()) {
+    std::vector<double> rates(rise.size());
+    node_rates(present, conditions, level_m, rates);
+    double share = 0.0;
+    for (std::size_t i = 0; i < rates.size(); ++i) {
+      if (!std::isfinite(rates[i])) share += rise.weight[i];
+    }
+    return share;
+  }
+  if (present.family != extremes::Family::gev || !(present.shape > 0.0)) return 0.0;
+  // 1 + xi (z - delta - mu)/sigma <= 0  <=>  delta >= z - mu + sigma/xi (xi > 0).
+  const double cut = level_m - present.location_m + present.scale_m / present.shape;
+  double share = 0.0;
+  for (std::size_t i = 0; i < rise.size(); ++i) share += rise.rise_m[i] >= cut ? rise.weight[i] : 0.0;
+  return share;
+}
+
 double annual_exceedance_probability(double rate_per_yr) {
   // P(at least one event in a year) = 1 - exp(-N) for Poisson occurrence (Coles 2001, §4.4).
   return -std::expm1(-rate_per_yr);

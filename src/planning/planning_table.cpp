@@ -67,7 +67,10 @@ std::vector<Amplification> amplification_table(const extremes::StillWaterModel& 
   return fill_table<Amplification>(years.size(), return_periods_yr.size(), threads, [&](std::size_t y) {
     std::vector<Amplification> row;
     row.reserve(return_periods_yr.size());
-    for (const double t : return_periods_yr) row.push_back(amplification_of_return_level(present, years[y], t));
+    // Bulk tables leave future_aep out (a pass member by member per row).
+    for (const double t : return_periods_yr) {
+      row.push_back(amplification_of_return_level(present, years[y], t, AmplificationOptions{false}));
+    }
     return row;
   });
 }

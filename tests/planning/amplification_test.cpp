@@ -105,3 +105,34 @@ TEST(Amplification, MembersBeyondTheLowerEndPointGiveABoundNotInfinity) {
   for (double x : {0.0, 0.1, 0.2}) aep += -std::expm1(-m.annual_exceedance_rate(3.0 - x)) / 3.0;
   EXPECT_NEAR(b.future_aep, aep, 1e-15);
 }
+
+// The batch path (AmplificationOptions{false}: bounds, shares and Monte Carlo error from batch
+// sums, the squared-rate model and the ordering of N_0) against the member-by-member path, on
+// 2,001 members of a GEV with a lower end point, at levels inside and beyond its range.
+TEST(Amplification, BatchPathMatchesMemberByMember) {
+  const tidewright::extremes::StillWaterModel m = tidewright::testing::gev(2.0, 0.15, 0.25);
+  const auto draws = tidewright::testing::normal_draws(2001, 0.4, 0.25, 7);
+  const Eigen::VectorXd d = Eigen::Map<const Eigen::VectorXd>(draws.data(), 2001);
+  const YearConditions c{2100, RiseDistribution::members(d), {}};
+  for (const double z : {1.9, 2.3, 2.8, 3.5}) {
+    const Amplification full = amplification(m, c, z);
+    const Amplification fast = amplification(m, c, z, AmplificationOptions{false});
+    EXPECT_EQ(fast.beyond_annual_maxima_range, full.beyond_annual_maxima_range) << z;
+    EXPECT_DOUBLE_EQ(fast.beyond_range_fraction, full.beyond_range_fraction) << z;
+    EXPECT_NEAR(fast.rate_lower_bound_per_yr, full.rate_lower_bound_per_yr, 1e-12 * full.rate_lower_bound_per_yr) << z;
+    EXPECT_TRUE(std::isnan(fast.future_aep));
+    // The error from sums (Q - S^2) against the spread of the members' own rates.
+    std::vector<double> rates(c.rise.size());
+    node_rates(m, c, z, rates);
+    const MonteCarloError direct = weighted_mean_error(rates, c.rise.weight, true);
+    if (full.beyond_range_fraction == 0.0) {
+      EXPECT_NEAR(fast.monte_carlo.standard_error * m.annual_exceedance_rate(z), direct.standard_error,
+                  1e-7 * direct.standard_error)
+          << z;
+      EXPECT_NEAR(fast.monte_carlo.effective_sample_size, direct.effective_sample_size,
+                  1e-7 * direct.effective_sample_size)
+          << z;
+      EXPECT_NEAR(fast.monte_carlo.heaviest_share, direct.heaviest_share, 1e-9) << z;
+    }
+  }
+}

@@ -66,6 +66,11 @@ struct StillWaterModel {
                                                        std::span<const double> weight, bool derivatives) const;
   // The level z with N_0(z) = rate (the inverse of the above, where it exists).
   [[nodiscard]] double level_for_rate(double rate_per_yr) const;
+  // A model whose rate is this one's squared, N'(z) = N_0(z)^2, so that weighted sums of squared
+  // rates (Monte Carlo errors) use the same batch kernel: [1 + xi y]^(-2/xi) is the tail of
+  // scale sigma/2 and shape xi/2 at y' = 2y (Gumbel: exp(-2y)); a GPD's rate becomes lambda_u^2,
+  // and the empirical curve below its threshold, log-linear, squares point by point.
+  [[nodiscard]] StillWaterModel squared_rates() const;
 };
 
 // The builds of StillWaterModel::weighted_shifted_rates this processor runs, the one it uses

@@ -17,6 +17,7 @@
 #include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/local/quantile_table.hpp"
 #include "tidewright/local/rise_ensemble.hpp"
+#include "tidewright/planning/monte_carlo_error.hpp"
 #include "tidewright/planning/rise_distribution.hpp"
 
 namespace tidewright::planning {
@@ -87,6 +88,24 @@ void node_rates(const extremes::StillWaterModel& present, const YearConditions& 
 [[nodiscard]] extremes::RateDerivatives future_exceedance_rate_derivatives(const extremes::StillWaterModel& present,
                                                                            const YearConditions& conditions,
                                                                            double level_m);
+
+// The Monte Carlo error of N_t(z) as a weighted mean over equal-weight members
+// (monte_carlo_error.hpp), from batch sums: S = sum w r with its slope dS/dz, Q = sum w r^2
+// through StillWaterModel::squared_rates, the heaviest member at the largest rise (N_0 is
+// non-increasing); SE(S) = sqrt((Q - S^2)/(n - 1)). `standard_error` is that of S divided by
+// |dS/dz|, the error of a level found by a root of S (the allowance); scale it by 1/N_0 for a
+// factor. Member by member when the storminess changes. Not sampled for quadrature nodes.
+[[nodiscard]] MonteCarloError rate_mean_error(const extremes::StillWaterModel& present,
+                                              const YearConditions& conditions, double level_m);
+// Its standard error of S itself (per yr), for a factor N_t/N_0.
+[[nodiscard]] MonteCarloError rate_mean_error_of_rate(const extremes::StillWaterModel& present,
+                                                      const YearConditions& conditions, double level_m);
+
+// The weight of the nodes whose rise takes z below the lower end point of an annual-maxima
+// model with xi > 0, where N_0(z - delta_i) is infinite: from the support, 1 + xi (z - delta -
+// mu)/sigma <= 0, without evaluating rates (node by node when the storminess changes).
+[[nodiscard]] double beyond_range_share(const extremes::StillWaterModel& present, const YearConditions& conditions,
+                                        double level_m);
 
 // Annual exceedance probability from a rate, 1 - exp(-N) under Poisson occurrence
 // (Coles 2001, §4.4), by expm1 so that small rates keep their digits.
