@@ -359,7 +359,7 @@ void print_summary(const terrain::MapSummary& s, const std::string& out) {
       const auto at = std::find(labels.begin(), labels.end(), label) - labels.begin();
       return "S" + std::to_string(at + 1);
     };
-    report::TextTable t({"level_m", "year", "scenario", "flooded_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
+    report::TextTable t({"level_m", "year", "scenario", "connected_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
                          "disconnected_cells", "disconnected_area_m2"});
     for (const auto& l : s.levels) {
       t.add_row({report::fixed(l.level.level_m, 3),
