@@ -1,5 +1,7 @@
 // tidewright allowance: how much to raise an asset so that it is exceeded no more often than
 // today (Hunter 2012), and the design-life risk of given heights.
+#include <array>
+#include <cmath>
 #include <iostream>
 #include <sstream>
 
@@ -23,6 +25,46 @@ struct AllowanceArgs {
   unsigned long long seed = default_seed;
   std::string json, csv;
 };
+
+// allowance --csv: one table for every kind of row (a year's allowance, a design-life
+// allowance, a design-life risk, the target height), the same columns for all, a cell empty
+// where a row has no such number (docs/file-formats.md).
+constexpr const char* csv_header =
+    "kind,year,first_year,last_year,return_period_yr,present_level_m,allowance_m,allowance_se_m,effective_members,"
+    "heaviest_member_share,design_level_m,mean_rise_m,sd_rise_m,allowance_rise_cut_p99_9_m,allowance_rise_cut_p99_m,"
+    "members_beyond_model_range_fraction,height_m,probability,probability_se,expected_years_with_exceedance,method\n";
+enum CsvColumn : std::size_t {
+  kind, year, first_year, last_year, return_period, present_level, allowance_m, allowance_se, effective, heaviest,
+  design_level, mean_rise, sd_rise, cut_999, cut_99, beyond, height, probability, probability_se, expected_years,
+  method, column_count
+};
+using CsvCells = std::array<std::string, column_count>;
+
+std::string csv_line(const CsvCells& cells) {
+  std::string line;
+  for (std::size_t i = 0; i < cells.size(); ++i) line += (i == 0 ? "" : ",") + cells[i];
+  return line + "\n";
+}
+
+std::string number(double v, int decimals = 4) { return std::isfinite(v) ? report::fixed(v, decimals) : std::string(); }
+
+// The cells an allowance fills, for a year's row and a design life's.
+void put_allowance(CsvCells& c, const planning::Allowance& al) {
+  const auto& mc = al.monte_carlo;
+  c[return_period] = number(al.return_period_yr, 6);
+  c[present_level] = number(al.present_level_m);
+  c[allowance_m] = number(al.allowance_m);
+  if (mc.sampled) {
+    c[allowance_se] = number(mc.standard_error);
+    c[effective] = number(mc.effective_sample_size, 1);
+    c[heaviest] = number(mc.heaviest_share);
+  }
+  c[design_level] = number(al.present_level_m + al.allowance_m);
+  c[mean_rise] = number(al.mean_rise_m);
+  c[sd_rise] = number(al.sd_rise_m);
+  c[beyond] = number(al.beyond_range_fraction, 6);
+  c[method] = al.method;
+}
 
 void configure(CLI::App& app, CommonOptions& common) {
   auto a = std::make_shared<AllowanceArgs>();
@@ -62,9 +104,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     if (a->draws > 0) head.emplace_back("allowance 5-95% over parameters (m)");
     report::TextTable t(head);
     std::ostringstream csv;
-    csv << "year,return_period_yr,present_level_m,allowance_m,allowance_se_m,effective_members,heaviest_member_share,"
-           "design_level_m,mean_rise_m,sd_rise_m,allowance_rise_cut_p99_9_m,allowance_rise_cut_p99_m,"
-           "members_beyond_model_range_fraction,method\n";
+    csv << csv_header;
     for (const auto& r : rows) {
       const auto& al = r.allowance;
       const auto& mc = al.monte_carlo;
@@ -75,18 +115,13 @@ void configure(CLI::App& app, CommonOptions& common) {
                                    report::fixed(al.mean_rise_m, 3), report::fixed(al.sd_rise_m, 3)};
       if (r.range) row.push_back(report::fixed(r.range->lower, 3) + " to " + report::fixed(r.range->upper, 3));
       t.add_row(row);
-      csv << al.first_year << ',' << al.return_period_yr << ',' << report::fixed(al.present_level_m, 4) << ','
-          << report::fixed(al.allowance_m, 4) << ',';
-      if (mc.sampled) {
-        csv << report::fixed(mc.standard_error, 4) << ',' << report::fixed(mc.effective_sample_size, 1) << ','
-            << report::fixed(mc.heaviest_share, 4) << ',';
-      } else {
-        csv << ",,,";
-      }
-      csv << report::fixed(al.present_level_m + al.allowance_m, 4) << ','
-          << report::fixed(al.mean_rise_m, 4) << ',' << report::fixed(al.sd_rise_m, 4) << ','
-          << report::fixed(r.cut_at_p999_m, 4) << ',' << report::fixed(r.cut_at_p99_m, 4) << ','
-          << al.beyond_range_fraction << ',' << al.method << '\n';
+      CsvCells cells;
+      cells[kind] = "allowance";
+      cells[year] = std::to_string(al.first_year);
+      put_allowance(cells, al);
+      cells[cut_999] = number(r.cut_at_p999_m);
+      cells[cut_99] = number(r.cut_at_p99_m);
+      csv << csv_line(cells);
     }
     o << t.render();
     o << "\nHow much is the top of the rise distribution (allowance with the rise cut at a percentile):\n";
@@ -109,8 +144,15 @@ void configure(CLI::App& app, CommonOptions& common) {
       for (double period : a->periods) {
         const auto al = planning::design_life_allowance(in.fit.model, span, period);
         d.add_row({report::fixed(period, 0), report::fixed(al.present_level_m, 3), report::fixed(al.allowance_m, 3)});
+        CsvCells cells;
+        cells[kind] = "design_life_allowance";
+        cells[first_year] = std::to_string(first);
+        cells[last_year] = std::to_string(last);
+        put_allowance(cells, al);
+        csv << csv_line(cells);
         dl.push_back({{"return_period", period}, {"present_level_m", al.present_level_m},
-                      {"allowance_m", al.allowance_m}, {"method", al.method}});
+                      {"allowance_m", al.allowance_m}, {"monte_carlo", study::monte_carlo_json(al.monte_carlo, "m")},
+                      {"members_beyond_model_range_fraction", al.beyond_range_fraction}, {"method", al.method}});
       }
       o << d.render();
       life["allowances"] = dl;
@@ -125,6 +167,16 @@ void configure(CLI::App& app, CommonOptions& common) {
                       report::fixed(study::expected_count(in.fit.model, r), 3),
                       report::fixed(100.0 * r.beyond_range_fraction, 2)});
           risks.push_back(study::design_life_risk_json(r));
+          CsvCells cells;
+          cells[kind] = "design_life_risk";
+          cells[first_year] = std::to_string(first);
+          cells[last_year] = std::to_string(last);
+          cells[height] = number(h);
+          cells[probability] = number(r.probability, 8);
+          if (r.monte_carlo.sampled) cells[probability_se] = number(r.monte_carlo.standard_error, 8);
+          cells[expected_years] = number(r.expected_years_with_exceedance, 6);
+          cells[beyond] = number(r.beyond_range_fraction, 6);
+          csv << csv_line(cells);
         }
         o << rt.render();
       }
@@ -134,6 +186,13 @@ void configure(CLI::App& app, CommonOptions& common) {
         o << "Height with a " << report::fixed(*a->target_risk * 100, 1) << "% chance of at least one exceedance in "
           << first << "-" << last << ": " << report::fixed(h.level_m, 3) << " m\n";
         life["target"] = {{"probability", *a->target_risk}, {"height_m", h.level_m}};
+        CsvCells cells;
+        cells[kind] = "design_life_target";
+        cells[first_year] = std::to_string(first);
+        cells[last_year] = std::to_string(last);
+        cells[height] = number(h.level_m);
+        cells[probability] = number(*a->target_risk, 8);
+        csv << csv_line(cells);
       }
       j["design_life"] = life;
     }

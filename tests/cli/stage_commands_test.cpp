@@ -4,6 +4,9 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include <cstdio>
+#include <sstream>
+
 #include <cmath>
 #include <nlohmann/json.hpp>
 
@@ -236,7 +239,7 @@ TEST(StageCommands, DashWritesADataOutputToStandardOutput) {
                            " --years 2100 --return-periods 100";
   const auto csv = run_cli(base + " --csv -");
   ASSERT_EQ(csv.exit_code, 0) << csv.err;
-  EXPECT_THAT(csv.out, ::testing::StartsWith("year,return_period_yr,present_level_m,allowance_m,"));
+  EXPECT_THAT(csv.out, ::testing::StartsWith("kind,year,first_year,last_year,return_period_yr,present_level_m,allowance_m,"));
   EXPECT_EQ(count_lines(csv.out), 2U);
   EXPECT_THAT(csv.err, HasSubstr("tidewright allowance:"));
   const auto json = run_cli(base + " --json - --quiet");
@@ -292,4 +295,32 @@ TEST(StageCommands, StudyErrorsNameTheSiteFileKeys) {
   expect_one_line_error(motion, "site.toml: local.land_motion_mm_per_yr: is 1e+300 mm/yr");
   EXPECT_THAT(motion.err, HasSubstr("set projection.accept_extreme = true to run it on purpose"));
   EXPECT_THAT(motion.err, ::testing::Not(HasSubstr("--")));
+}
+
+// allowance --csv holds the design-life allowance, the risks of the given heights and the
+// target height as rows of their own kind, numbers only: the risk row's probability equals
+// the JSON's, and the target row's height has the target probability.
+TEST(StageCommands, AllowanceCsvCarriesTheDesignLife) {
+  GumbelCase c;
+  const std::string base = "allowance --fit " + shell_quote(c.fit) + " --members " + shell_quote(c.members) +
+                           " --years 2100 --return-periods 100 --design-life 2030-2100 --heights 3.5 --target-risk 0.1";
+  const auto csv = run_cli(base + " --csv - --quiet");
+  ASSERT_EQ(csv.exit_code, 0) << csv.err;
+  std::istringstream lines(csv.out);
+  std::string line;
+  std::vector<std::string> kinds;
+  std::getline(lines, line);  // header
+  while (std::getline(lines, line)) {
+    kinds.push_back(line.substr(0, line.find(',')));
+    EXPECT_THAT(line, ::testing::Not(HasSubstr("inf"))) << line;
+  }
+  EXPECT_EQ(kinds, (std::vector<std::string>{"allowance", "design_life_allowance", "design_life_risk",
+                                             "design_life_target"}));
+  const auto json = run_cli(base + " --json - --quiet");
+  ASSERT_EQ(json.exit_code, 0) << json.err;
+  const auto j = nlohmann::json::parse(json.out);
+  char p[32];
+  std::snprintf(p, sizeof p, ",%.8f,", j["design_life"]["risks"][0]["probability"].get<double>());
+  EXPECT_THAT(csv.out, HasSubstr(p));
+  EXPECT_THAT(csv.out, HasSubstr(",0.10000000,"));
 }
