@@ -199,7 +199,7 @@ std::vector<double> gringorten_return_periods_yr(std::size_t n) {
   for (std::size_t i = 0; i < n; ++i) {
     // Gringorten (1963): p_i = (i - 0.44) / (n + 0.12), i = 1 for the largest.
     const double p = (static_cast<double>(i + 1) - 0.44) / (static_cast<double>(n) + 0.12);
-    t[i] = 1.0 / p;
+    t[i] = -1.0 / std::log1p(-p);  // N_0 = -ln(1 - p) = 1/T
   }
   return t;
 }

@@ -72,13 +72,14 @@ tr::ReturnLevelPlotInput sample_return_levels() {
 }  // namespace
 
 TEST(Gringorten, ReturnPeriodsFollowThePlottingPosition) {
-  // Gringorten (1963): T_i = (n + 0.12) / (i - 0.44), i = 1 for the largest.
+  // Gringorten (1963): p_i = (i - 0.44) / (n + 0.12), i = 1 for the largest; T_i = 1/N_0 with
+  // N_0 = -ln(1 - p_i) (the project's T, return_levels.hpp).
   const auto one = tr::gringorten_return_periods_yr(1);
   ASSERT_EQ(one.size(), 1U);
-  EXPECT_DOUBLE_EQ(one[0], 1.12 / 0.56);  // = 2 years
+  EXPECT_DOUBLE_EQ(one[0], 1.0 / std::log(2.0));  // p = 0.5: 1.44 years
   const auto ten = tr::gringorten_return_periods_yr(10);
-  EXPECT_DOUBLE_EQ(ten[0], 10.12 / 0.56);
-  EXPECT_DOUBLE_EQ(ten[9], 10.12 / 9.56);
+  EXPECT_DOUBLE_EQ(ten[0], -1.0 / std::log1p(-0.56 / 10.12));
+  EXPECT_DOUBLE_EQ(ten[9], -1.0 / std::log1p(-9.56 / 10.12));  // 0.35 years: passed most years
   for (std::size_t i = 1; i < ten.size(); ++i) EXPECT_LT(ten[i], ten[i - 1]);
 }
 

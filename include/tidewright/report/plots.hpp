@@ -22,7 +22,9 @@ struct NamedSeries {
 
 // Return periods (years) of the n annual maxima sorted from largest to smallest, from the
 // Gringorten (1963, J. Geophys. Res. 68(3):813) plotting position for rank i (1 = largest):
-// exceedance probability p_i = (i - 0.44) / (n + 0.12), return period T_i = 1 / p_i.
+// exceedance probability p_i = (i - 0.44) / (n + 0.12), return period T_i = -1 / ln(1 - p_i),
+// the project's one meaning of T (N_0 = 1/T with N_0 = -ln F for annual maxima; the fit's
+// plot points use the same).
 [[nodiscard]] std::vector<double> gringorten_return_periods_yr(std::size_t n);
 
 struct ReturnLevelPlotInput {
