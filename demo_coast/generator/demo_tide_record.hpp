@@ -41,7 +41,7 @@ struct SurgeDesign {
   double peak_day_of_year = 10.0;    // mid-January storm season peak (invented)
   double threshold_m = 0.30;         // u: smallest peak height
   double gpd_scale_m = 0.15;         // σ of the peak excess over u
-  double gpd_shape = 0.05;           // ξ (Coles 2001 sign: > 0 is a heavy tail)
+  double gpd_shape = -0.1;           // ξ (Coles 2001 sign: > 0 is a heavy tail)
   double rise_h = 9.0;               // Gaussian rise, standard deviation in hours
   double decay_h = 20.0;             // exponential decay time after the peak, hours
 };

@@ -37,10 +37,10 @@ void add_quiet_flag(CLI::App& app, CommonOptions& common) {
   app.add_flag("-q,--quiet", common.quiet, "Print only errors and the requested outputs");
 }
 
-CLI::Option* add_seed_option(CLI::App& app, unsigned long long& seed) {
-  seed = default_seed;
+CLI::Option* add_seed_option(CLI::App& app, unsigned long long& seed, unsigned long long default_value) {
+  seed = default_value;
   return app.add_option("--seed", seed, "Seed for every random draw; same seed, same numbers")
-      ->default_val(default_seed);
+      ->default_val(default_value);
 }
 
 CLI::Option* add_json_option(CLI::App& app, std::string& path) {

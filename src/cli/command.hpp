@@ -30,10 +30,14 @@ struct Command {
 bool register_command(Command command);
 [[nodiscard]] std::vector<Command> registered_commands();  // sorted by order, then name
 
+// The seed used when --seed is not given, so that two runs agree by default.
+inline constexpr unsigned long long default_seed = 20261201ULL;
+
 // Shared options, so their names and help texts are decided once.
 void add_force_flag(CLI::App& app, CommonOptions& common);
 void add_quiet_flag(CLI::App& app, CommonOptions& common);
-CLI::Option* add_seed_option(CLI::App& app, unsigned long long& seed);  // default 20261201
+CLI::Option* add_seed_option(CLI::App& app, unsigned long long& seed,
+                             unsigned long long default_value = default_seed);
 CLI::Option* add_json_option(CLI::App& app, std::string& path);
 CLI::Option* add_csv_option(CLI::App& app, std::string& path);
 CLI::Option* add_out_dir_option(CLI::App& app, std::string& path);
@@ -57,8 +61,5 @@ void write_data_output(const DataOutput& output, const nlohmann::ordered_json& v
 // specially, else in single quotes (a quote inside written '\''). For recorded command lines
 // that can be pasted back.
 [[nodiscard]] std::string shell_word(const std::string& word);
-
-// The seed used when --seed is not given, so that two runs agree by default.
-inline constexpr unsigned long long default_seed = 20261201ULL;
 
 }  // namespace tidewright::cli

@@ -73,7 +73,7 @@ void configure_demo(CLI::App& app, CommonOptions& common) {
   auto seed = std::make_shared<unsigned long long>(demo::demo_default_seed);
   add_out_dir_option(app, *out)->default_str("tidewright-demo");
   app.add_flag("--small", *small, "A smaller demo (coarser DEM, shorter record): for tests");
-  add_seed_option(app, *seed);
+  add_seed_option(app, *seed, demo::demo_default_seed);
   add_force_flag(app, common);
   add_quiet_flag(app, common);
   app.callback([out, small, seed, &common] {
