@@ -360,13 +360,13 @@ void print_summary(const terrain::MapSummary& s, const std::string& out) {
       return "S" + std::to_string(at + 1);
     };
     report::TextTable t({"level_m", "year", "scenario", "connected_cells", "flooded_area_m2", "volume_m3", "max_depth_m",
-                         "disconnected_cells", "disconnected_area_m2"});
+                         "cut_off_cells", "cut_off_area_m2"});
     for (const auto& l : s.levels) {
       t.add_row({report::fixed(l.level.level_m, 3),
                  l.level.year ? std::to_string(*l.level.year) : "", shown(l.level.scenario),
                  std::to_string(l.connected_cells), report::fixed(l.flooded_area_m2, 0),
                  report::fixed(l.volume_m3, 0), report::fixed(l.max_depth_m, 3),
-                 std::to_string(l.disconnected_cells), report::fixed(l.disconnected_area_m2, 0)});
+                 std::to_string(l.cut_off_cells), report::fixed(l.cut_off_area_m2, 0)});
     }
     std::cout << t.render();
     if (keyed) {

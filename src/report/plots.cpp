@@ -454,7 +454,7 @@ Canvas continuous_map(const ContinuousMapInput& in) {
 std::vector<MapCategory> extent_categories() {
   return {{0, "Dry", Colour::from_hex("#ebe7df")},
           {1, "Flooded, connected to the sea", series_colour(0)},
-          {2, "Low-lying, not connected", series_colour(3)},
+          {2, "Low ground cut off from the sea", series_colour(4)},
           // Pale and cool, so that the flooded land stands out from today's water.
           {3, "Sea (today's water)", Colour::from_hex("#dbe6ee")}};
 }

@@ -389,9 +389,9 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   Json maps_json;
   std::string extent_title = "Flood extent";
   report::Table map_table{"flooded_areas",
-                          "Land reached by the sea (connected) and low-lying land it does not reach, per mapped level.",
+                          "Land reached by the sea (connected) and low ground below the level it does not reach (cut off), per mapped level.",
                           {{"Level", level_unit}, {"Year", ""}, {"Scenario", ""}, {"Flooded area", "ha"},
-                           {"Disconnected low-lying area", "ha"}, {"Largest depth", "m"}},
+                           {"Cut-off low ground", "ha"}, {"Largest depth", "m"}},
                           {}};
   if (c.map.enabled) {
     clock.begin("maps");
@@ -440,11 +440,11 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     Json levels = Json::array();
     for (const auto& l : ms.levels) {
       map_table.add_row({fixed(l.level.level_m, 2), l.level.year ? std::to_string(*l.level.year) : "today",
-                         l.level.scenario, fixed(l.flooded_area_m2 / 1e4, 2), fixed(l.disconnected_area_m2 / 1e4, 2),
+                         l.level.scenario, fixed(l.flooded_area_m2 / 1e4, 2), fixed(l.cut_off_area_m2 / 1e4, 2),
                          fixed(l.max_depth_m, 2)});
       levels.push_back({{"level_m", l.level.level_m}, {"year", l.level.year ? Json(*l.level.year) : Json(nullptr)},
                         {"scenario", l.level.scenario}, {"flooded_area_m2", l.flooded_area_m2},
-                        {"disconnected_area_m2", l.disconnected_area_m2}, {"volume_m3", l.volume_m3},
+                        {"cut_off_area_m2", l.cut_off_area_m2}, {"volume_m3", l.volume_m3},
                         {"max_depth_m", l.max_depth_m}});
     }
     maps_json = {{"files", ms.files}, {"area_method", ms.area_method}, {"levels", levels}};

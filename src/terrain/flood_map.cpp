@@ -45,8 +45,8 @@ const char* class_name(std::uint8_t c) {
   switch (static_cast<ExtentClass>(c)) {
     case ExtentClass::connected_flooded:
       return "connected flooded";
-    case ExtentClass::disconnected_low_lying:
-      return "disconnected low-lying";
+    case ExtentClass::cut_off_low_ground:
+      return "cut-off low ground";
     default:
       return "other";
   }
@@ -83,7 +83,7 @@ void polygonise_level(const FloodThresholdMap& map, const LevelSummary& level, O
   std::vector<std::uint8_t> values(n);
   for (std::size_t i = 0; i < n; ++i) {
     const auto c = classify_cell(map.dem.elevation_m[i], map.threshold_m[i], level.level.level_m);
-    values[i] = (c == ExtentClass::connected_flooded || c == ExtentClass::disconnected_low_lying)
+    values[i] = (c == ExtentClass::connected_flooded || c == ExtentClass::cut_off_low_ground)
                     ? static_cast<std::uint8_t>(c)
                     : 0;
   }
@@ -182,12 +182,12 @@ void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary
 
 std::string summary_csv(const MapSummary& s) {
   std::ostringstream out;
-  out << "level_m,year,scenario,connected_cells,disconnected_cells,flooded_area_m2,"
-         "disconnected_area_m2,volume_m3,max_depth_m\n";
+  out << "level_m,year,scenario,connected_cells,cut_off_cells,flooded_area_m2,"
+         "cut_off_area_m2,volume_m3,max_depth_m\n";
   for (const auto& l : s.levels) {
     out << fixed(l.level.level_m, 4) << ',' << (l.level.year ? std::to_string(*l.level.year) : "")
-        << ',' << csv_field(l.level.scenario) << ',' << l.connected_cells << ',' << l.disconnected_cells << ','
-        << fixed(l.flooded_area_m2, 2) << ',' << fixed(l.disconnected_area_m2, 2) << ','
+        << ',' << csv_field(l.level.scenario) << ',' << l.connected_cells << ',' << l.cut_off_cells << ','
+        << fixed(l.flooded_area_m2, 2) << ',' << fixed(l.cut_off_area_m2, 2) << ','
         << fixed(l.volume_m3, 2) << ',' << fixed(l.max_depth_m, 4) << '\n';
   }
   return out.str();
@@ -216,9 +216,9 @@ nlohmann::ordered_json summary_json(const MapSummary& s, const FloodThresholdMap
     e["year"] = l.level.year ? nlohmann::ordered_json(*l.level.year) : nlohmann::ordered_json();
     e["scenario"] = l.level.scenario;
     e["connected_cells"] = l.connected_cells;
-    e["disconnected_cells"] = l.disconnected_cells;
+    e["cut_off_cells"] = l.cut_off_cells;
     e["flooded_area_m2"] = l.flooded_area_m2;
-    e["disconnected_area_m2"] = l.disconnected_area_m2;
+    e["cut_off_area_m2"] = l.cut_off_area_m2;
     e["volume_m3"] = l.volume_m3;
     e["max_depth_m"] = l.max_depth_m;
     levels.push_back(e);
@@ -328,7 +328,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
       if (l.year) m.emplace_back("YEAR", std::to_string(*l.year));
       if (!l.scenario.empty()) m.emplace_back("SCENARIO", l.scenario);
       extent_bands.push_back({"extent at " + level_label(l) +
-                                  " (0 dry, 1 connected flooded, 2 disconnected low-lying, 3 sea)",
+                                  " (0 dry, 1 connected flooded, 2 cut-off low ground, 3 sea)",
                               "", m});
       depth_bands.push_back({"depth at " + level_label(l) + " on connected flooded land", "m", m});
     }
@@ -407,9 +407,9 @@ MapSummary make_flood_maps(const MapRequest& req) {
           sum.flooded_area_m2 += area;
           sum.volume_m3 += d * area;
           sum.max_depth_m = std::max(sum.max_depth_m, d);
-        } else if (c == ExtentClass::disconnected_low_lying) {
-          ++sum.disconnected_cells;
-          sum.disconnected_area_m2 += area;
+        } else if (c == ExtentClass::cut_off_low_ground) {
+          ++sum.cut_off_cells;
+          sum.cut_off_area_m2 += area;
         }
       }
       extent->write_rows(li, r0, h, bbuf.data());

@@ -30,7 +30,7 @@ ExtentClass classify_cell(float elevation_m, float threshold_m, double level_m) 
   if (std::isnan(threshold_m)) return ExtentClass::nodata;
   if (threshold_m == -std::numeric_limits<float>::infinity()) return ExtentClass::sea;
   if (static_cast<double>(threshold_m) <= level_m) return ExtentClass::connected_flooded;
-  if (static_cast<double>(elevation_m) <= level_m) return ExtentClass::disconnected_low_lying;
+  if (static_cast<double>(elevation_m) <= level_m) return ExtentClass::cut_off_low_ground;
   return ExtentClass::dry;
 }
 

@@ -59,7 +59,7 @@ TEST(MapCommand, HelpNamesTheInputsAndExitsZero) {
 
 TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
   // Level 1.5: the three beach cells flood (depth 1.0 m, 100 m2 each); the bowls are low-lying
-  // but behind the 3 m ridge (3 disconnected cells). Level 3.5: all 12 land cells flood,
+  // but behind the 3 m ridge (3 cut-off cells). Level 3.5: all 12 land cells flood,
   // volume 100 x 3 x (3.0 + 0.5 + 2.5 + 1.5) = 2250 m3, deepest 3.0 m on the beach.
   TempDir tmp;
   const auto dem = profile_dem(tmp);
@@ -70,8 +70,8 @@ TEST(MapCommand, GoodRunWritesTheSummaryWorkedOutByHand) {
   ASSERT_EQ(r.exit_code, 0) << r.err;
   EXPECT_TRUE(r.out.empty());
   EXPECT_EQ(read_all(out / "summary.csv"),
-            "level_m,year,scenario,connected_cells,disconnected_cells,flooded_area_m2,"
-            "disconnected_area_m2,volume_m3,max_depth_m\n"
+            "level_m,year,scenario,connected_cells,cut_off_cells,flooded_area_m2,"
+            "cut_off_area_m2,volume_m3,max_depth_m\n"
             "1.5000,,,3,3,300.00,300.00,300.00,1.0000\n"
             "3.5000,,,12,0,1200.00,0.00,2250.00,3.0000\n");
   for (const char* f : {"threshold.tif", "extent.tif", "depth.tif", "summary.json"}) {
@@ -353,7 +353,7 @@ TEST(MapCommand, LongScenarioLabelsGetAKeySoRowsStayNarrow) {
 
 TEST(MapCommand, SeaSpreadMakesTheBeachSeaAndSaysSo) {
   // The profile DEM spread to 0.5 m: the beach (T 0.5) becomes sea, so at 1.5 m no land floods
-  // and the bowl behind the ridge stays low-lying (3 cells); 6 sea cells in the summary.
+  // and the bowl behind the ridge stays cut off (3 cells); 6 sea cells in the summary.
   TempDir tmp;
   const auto dem = profile_dem(tmp);
   const auto out = tmp / "maps";
@@ -363,8 +363,8 @@ TEST(MapCommand, SeaSpreadMakesTheBeachSeaAndSaysSo) {
                          shell_quote(out.string()));
   ASSERT_EQ(r.exit_code, 0) << r.err;
   EXPECT_EQ(read_all(out / "summary.csv"),
-            "level_m,year,scenario,connected_cells,disconnected_cells,flooded_area_m2,"
-            "disconnected_area_m2,volume_m3,max_depth_m\n"
+            "level_m,year,scenario,connected_cells,cut_off_cells,flooded_area_m2,"
+            "cut_off_area_m2,volume_m3,max_depth_m\n"
             "1.5000,,,0,3,0.00,300.00,0.00,0.0000\n");
   const auto summary = nlohmann::json::parse(read_all(out / "summary.json"));
   EXPECT_EQ(summary["sea_cells"], 6);

@@ -371,7 +371,7 @@ TEST(TerrainAreas, ProjectedCellsArePlanar) {
 
 TEST(TerrainMap, WritesEveryProductAndSummarisesByHand) {
   // 5 x 3 profile (rows alike): sea 0 | beach 0.5 | ridge 3 | bowl 1 | slope 2, 10 m cells
-  // (100 m2). Level 1.5: beaches flooded (3 cells, depth 1.0 each), bowls disconnected (3).
+  // (100 m2). Level 1.5: beaches flooded (3 cells, depth 1.0 each), bowls cut off (3).
   TempDir tmp;
   const auto dem_path = (tmp / "dem.tif").string();
   std::vector<double> z;
@@ -389,7 +389,7 @@ TEST(TerrainMap, WritesEveryProductAndSummarisesByHand) {
   ASSERT_EQ(s.levels.size(), 2U);
   EXPECT_EQ(s.sea_cells, 3U);
   EXPECT_EQ(s.levels[0].connected_cells, 3U);
-  EXPECT_EQ(s.levels[0].disconnected_cells, 3U);
+  EXPECT_EQ(s.levels[0].cut_off_cells, 3U);
   EXPECT_DOUBLE_EQ(s.levels[0].flooded_area_m2, 300.0);
   EXPECT_DOUBLE_EQ(s.levels[0].volume_m3, 300.0);
   EXPECT_DOUBLE_EQ(s.levels[0].max_depth_m, 1.0);
@@ -447,7 +447,7 @@ TEST(TerrainMap, SpreadSeaIsNotFloodedLand) {
   const auto spread = tw::make_flood_maps(req);
   EXPECT_EQ(spread.sea_cells, 9U);
   EXPECT_EQ(spread.levels[0].connected_cells, 3U);
-  EXPECT_EQ(spread.levels[0].disconnected_cells, 3U);  // the bowl
+  EXPECT_EQ(spread.levels[0].cut_off_cells, 3U);  // the bowl
   EXPECT_DOUBLE_EQ(spread.levels[0].flooded_area_m2, 300.0);
   EXPECT_DOUBLE_EQ(spread.levels[0].volume_m3, 300.0);
   GDALDatasetUniquePtr ext(

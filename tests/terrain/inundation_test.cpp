@@ -21,8 +21,8 @@ constexpr float nan_f = std::numeric_limits<float>::quiet_NaN();
 TEST(Inundation, ClassifiesByThresholdThenElevation) {
   EXPECT_EQ(tw::classify_cell(0.5F, 0.5F, 0.5), tw::ExtentClass::connected_flooded);  // T <= h
   EXPECT_EQ(tw::classify_cell(0.2F, 0.8F, 1.0), tw::ExtentClass::connected_flooded);
-  EXPECT_EQ(tw::classify_cell(0.2F, 3.0F, 1.0), tw::ExtentClass::disconnected_low_lying);
-  EXPECT_EQ(tw::classify_cell(0.2F, inf_f, 1.0), tw::ExtentClass::disconnected_low_lying);
+  EXPECT_EQ(tw::classify_cell(0.2F, 3.0F, 1.0), tw::ExtentClass::cut_off_low_ground);
+  EXPECT_EQ(tw::classify_cell(0.2F, inf_f, 1.0), tw::ExtentClass::cut_off_low_ground);
   EXPECT_EQ(tw::classify_cell(2.0F, 2.0F, 1.0), tw::ExtentClass::dry);
   EXPECT_EQ(tw::classify_cell(5.0F, -inf_f, 1.0), tw::ExtentClass::sea);
   EXPECT_EQ(tw::classify_cell(nan_f, -inf_f, 1.0), tw::ExtentClass::sea);
@@ -32,7 +32,7 @@ TEST(Inundation, ClassifiesByThresholdThenElevation) {
 TEST(Inundation, DepthIsLevelMinusGroundOnConnectedLandOnly) {
   EXPECT_FLOAT_EQ(tw::flood_depth_m(0.25F, 0.5F, 1.5), 1.25F);
   EXPECT_FLOAT_EQ(tw::flood_depth_m(0.5F, 0.5F, 0.5), 0.0F);
-  EXPECT_TRUE(std::isnan(tw::flood_depth_m(0.2F, 3.0F, 1.0)));    // disconnected
+  EXPECT_TRUE(std::isnan(tw::flood_depth_m(0.2F, 3.0F, 1.0)));    // cut off
   EXPECT_TRUE(std::isnan(tw::flood_depth_m(0.2F, -inf_f, 1.0)));  // sea
 }
 

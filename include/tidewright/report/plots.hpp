@@ -110,8 +110,8 @@ struct MapCategory {
   std::string label{};
   Colour colour{};
 };
-// The extent classes: 0 dry, 1 flooded and connected to the sea, 2 low-lying but not
-// connected (below the level, cut off by higher ground or defences), 3 sea.
+// The extent classes: 0 dry, 1 flooded and connected to the sea, 2 low ground cut off
+// from the sea (below the level, behind higher ground or defences), 3 sea.
 [[nodiscard]] std::vector<MapCategory> extent_categories();
 
 // Annual exceedance probability in the bands planners read it by (common practice: the 10 %,

@@ -92,9 +92,9 @@ struct MapRequest {
 struct LevelSummary {
   MapLevel level;
   std::size_t connected_cells = 0;
-  std::size_t disconnected_cells = 0;
+  std::size_t cut_off_cells = 0;
   double flooded_area_m2 = 0.0;       // connected flooded land (sea cells excluded)
-  double disconnected_area_m2 = 0.0;  // low-lying land the sea does not reach
+  double cut_off_area_m2 = 0.0;  // land below the level the sea does not reach
   double volume_m3 = 0.0;             // sum of depth x cell area over connected flooded land
   double max_depth_m = 0.0;
 };

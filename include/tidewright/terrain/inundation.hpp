@@ -21,7 +21,7 @@ namespace tidewright::terrain {
 enum class ExtentClass : std::uint8_t {
   dry = 0,                     // above h, or T > h and z > h
   connected_flooded = 1,       // T <= h: the sea reaches the cell over land no higher than h
-  disconnected_low_lying = 2,  // z <= h but T > h: low ground the sea does not reach at h
+  cut_off_low_ground = 2,  // z <= h but T > h: low ground the sea does not reach at h
   sea = 3,                     // a sea cell (T = -inf)
   nodata = 255,                // nodata and not sea
 };
@@ -29,7 +29,7 @@ enum class ExtentClass : std::uint8_t {
 [[nodiscard]] ExtentClass classify_cell(float elevation_m, float threshold_m,
                                         double level_m) noexcept;
 
-// Water depth h - z on connected flooded land (>= 0), NaN elsewhere (dry, disconnected, sea,
+// Water depth h - z on connected flooded land (>= 0), NaN elsewhere (dry, cut off, sea,
 // nodata). On a burned-in defence z is the crest, so a wall cell shows the depth over it.
 [[nodiscard]] float flood_depth_m(float elevation_m, float threshold_m, double level_m) noexcept;
 
