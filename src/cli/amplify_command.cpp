@@ -66,9 +66,9 @@ void configure(CLI::App& app, CommonOptions& common) {
     std::ostringstream csv;
     // Numeric columns hold numbers only: a bound goes to its own column, an empty cell where
     // there is no number (docs/file-formats.md).
-    csv << "year,level_m,present_return_period_yr,future_return_period_yr,amplification_factor,"
-           "beyond_annual_maxima_range,amplification_factor_above,members_beyond_model_range_fraction\n";
-    const auto cell = [](double v) { return std::isfinite(v) ? report::fixed(v, 6) : std::string(); };
+    csv << "year,level_m";
+    for (const auto& name : study::amplification_csv_columns()) csv << ',' << name;
+    csv << '\n';
     const std::string datum = in.fit.datum.empty() ? "datum" : in.fit.datum;
     report::TextTable t({"year", "level (m, " + datum + ")", "today's return period (yr)",
                          "future return period (yr)", "amplification factor", "members beyond the model (%)"});
@@ -83,11 +83,9 @@ void configure(CLI::App& app, CommonOptions& common) {
                    study::return_period_text(am.present_return_period_yr), text.future_return_period, text.factor,
                    report::fixed(100.0 * am.beyond_range_fraction, 1)});
         rows.push_back(study::amplification_json(am));
-        const bool beyond = am.beyond_annual_maxima_range;
-        csv << y << ',' << report::fixed(target.level_m, 4) << ',' << cell(am.present_return_period_yr) << ','
-            << (beyond ? std::string() : cell(am.future_return_period_yr)) << ','
-            << (beyond ? std::string() : cell(am.amplification_factor)) << ',' << (beyond ? "true" : "false") << ','
-            << (beyond ? cell(am.quotable_factor()) : std::string()) << ',' << am.beyond_range_fraction << '\n';
+        csv << y << ',' << report::fixed(target.level_m, 4);
+        for (const auto& cell : study::amplification_csv_cells(am)) csv << ',' << cell;
+        csv << '\n';
       }
     }
     j["rows"] = rows;

@@ -111,14 +111,23 @@ std::vector<const T*> blocks_of(const ReportDocument& doc) {
 
 std::string TableColumn::header() const { return unit.empty() ? title : title + " (" + unit + ")"; }
 
-void Table::add_row(std::vector<std::string> cells) {
-  if (cells.size() != columns.size()) {
-    throw InputError("report table '" + name + "'",
-                     "a row has " + std::to_string(cells.size()) + " cells for " +
-                         std::to_string(columns.size()) + " columns",
-                     "give one cell per column");
+namespace {
+void append_row(std::vector<std::vector<std::string>>& rows, std::vector<std::string> cells, std::size_t width,
+                const std::string& table, const char* kind) {
+  if (cells.size() != width) {
+    throw InputError("report table '" + table + "'",
+                     std::string("a ") + kind + "row has " + std::to_string(cells.size()) + " cells for " +
+                         std::to_string(width) + " " + kind + "columns",
+                     std::string("give one cell per ") + kind + "column");
   }
   rows.push_back(std::move(cells));
+}
+}  // namespace
+
+void Table::add_row(std::vector<std::string> cells) { append_row(rows, std::move(cells), columns.size(), name, ""); }
+
+void Table::add_csv_row(std::vector<std::string> cells) {
+  append_row(csv_rows, std::move(cells), csv_columns.size(), name, "CSV ");
 }
 
 std::string html_escape(std::string_view text) { return xml_escape(text); }
@@ -285,11 +294,16 @@ std::string render_markdown(const ReportDocument& doc, std::string_view figure_d
 
 std::string table_csv(const Table& table) {
   std::string o;
-  for (std::size_t i = 0; i < table.columns.size(); ++i) {
-    o += (i ? "," : "") + csv_field(table.columns[i].header());
+  const bool numeric = !table.csv_columns.empty();
+  if (numeric) {
+    for (std::size_t i = 0; i < table.csv_columns.size(); ++i) o += (i ? "," : "") + csv_field(table.csv_columns[i]);
+  } else {
+    for (std::size_t i = 0; i < table.columns.size(); ++i) {
+      o += (i ? "," : "") + csv_field(table.columns[i].header());
+    }
   }
   o += "\n";
-  for (const auto& row : table.rows) {
+  for (const auto& row : numeric ? table.csv_rows : table.rows) {
     for (std::size_t i = 0; i < row.size(); ++i) o += (i ? "," : "") + csv_field(row[i]);
     o += "\n";
   }

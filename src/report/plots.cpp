@@ -304,7 +304,7 @@ Canvas projection_fan_chart(const FanChartInput& in) {
                                MarkerShape::circle,
                                0,
                                0.32});
-  spec.series.push_back(Series{"Median, total",
+  spec.series.push_back(Series{"Total (median)",
                                SeriesStyle::line,
                                in.years,
                                in.q50_m,
@@ -317,7 +317,7 @@ Canvas projection_fan_chart(const FanChartInput& in) {
                                0});
   for (std::size_t i = 0; i < in.component_medians_m.size(); ++i) {
     const auto& comp = in.component_medians_m[i];
-    spec.series.push_back(Series{"Median, " + comp.name,
+    spec.series.push_back(Series{comp.name + " (median)",
                                  SeriesStyle::line,
                                  in.years,
                                  comp.values,

@@ -46,6 +46,7 @@ PlanningInputs join_fit_and_projection(FitSummary fit, local::RiseEnsemble rise,
       const int year = static_cast<int>(std::lround(e));
       const Eigen::VectorXd at_epoch = rise.rise_in(std::clamp(year, rise.years.front(), rise.years.back()));
       rise.rise_m.colwise() -= at_epoch;
+      in.rise_zero_year = std::clamp(year, rise.years.front(), rise.years.back());
       rise.reference = "the record's epoch " + num(e, 1);
       rise.reference_period.reset();
       in.notes.push_back("each member's rise is measured from the record's epoch " + num(e, 1) +
@@ -231,6 +232,22 @@ AmplificationText amplification_text(const planning::Amplification& a) {
              : a.beyond_annual_maxima_range   ? "> " + num(a.quotable_factor(), 1)
                                               : num(a.amplification_factor, 1);
   return t;
+}
+
+std::vector<std::string> amplification_csv_columns() {
+  return {"present_return_period_yr", "future_return_period_yr", "amplification_factor", "beyond_annual_maxima_range",
+          "amplification_factor_above", "members_beyond_model_range_fraction"};
+}
+
+std::vector<std::string> amplification_csv_cells(const planning::Amplification& a) {
+  const auto cell = [](double v) { return std::isfinite(v) ? num(v, 6) : std::string(); };
+  const bool beyond = a.beyond_annual_maxima_range;
+  return {cell(a.present_return_period_yr),
+          beyond ? std::string() : cell(a.future_return_period_yr),
+          beyond ? std::string() : cell(a.amplification_factor),
+          beyond ? "true" : "false",
+          beyond ? cell(a.quotable_factor()) : std::string(),
+          num(a.beyond_range_fraction, 6)};
 }
 
 nlohmann::ordered_json design_life_risk_json(const planning::DesignLifeRisk& r) {

@@ -315,7 +315,17 @@ nlohmann::ordered_json projection_json(const ProjectionStageResult& r) {
   return j;
 }
 
-report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const local::RiseEnsemble& t) {
+std::string component_display_name(const std::string& name) {
+  std::string s = name;
+  for (auto& ch : s) {
+    if (ch == '_') ch = ' ';
+  }
+  if (!s.empty()) s[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(s[0])));
+  return s;
+}
+
+report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const local::RiseEnsemble& t,
+                                      std::optional<int> zero_year) {
   report::FanChartInput fan;
   fan.title = "Relative sea-level rise, " + t.scenario;
   fan.baseline = "since " + t.reference;
@@ -327,8 +337,18 @@ report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const loca
   fan.q50_m = std::move(q[2]);
   fan.q83_m = std::move(q[3]);
   fan.q95_m = std::move(q[4]);
+  const auto& years = r.local.total.years;
+  const auto zero_at = zero_year ? std::find(years.begin(), years.end(), *zero_year) : years.end();
   for (std::size_t k = 0; k < r.local.component_names.size(); ++k) {
-    fan.component_medians_m.push_back({r.local.component_names[k], year_quantiles(r.local.contribution_m[k], 0.5)});
+    const std::string name = component_display_name(r.local.component_names[k]);
+    if (zero_at == years.end()) {
+      fan.component_medians_m.push_back({name, year_quantiles(r.local.contribution_m[k], 0.5)});
+      continue;
+    }
+    Eigen::MatrixXd shifted = r.local.contribution_m[k];
+    const Eigen::VectorXd at_zero = shifted.col(static_cast<Eigen::Index>(zero_at - years.begin()));
+    shifted.colwise() -= at_zero;
+    fan.component_medians_m.push_back({name, year_quantiles(shifted, 0.5)});
   }
   return fan;
 }

@@ -41,6 +41,33 @@ std::string sentence_case(std::string s) {
 using report::fixed;
 using Json = nlohmann::ordered_json;
 
+// Letters, digits, - and _ only: a table's or figure's file stem from a scenario name.
+std::string file_stem(std::string name) {
+  for (auto& ch : name) {
+    if (!std::isalnum(static_cast<unsigned char>(ch)) && ch != '_' && ch != '-') ch = '_';
+  }
+  return name;
+}
+
+// Paths in the site file's folder as the site file writes them (relative to it), so that the
+// report and results.json read the same wherever the study was run from. A path is cut only
+// where it starts a word, so "/a/inputs/x" is left alone for a site folder "inputs".
+std::string relative_to_site(std::string text, const SiteConfig& c) {
+  const std::string dir = c.file.parent_path().string();
+  if (dir.empty()) return text;
+  const std::string prefix = dir + "/";
+  for (std::size_t at = text.find(prefix); at != std::string::npos; at = text.find(prefix, at)) {
+    const bool starts_word =
+        at == 0 || (text[at - 1] != '/' && !std::isalnum(static_cast<unsigned char>(text[at - 1])));
+    if (starts_word) text.erase(at, prefix.size());
+    else at += prefix.size();
+  }
+  return text;
+}
+
+// A metre figure for a CSV: 4 decimals, empty where there is no number.
+std::string csv_m(double v) { return std::isfinite(v) ? fixed(v, 4) : std::string(); }
+
 class StageClock {
  public:
   StageClock(StudyOutcome& out, const StudyOptions& o) : out_(out), o_(o) {}
@@ -176,6 +203,115 @@ report::RasterView read_raster_for_view(const std::filesystem::path& tif, double
   return v;
 }
 
+// The answer at a glance for one scenario: return periods down, today and the design years
+// across, each design height with the allowance's Monte Carlo standard error.
+report::Table design_height_matrix(const ScenarioRun& run, const PlanningSettings& p, const std::string& datum) {
+  const std::string scenario = display_name(run.settings);
+  report::Table t{"design_height_matrix_" + file_stem(run.settings.name),
+                  "Design heights, scenario " + scenario + ", in m above " + datum +
+                      ": today's T-year still-water level, and in each design year the level with the same expected "
+                      "number of exceedances (Hunter 2012), \u00b1 its Monte Carlo standard error.",
+                  {{"Return period", "years"}, {"Today", "m"}},
+                  {}};
+  t.csv_columns = {"return_period_yr", "today_m"};
+  for (int y : p.design_years) {
+    t.columns.push_back({std::to_string(y), "m"});
+    t.csv_columns.push_back("design_height_" + std::to_string(y) + "_m");
+    t.csv_columns.push_back("monte_carlo_error_" + std::to_string(y) + "_m");
+  }
+  for (double period : p.return_periods_yr) {
+    std::vector<std::string> cells{fixed(period, 0)};
+    std::vector<std::string> csv{fixed(period, 0)};
+    for (int y : p.design_years) {
+      const auto row = std::find_if(run.allowances.begin(), run.allowances.end(), [&](const AllowanceRow& r) {
+        return r.allowance.first_year == y && r.allowance.return_period_yr == period;
+      });
+      if (row == run.allowances.end()) {
+        throw ComputationError("design-height table", "a design year's allowance is missing", "report this as a bug");
+      }
+      const auto& a = row->allowance;
+      if (cells.size() == 1) {
+        cells.push_back(fixed(a.present_level_m, 2));
+        csv.push_back(csv_m(a.present_level_m));
+      }
+      const double height = a.present_level_m + a.allowance_m;
+      const double se = a.monte_carlo.sampled ? a.monte_carlo.standard_error : 0.0;
+      cells.push_back(fixed(height, 2) + (a.monte_carlo.sampled ? " \u00b1 " + fixed(se, 3) : std::string()));
+      csv.push_back(csv_m(height));
+      csv.push_back(a.monte_carlo.sampled ? csv_m(se) : std::string());
+    }
+    t.add_row(std::move(cells));
+    t.add_csv_row(std::move(csv));
+  }
+  return t;
+}
+
+template <typename T>
+std::string joined(const std::vector<T>& values, int decimals) {
+  std::string out;
+  for (const auto& v : values) out += (out.empty() ? "" : ", ") + fixed(static_cast<double>(v), decimals);
+  return out;
+}
+
+// Everything that shaped the numbers, as the report's inputs table lists it: files relative to
+// the site file, and the settings a reader would otherwise have to look up in it.
+std::vector<report::InputItem> report_inputs(const SiteConfig& c, const std::string& datum,
+                                             const std::optional<terrain::DefenceBurn>& defences) {
+  const auto name = [&](const std::filesystem::path& p) { return relative_to_site(p.string(), c); };
+  const auto& p = c.planning;
+  std::vector<report::InputItem> in{
+      {"Site file", c.file.filename().string()},
+      {"Record", name(c.record.path) + " (" + c.record.kind + ", units " + c.record.units + ")"},
+      {"Water-level datum", datum},
+      {"Extreme model", c.extremes.model},
+      {"Projection", std::to_string(c.projection.members) + " members, " + std::to_string(c.projection.start_year) +
+                         "-" + std::to_string(c.projection.end_year) + ", reference " + c.projection.reference},
+      {"Seed", std::to_string(c.seed)}};
+  for (const auto& s : c.scenarios) {
+    in.push_back({"Scenario " + display_name(s),
+                  s.source == "pathway" ? "built-in pathway " + s.pathway : s.source + " " + name(*s.path)});
+  }
+  in.push_back({"Design years", joined(p.design_years, 0)});
+  in.push_back({"Return periods", joined(p.return_periods_yr, 0) + " years (" + extremes::return_period_definition + ")"});
+  in.push_back({"Design life", std::to_string(p.design_life_start) + "-" + std::to_string(p.design_life_end) +
+                                   ", target probability of at least one exceedance " + fixed(p.target_risk, 3)});
+  in.push_back({"Heights of interest", p.levels_of_interest_m.empty() ? std::string("none")
+                                                                      : joined(p.levels_of_interest_m, 2) + " m above " + datum});
+  in.push_back({"Epoch offset", p.epoch_offset_m ? fixed(*p.epoch_offset_m, 3) +
+                                                       " m, the stated rise from the record's epoch to the projection's reference"
+                                                 : std::string("none stated")});
+  in.push_back({"Storminess change", fixed(p.storminess_scale_per_yr, 4) + " of the extreme scale per year"});
+  std::string prints;
+  for (const auto& [component, factor] : c.local.fingerprints) {
+    prints += (prints.empty() ? "" : ", ") + component + " " + fixed(factor, 3);
+  }
+  in.push_back({"Fingerprint factors", prints.empty() ? std::string("none given (1 for every component)")
+                                                       : prints + "; 1 for components not listed"});
+  in.push_back({"Vertical land motion", fixed(c.local.land_motion_mm_per_yr, 2) + " ± " +
+                                            fixed(c.local.land_motion_sd_mm_per_yr, 2) + " mm/yr (positive = uplift)"});
+  if (c.local.ocean_dynamic_offset_m != 0.0 || c.local.ocean_dynamic_sd_m != 0.0) {
+    in.push_back({"Ocean dynamic offset", fixed(c.local.ocean_dynamic_offset_m, 3) + " ± " +
+                                              fixed(c.local.ocean_dynamic_sd_m, 3) + " m in 2100, a ramp from the start"});
+  }
+  if (!c.map.enabled) return in;
+  in.push_back({"DEM", name(c.map.dem) + "; " + (c.map.same_datum ? std::string("same vertical datum as the water levels")
+                                                                   : "water level = DEM elevation + " +
+                                                                         fixed(c.map.dem_offset_m.value_or(0.0), 3) + " m")});
+  if (c.map.sea) in.push_back({"Sea", name(*c.map.sea)});
+  if (c.map.defences) {
+    std::string d = name(*c.map.defences) + ", crest attribute '" + c.map.crest_attribute + "'";
+    if (defences) {
+      d += ": " + std::to_string(defences->features) + " features, crests " + joined(defences->crests_m, 2) + " m above " +
+           datum + ", " + std::to_string(defences->cells_raised) + " DEM cells raised";
+    }
+    in.push_back({"Defences", d});
+  }
+  in.push_back({"Mapped", "today's and the future " + joined(c.map.return_periods_yr, 0) + "-year levels in " +
+                              joined(c.map.years, 0) + "; first year with an AEP of " + fixed(100.0 * c.map.aep_passing, 2) +
+                              " % (scenario " + display_name(c.scenarios.back()) + ")"});
+  return in;
+}
+
 }  // namespace
 
 StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
@@ -196,6 +332,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   all["tool"] = std::string("tidewright ") + version_string;
   all["seed"] = c.seed;
   all["fit"] = fit_result_json(fit);
+  all["fit"]["source"] = relative_to_site(all["fit"]["source"].get<std::string>(), c);
   FitSummary summary;
   summary.model = fit.present_day;
   summary.datum = fit.datum;
@@ -237,6 +374,9 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                          {"Design height", level_unit}, {"Mean rise", "m"}, {"Rise sd", "m"},
                          {"Allowance, rise cut at 99%", "m"}},
                         {}};
+  heights.csv_columns = {"scenario",           "year",           "return_period_yr",     "present_level_m",
+                         "allowance_m",        "monte_carlo_error_m", "effective_members", "design_height_m",
+                         "mean_rise_m",        "rise_sd_m",      "allowance_rise_cut_p99_m"};
   std::vector<std::string> ensemble_warnings;
   Json scen_json = Json::array();
   for (const auto& run : runs) {
@@ -280,6 +420,10 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                        fixed(a.present_level_m, 2), fixed(a.allowance_m, 2), mc.sampled ? fixed(mc.standard_error, 3) : "-",
                        mc.sampled ? fixed(mc.effective_sample_size, 0) : "-", fixed(a.present_level_m + a.allowance_m, 2),
                        fixed(a.mean_rise_m, 2), fixed(a.sd_rise_m, 2), fixed(r.cut_at_p99_m, 2)});
+      heights.add_csv_row({run.settings.name, std::to_string(a.first_year), fixed(a.return_period_yr, 0),
+                           csv_m(a.present_level_m), csv_m(a.allowance_m), mc.sampled ? csv_m(mc.standard_error) : "",
+                           mc.sampled ? fixed(mc.effective_sample_size, 1) : "", csv_m(a.present_level_m + a.allowance_m),
+                           csv_m(a.mean_rise_m), csv_m(a.sd_rise_m), csv_m(r.cut_at_p99_m)});
     }
     scen_json.push_back(sj);
   }
@@ -294,11 +438,14 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                         {"Future return period", "years"}, {"Amplification factor", ""},
                         {"Members beyond the model", "%"}},
                        {}};
+  shifts.csv_columns = {"scenario", "year", "level_m"};
+  for (const auto& name : amplification_csv_columns()) shifts.csv_columns.push_back(name);
   report::Table emergence{"emergence_years",
                           "First year in which today's level is expected to be exceeded at least once a year.",
                           {{"Scenario", ""}, {"Level", level_unit}, {"Today's return period", "years"},
                            {"First year exceeded yearly", ""}},
                           {}};
+  emergence.csv_columns = {"scenario", "level_m", "present_return_period_yr", "first_year_exceeded_yearly"};
   const int life_first = c.planning.design_life_start, life_last = c.planning.design_life_end;
   report::Table risk{"design_life_risk",
                      "Probability of at least one exceedance over the design life " + std::to_string(life_first) + "-" +
@@ -311,10 +458,13 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                       {"Monte Carlo error", ""}, {sentence_case(expected_count_heading(fit.present_day)), ""},
                       {"Member-years beyond the model", "%"}},
                      {}};
+  risk.csv_columns = {"scenario",          "height_m",       "probability", "rounds_to_one", "monte_carlo_error",
+                      "expected_count", "member_years_beyond_model_fraction"};
   report::Table target{"target_heights",
                        "Height with the target probability of at least one exceedance over the design life.",
                        {{"Scenario", ""}, {"Design life", ""}, {"Target probability", ""}, {"Height", level_unit}},
                        {}};
+  target.csv_columns = {"scenario", "design_life_first_year", "design_life_last_year", "target_probability", "height_m"};
   std::vector<double> follow_levels;
   for (double t : c.planning.return_periods_yr) follow_levels.push_back(planning::present_return_level(fit.present_day, t));
   for (double z : c.planning.levels_of_interest_m) follow_levels.push_back(z);
@@ -338,6 +488,9 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
         const auto text = amplification_text(am);
         shifts.add_row({display_name(run.settings), std::to_string(y), fixed(z, 2), return_period_text(am.present_return_period_yr),
                         text.future_return_period, text.factor, fixed(100.0 * am.beyond_range_fraction, 1)});
+        std::vector<std::string> csv{run.settings.name, std::to_string(y), csv_m(z)};
+        for (auto& cell : amplification_csv_cells(am)) csv.push_back(std::move(cell));
+        shifts.add_csv_row(std::move(csv));
         rows.push_back(amplification_json(am));
       }
     }
@@ -346,8 +499,11 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     Json em = Json::array();
     for (double z : follow_levels) {
       const auto e = planning::emergence_year(fit.present_day, span_all, z, 1.0);
-      emergence.add_row({display_name(run.settings), fixed(z, 2), fixed(1.0 / fit.present_day.annual_exceedance_rate(z), 1),
+      const double present_period = 1.0 / fit.present_day.annual_exceedance_rate(z);
+      emergence.add_row({display_name(run.settings), fixed(z, 2), return_period_text(present_period),
                          e.year ? std::to_string(*e.year) : "not by " + std::to_string(run.inputs.rise.years.back())});
+      emergence.add_csv_row({run.settings.name, csv_m(z), std::isfinite(present_period) ? fixed(present_period, 6) : "",
+                             e.year ? std::to_string(*e.year) : ""});
       em.push_back({{"level", z}, {"year", e.year ? Json(*e.year) : Json(nullptr)}});
     }
     sj["emergence"] = em;
@@ -358,11 +514,16 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       risk.add_row({display_name(run.settings), fixed(h, 2), report::probability_text(r.probability, r.rounds_to_one),
                     r.monte_carlo.sampled ? fixed(r.monte_carlo.standard_error, 4) : "-",
                     fixed(expected_count(fit.present_day, r), 3), fixed(100.0 * r.beyond_range_fraction, 2)});
+      risk.add_csv_row({run.settings.name, csv_m(h), fixed(r.probability, 8), r.rounds_to_one ? "true" : "false",
+                        r.monte_carlo.sampled ? fixed(r.monte_carlo.standard_error, 8) : "",
+                        fixed(expected_count(fit.present_day, r), 6), fixed(r.beyond_range_fraction, 6)});
       rj.push_back(design_life_risk_json(r));
     }
     const auto tl = planning::level_for_design_life_risk(fit.present_day, life, c.planning.target_risk);
     target.add_row({display_name(run.settings), std::to_string(life_first) + "-" + std::to_string(life_last),
                     fixed(c.planning.target_risk, 3), fixed(tl.level_m, 2)});
+    target.add_csv_row({run.settings.name, std::to_string(life_first), std::to_string(life_last),
+                        fixed(c.planning.target_risk, 6), csv_m(tl.level_m)});
     sj["design_life"] = {{"first_year", life_first}, {"last_year", life_last}, {"risks", rj},
                          {"target_probability", c.planning.target_risk}, {"target_height_m", tl.level_m}};
     report::NamedSeries curve{display_name(run.settings), {}};
@@ -388,11 +549,13 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   // --- maps ---------------------------------------------------------------------------------
   Json maps_json;
   std::string extent_title = "Flood extent";
+  std::optional<terrain::DefenceBurn> defence_burn;
   report::Table map_table{"flooded_areas",
                           "Land reached by the sea (connected) and low ground below the level it does not reach (cut off), per mapped level.",
                           {{"Level", level_unit}, {"Year", ""}, {"Scenario", ""}, {"Flooded area", "ha"},
                            {"Cut-off low ground", "ha"}, {"Largest depth", "m"}},
                           {}};
+  map_table.csv_columns = {"level_m", "year", "scenario", "flooded_area_ha", "cut_off_area_ha", "max_depth_m"};
   if (c.map.enabled) {
     clock.begin("maps");
     terrain::MapRequest m;
@@ -432,6 +595,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     m.command_line = o.command;
     for (const auto& s : report::safety_cautions()) m.cautions.emplace_back(s);
     const auto ms = terrain::make_flood_maps(m);
+    defence_burn = ms.defences;
     if (!m.levels.empty()) {
       const auto& last = m.levels.back();
       extent_title = "Flood extent at " + fixed(last.level_m, 2) + " m (" + last.scenario +
@@ -442,6 +606,9 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       map_table.add_row({fixed(l.level.level_m, 2), l.level.year ? std::to_string(*l.level.year) : "today",
                          l.level.scenario, fixed(l.flooded_area_m2 / 1e4, 2), fixed(l.cut_off_area_m2 / 1e4, 2),
                          fixed(l.max_depth_m, 2)});
+      map_table.add_csv_row({csv_m(l.level.level_m), l.level.year ? std::to_string(*l.level.year) : "",
+                             l.level.scenario, fixed(l.flooded_area_m2 / 1e4, 4), fixed(l.cut_off_area_m2 / 1e4, 4),
+                             csv_m(l.max_depth_m)});
       levels.push_back({{"level_m", l.level.level_m}, {"year", l.level.year ? Json(*l.level.year) : Json(nullptr)},
                         {"scenario", l.level.scenario}, {"flooded_area_m2", l.flooded_area_m2},
                         {"cut_off_area_m2", l.cut_off_area_m2}, {"volume_m3", l.volume_m3},
@@ -467,7 +634,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   answers.blocks.emplace_back(report::Paragraph{"Design heights keep the expected number of exceedances per year in the "
                                                 "design year equal to today's (Hunter 2012). They are still-water levels: "
                                                 "add waves, freeboard and local code requirements."});
-  answers.blocks.emplace_back(heights);
+  for (const auto& run : runs) answers.blocks.emplace_back(design_height_matrix(run, c.planning, datum));
   for (const auto& w : ensemble_warnings) answers.blocks.emplace_back(report::Paragraph{"Warning: " + w + "."});
   answers.blocks.emplace_back(report::Figure{"design_heights", "Design height of today's " + fixed(design_rp, 0) +
                                                                    "-year level by year, per scenario.",
@@ -492,15 +659,17 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   {
     report::BulletList lines;
     std::istringstream in(fit.data_summary);
-    for (std::string line; std::getline(in, line);) lines.items.push_back(line);
+    for (std::string line; std::getline(in, line);) lines.items.push_back(relative_to_site(line, c));
     evidence.blocks.emplace_back(lines);
   }
   evidence.blocks.emplace_back(report::Subheading{"Extreme-value fit"});
   report::Table params{"fit_parameters", "Maximum-likelihood estimates with standard errors from the observed information.",
                        {{"Parameter", ""}, {"Estimate", ""}, {"Standard error", ""}}, {}};
+  params.csv_columns = {"parameter", "estimate", "standard_error"};
   for (std::size_t i = 0; i < fit.fit.parameter_names.size(); ++i) {
     const auto k = static_cast<Eigen::Index>(i);
     params.add_row({fit.fit.parameter_names[i], fixed(fit.fit.estimate(k), 4), fixed(fit.fit.standard_error(k), 4)});
+    params.add_csv_row({fit.fit.parameter_names[i], fixed(fit.fit.estimate(k), 8), fixed(fit.fit.standard_error(k), 8)});
   }
   evidence.blocks.emplace_back(params);
   std::string diag = "Model " + fit.model + ", " + std::to_string(fit.fit.n) + " values, log-likelihood " +
@@ -524,6 +693,8 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                     {"Profile upper", level_unit}, {"Delta lower (approx.)", level_unit},
                     {"Delta upper (approx.)", level_unit}},
                    {}};
+  rl.csv_columns = {"return_period_yr", "aep_percent", "level_m", "profile_lower_m", "profile_upper_m",
+                    "delta_lower_approx_m", "delta_upper_approx_m"};
   for (std::size_t i = 0; i < fit.profile.size(); ++i) {
     const auto& p = fit.profile[i];
     const auto& d = fit.delta[i];
@@ -534,6 +705,10 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
                 fixed(100.0 * extremes::annual_exceedance_probability_of_period(p.return_period_yr), 3),
                 fixed(p.level_m, 2), end(p.lower_m), end(p.upper_m),
                 delta_lower_below_shorter_level(fit, i) ? std::string("not shown") : end(d.lower_m), end(d.upper_m)});
+    rl.add_csv_row({fixed(p.return_period_yr, 6),
+                    fixed(100.0 * extremes::annual_exceedance_probability_of_period(p.return_period_yr), 6),
+                    csv_m(p.level_m), csv_m(p.lower_m), csv_m(p.upper_m),
+                    delta_lower_below_shorter_level(fit, i) ? std::string() : csv_m(d.lower_m), csv_m(d.upper_m)});
   }
   std::string band_method;
   const report::ReturnLevelPlotInput rlp = return_level_plot_input(fit, &band_method);
@@ -547,12 +722,9 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   evidence.blocks.emplace_back(report::Subheading{"Sea-level projections"});
   for (const auto& run : runs) {
     const auto& t = run.inputs.rise;
-    report::FanChartInput fan = fan_chart_input(run.projection, t);
+    report::FanChartInput fan = fan_chart_input(run.projection, t, run.inputs.rise_zero_year);
     fan.title = "Relative sea-level rise, " + display_name(run.settings);
-    std::string name = "projection_" + run.settings.name;
-    for (auto& ch : name) {
-      if (!std::isalnum(static_cast<unsigned char>(ch)) && ch != '_' && ch != '-') ch = '_';
-    }
+    const std::string name = "projection_" + file_stem(run.settings.name);
     evidence.blocks.emplace_back(report::Figure{name, "Scenario " + display_name(run.settings) + ": median, 17-83% and 5-95% of " +
                                                           std::to_string(t.member_count()) + " members, with component medians.",
                                                 report::projection_fan_chart(fan)});
@@ -561,6 +733,8 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     for (const auto& n : run.inputs.notes) notes.items.push_back(n);
     evidence.blocks.emplace_back(notes);
   }
+  evidence.blocks.emplace_back(report::Subheading{"Allowances in detail"});
+  evidence.blocks.emplace_back(heights);
   evidence.blocks.emplace_back(report::Figure{"allowances", "Allowance for today's " + fixed(design_rp, 0) +
                                                                 "-year level by year, per scenario.",
                                               report::allowance_plot(plot_years, allowance_series)});
@@ -591,23 +765,14 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
   }
   doc.sections.push_back(std::move(evidence));
 
-  doc.inputs = {{"Site file", c.file.filename().string()},
-                {"Record", c.record.path.filename().string() + " (" + c.record.kind + ", units " + c.record.units + ")"},
-                {"Water-level datum", datum},
-                {"Extreme model", c.extremes.model},
-                {"Projection", std::to_string(c.projection.members) + " members, " +
-                                   std::to_string(c.projection.start_year) + "-" + std::to_string(c.projection.end_year) +
-                                   ", reference " + c.projection.reference},
-                {"Seed", std::to_string(c.seed)}};
-  for (const auto& s : c.scenarios) doc.inputs.push_back({"Scenario " + s.name, s.source == "pathway" ? "built-in pathway " + s.pathway : s.path->filename().string()});
-  if (c.map.enabled) {
-    doc.inputs.push_back({"DEM", c.map.dem.filename().string()});
-    if (c.map.sea) doc.inputs.push_back({"Sea", c.map.sea->filename().string()});
-  }
+  doc.inputs = report_inputs(c, datum, defence_burn);
   doc.assumptions = {"Still water only: tide plus surge, no waves.",
                      "Storm statistics stay as today's unless a storminess change is given (here: " +
                          fixed(c.planning.storminess_scale_per_yr, 4) + " of the scale per year).",
-                     "Fingerprint factors not given default to 1, which ignores regional patterns of sea-level change.",
+                     c.local.fingerprints.empty()
+                         ? "No fingerprint factors given: every component's global rise is taken locally unchanged "
+                           "(factor 1), which ignores regional patterns of sea-level change."
+                         : "Fingerprint factors as listed in the inputs; components not listed take 1.",
                      "Vertical land motion " + fixed(c.local.land_motion_mm_per_yr, 2) + " ± " +
                          fixed(c.local.land_motion_sd_mm_per_yr, 2) + " mm/yr (positive = uplift)."};
   if (c.map.enabled && c.map.sea_spread_to_m) {

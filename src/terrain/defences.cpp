@@ -135,6 +135,7 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
   mem.reset();
   DefenceBurn out;
   out.features = handles.size();
+  out.crests_m = burn;  // already in ascending order
   out.gaps_closed = close_diagonal_gaps(dem, crest);
   for (std::size_t i = 0; i < crest.size(); ++i) {
     if (std::isnan(crest[i]) || std::isnan(dem.elevation_m[i])) continue;

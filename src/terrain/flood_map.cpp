@@ -289,6 +289,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   MapSummary s;
   s.warnings = map.dem.warnings;
   if (map.defences) s.warnings.insert(s.warnings.end(), map.defences->warnings.begin(), map.defences->warnings.end());
+  s.defences = map.defences;
   const GridShape shape = map.dem.grid.shape;
   s.cells = shape.cells();
   s.sea_cells = map.sea.count;

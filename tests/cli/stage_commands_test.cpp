@@ -157,7 +157,7 @@ TEST(StageCommands, ProjectWritesContractAndMembersThatAllowanceReads) {
   EXPECT_EQ(e.years.back(), 2100);
   const auto plot = (dir / "fan.svg").string();
   ASSERT_EQ(run_cli("project --pathway midway --samples 50 --last-year 2100 --quiet --plot " + shell_quote(plot)).exit_code, 0);
-  EXPECT_THAT(read_all(plot), HasSubstr("Median, total"));
+  EXPECT_THAT(read_all(plot), HasSubstr("Total (median)"));
   // The same seed gives the same bytes.
   const auto members2 = (dir / "m2.csv").string();
   ASSERT_EQ(run_cli("project --pathway midway --samples 200 --last-year 2100 --members " + shell_quote(members2) +

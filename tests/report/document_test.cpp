@@ -173,6 +173,17 @@ TEST(TableCsv, QuotesFieldsAsRfc4180) {
   EXPECT_THROW(t.add_row({"only one"}), tidewright::InputError);
 }
 
+TEST(TableCsv, NumbersOnlyFormReplacesTheDisplayCells) {
+  tr::Table t{"t", "", {{"Future return period", "years"}, {"Factor", ""}}, {}};
+  t.add_row({"< 1.16", "> 8.6"});
+  t.csv_columns = {"future_return_period_yr", "amplification_factor_above"};
+  t.add_csv_row({"", "8.6"});
+  EXPECT_EQ(tr::table_csv(t), "future_return_period_yr,amplification_factor_above\n,8.6\n");
+  EXPECT_THROW(t.add_csv_row({"1"}), tidewright::InputError);
+  // The HTML keeps the display cells.
+  EXPECT_NE(tr::render_html(tr::ReportDocument{.sections = {{"S", {t}}}}).find("&lt; 1.16"), std::string::npos);
+}
+
 TEST(TableCsv, WritesEveryTableAndRefusesBadNames) {
   tt::TempDir tmp;
   const auto doc = small_document();

@@ -231,8 +231,8 @@ TEST(FanChart, BandsMedianAndComponentsAreLabelled) {
   EXPECT_EQ(s["classes"].value("band", 0), 2);
   EXPECT_EQ(s["classes"].value("series", 0), 3);
   EXPECT_TRUE(has_text(s, "Relative sea-level rise since 2020 (m)"));
-  EXPECT_TRUE(has_text(s, "Median, total"));
-  EXPECT_TRUE(has_text(s, "Median, thermal expansion"));
+  EXPECT_TRUE(has_text(s, "Total (median)"));
+  EXPECT_TRUE(has_text(s, "thermal expansion (median)"));
   EXPECT_TRUE(has_text(s, "5\u201395% range"));
   EXPECT_TRUE(has_text(s, "2020"));
   EXPECT_TRUE(has_text(s, "2100"));

@@ -1,6 +1,7 @@
 // Joining a fit to a projection (issue 12): the record's epoch is checked against the
 // projected years and the projection's structured reference period, never its label.
 #include "tidewright/study/planning_stage.hpp"
+#include "tidewright/study/projection_stage.hpp"
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
@@ -63,6 +64,30 @@ TEST(JoinFitAndProjection, EpochInsideTheProjectedYearsReReferencesEachMember) {
   EXPECT_DOUBLE_EQ(in.rise.rise_m(1, 1), 0.6 - 0.02);
   EXPECT_FALSE(in.rise.reference_period.has_value()) << "the rise is now measured from the epoch";
   EXPECT_EQ(in.rise.reference, "the record's epoch 2020.0");
+  EXPECT_EQ(in.rise_zero_year, 2020);
+}
+
+// The fan chart's components are measured from the same year as the re-referenced total, member
+// by member, and carry readable names.
+TEST(FanChartInput, ComponentsShareTheTotalsReferenceYear) {
+  study::ProjectionStageResult r;
+  r.local.total = members();
+  r.local.component_names = {"thermal_expansion", "land_water"};
+  Eigen::MatrixXd thermal(2, 2);
+  thermal << 0.004, 0.2, 0.006, 0.3;
+  r.local.contribution_m = {thermal, Eigen::MatrixXd::Zero(2, 2)};
+  const auto in = study::join_fit_and_projection(fit_with_epoch(2020.0), members(), std::nullopt);
+  const auto fan = study::fan_chart_input(r, in.rise, in.rise_zero_year);
+  ASSERT_EQ(fan.component_medians_m.size(), 2U);
+  EXPECT_EQ(fan.component_medians_m[0].name, "Thermal expansion");
+  EXPECT_EQ(fan.component_medians_m[1].name, "Land water");
+  // Median of (0.196, 0.294) with type 7 is their mean; zero in the reference year.
+  EXPECT_DOUBLE_EQ(fan.component_medians_m[0].values[0], 0.0);
+  EXPECT_NEAR(fan.component_medians_m[0].values[1], 0.245, 1e-12);
+  EXPECT_NEAR(fan.q50_m[1], 0.5 * ((0.5 - 0.01) + (0.6 - 0.02)), 1e-12);
+  // Without a zero year (the project command's plot) the components stay on the projection's reference.
+  const auto raw = study::fan_chart_input(r, r.local.total);
+  EXPECT_NEAR(raw.component_medians_m[0].values[1], 0.25, 1e-12);
 }
 
 TEST(JoinFitAndProjection, EpochOutsideBothIsRefusedWithTheCallersInputInTheHint) {

@@ -5,6 +5,11 @@
 
 #include <nlohmann/json.hpp>
 
+#include <algorithm>
+#include <cmath>
+#include <set>
+#include <sstream>
+
 #include "support/run_cli.hpp"
 #include "tidewright/common/atomic_output.hpp"
 
@@ -161,4 +166,79 @@ TEST_F(SmallDemo, ReportRendersInChromium) {
   EXPECT_EQ(messages.find("Failed to load resource"), std::string::npos) << messages;
   EXPECT_EQ(messages.find("Uncaught"), std::string::npos) << messages;
   EXPECT_EQ(messages.find("net::ERR_"), std::string::npos) << messages;
+}
+
+namespace {
+// RFC 4180 fields of one line (the study's tables hold no line breaks inside fields).
+std::vector<std::string> csv_fields(const std::string& line) {
+  std::vector<std::string> out(1);
+  bool quoted = false;
+  for (std::size_t i = 0; i < line.size(); ++i) {
+    const char ch = line[i];
+    if (quoted && ch == '"' && i + 1 < line.size() && line[i + 1] == '"') {
+      out.back() += '"';
+      ++i;
+    } else if (ch == '"') {
+      quoted = !quoted;
+    } else if (ch == ',' && !quoted) {
+      out.emplace_back();
+    } else {
+      out.back() += ch;
+    }
+  }
+  return out;
+}
+}  // namespace
+
+// Issue 14: a script reads every table: snake_case headers, numbers (or true/false flags, or
+// an empty cell) in every column but the names; no "< 1", "> 10", "inf" or "not shown".
+TEST_F(SmallDemo, TableCsvsHoldNumbersOnly) {
+  const std::set<std::string> text_columns{"scenario", "parameter"};
+  int tables = 0;
+  for (const auto& entry : fs::directory_iterator(demo() / "study" / "tables")) {
+    ++tables;
+    std::istringstream in(read_all(entry.path()));
+    std::string line;
+    ASSERT_TRUE(std::getline(in, line));
+    const auto header = csv_fields(line);
+    for (const auto& h : header) {
+      EXPECT_TRUE(std::all_of(h.begin(), h.end(), [](char ch) { return std::islower(ch) || std::isdigit(ch) || ch == '_'; }))
+          << entry.path().filename() << ": " << h;
+    }
+    int row = 0;
+    while (std::getline(in, line)) {
+      ++row;
+      const auto cells = csv_fields(line);
+      ASSERT_EQ(cells.size(), header.size()) << entry.path().filename() << " row " << row;
+      for (std::size_t i = 0; i < cells.size(); ++i) {
+        const auto& v = cells[i];
+        if (text_columns.count(header[i]) != 0 || v.empty() || v == "true" || v == "false") continue;
+        std::size_t used = 0;
+        double x = std::nan("");
+        try {
+          x = std::stod(v, &used);
+        } catch (const std::exception&) {
+          used = 0;
+        }
+        EXPECT_TRUE(used == v.size() && std::isfinite(x))
+            << entry.path().filename() << " row " << row << " column " << header[i] << ": '" << v << "'";
+      }
+    }
+  }
+  EXPECT_GE(tables, 10);
+  EXPECT_TRUE(fs::exists(demo() / "study" / "tables" / "design_height_matrix_midway.csv"));
+}
+
+// Issue 14: the report says what shaped its numbers, with file names relative to the site file.
+TEST_F(SmallDemo, ReportListsWhatShapedItsNumbers) {
+  const std::string html = read_all(demo() / "study" / "report.html");
+  for (const char* s : {"Design life", "2030-2080", "Heights of interest", "5.20, 6.00, 6.30 m above", "Epoch offset",
+                        "Storminess change", "Fingerprint factors", "quillhaven_defences.geojson, crest attribute",
+                        "features, crests", "water level = DEM elevation + 0.000 m", "Design heights, scenario midway",
+                        "Low ground cut off from the sea", "Thermal expansion (median)"}) {
+    EXPECT_THAT(html, HasSubstr(s)) << s;
+  }
+  EXPECT_EQ(html.find(demo().string()), std::string::npos) << "an absolute path in the report";
+  const auto results = nlohmann::json::parse(read_all(demo() / "study" / "results.json"));
+  EXPECT_EQ(results["fit"]["source"], "quillhaven_tide_gauge.csv");
 }

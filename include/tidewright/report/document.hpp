@@ -28,9 +28,15 @@ struct Table {
   std::string caption{};  // one sentence saying what the rows are
   std::vector<TableColumn> columns{};
   std::vector<std::vector<std::string>> rows{};  // cell text (format numbers with fixed())
+  // A numbers-only form for the CSV, for tables whose cells hold bounds or words ("< 1",
+  // "not by 2150") a script cannot read: when csv_columns is set, table_csv writes these
+  // (snake_case names with units, an empty cell where there is no number) instead of the cells.
+  std::vector<std::string> csv_columns{};
+  std::vector<std::vector<std::string>> csv_rows{};
 
-  // Throws InputError when the row's width differs from the columns'.
+  // Throw InputError when the row's width differs from the columns'.
   void add_row(std::vector<std::string> cells);
+  void add_csv_row(std::vector<std::string> cells);
 };
 
 struct Figure {

@@ -25,6 +25,9 @@ struct PlanningInputs {
   local::RiseEnsemble rise;  // re-referenced to the record's epoch where needed
   planning::StorminessChange storminess;
   std::vector<std::string> notes;  // how the two were joined; printed and kept in the JSON
+  // The projected year whose rise every member had subtracted (the record's epoch), so that
+  // the projection's components can be measured from the same year as the total.
+  std::optional<int> rise_zero_year;
 };
 
 // Joins a fit and a projection. With a fit epoch E: if E lies inside the projected years,
@@ -77,6 +80,11 @@ struct AmplificationText {
   std::string factor;
 };
 [[nodiscard]] AmplificationText amplification_text(const planning::Amplification& a);
+// The same row for a CSV, numbers only (docs/file-formats.md): beyond the annual-maxima range
+// the future return period and factor are empty and the factor's lower bound has its own column.
+// Columns: amplification_csv_columns(), after the caller's own (year, level, ...).
+[[nodiscard]] std::vector<std::string> amplification_csv_columns();
+[[nodiscard]] std::vector<std::string> amplification_csv_cells(const planning::Amplification& a);
 
 // One design-life risk row as JSON: probability (with its Monte Carlo error), the expected
 // number of years with an exceedance, the expected exceedances (null where a member takes the

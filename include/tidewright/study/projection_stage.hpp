@@ -95,7 +95,13 @@ inline const std::vector<double> summary_probabilities{0.05, 0.17, 0.50, 0.83, 0
 
 // Fan chart of the total (5/17/50/83/95 %) with the component medians. `total` may be a
 // re-referenced copy of r.local.total (the study measures rise from the record's epoch).
-[[nodiscard]] report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const local::RiseEnsemble& total);
+// `total` may be re-referenced (PlanningInputs::rise); with `zero_year` each component is
+// measured from that year too, member by member, so the lines share the total's reference.
+// Components get readable names ("Thermal expansion").
+[[nodiscard]] report::FanChartInput fan_chart_input(const ProjectionStageResult& r, const local::RiseEnsemble& total,
+                                                    std::optional<int> zero_year = std::nullopt);
+// "thermal_expansion" -> "Thermal expansion", for legends and tables.
+[[nodiscard]] std::string component_display_name(const std::string& name);
 // "year,p05,p17,p50,p83,p95,p99,<component>_p50,..." one row per year.
 [[nodiscard]] std::string projection_csv(const ProjectionStageResult& r);
 

@@ -28,6 +28,7 @@ struct DefenceBurn {
   std::size_t gaps_closed = 0;  // diagonal gaps left by the burn and closed
   std::size_t cells_touched = 0;  // DEM cells under a defence (whether raised or not)
   std::string description;
+  std::vector<double> crests_m;  // each feature's crest as read (crest field's datum), ascending
   // Defences that change nothing: none over the DEM (another CRS or place?), or every crest at
   // or below the ground it stands on (the crest field or its datum?).
   std::vector<std::string> warnings;

@@ -110,6 +110,7 @@ struct MapSummary {
   std::vector<LevelSummary> levels;
   std::vector<std::string> files;  // names inside out_dir
   std::vector<std::string> warnings;  // about the inputs (e.g. a DEM's unclear vertical unit)
+  std::optional<DefenceBurn> defences;  // what the defence layer did, when one was given
 };
 
 // Throws InputError for bad inputs (before any output exists) and when out_dir exists without
