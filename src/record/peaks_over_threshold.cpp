@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "prepared_record.hpp"
+#include "tidewright/common/declustering.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/common/sample_quantile.hpp"
 
@@ -26,16 +27,8 @@ std::size_t count_clusters(const std::vector<std::int64_t>& time_utc_s,
                            const std::vector<double>& level_m, const std::vector<bool>& use,
                            double level_threshold_m, double separation_s) {
   std::size_t clusters = 0;
-  bool any = false;
-  std::int64_t last = 0;
-  for (std::size_t i = 0; i < level_m.size(); ++i) {
-    if (!use[i] || !(level_m[i] > level_threshold_m)) continue;
-    // A new cluster when the level has stayed at or below u for the separation r since the
-    // last exceedance (runs declustering, Coles 2001 §5.3.2).
-    if (!any || static_cast<double>(time_utc_s[i] - last) >= separation_s) ++clusters;
-    any = true;
-    last = time_utc_s[i];
-  }
+  (void)runs_declustering(time_utc_s, level_m, use, level_threshold_m, separation_s,
+                          [&clusters](std::size_t) { ++clusters; });
   return clusters;
 }
 
@@ -126,28 +119,10 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
   const double u = pot.threshold_m;
   const double separation_s = options.separation_h * 3600.0;
 
-  bool in_cluster = false;
-  std::int64_t last = 0;
-  std::size_t peak = 0;
-  for (std::size_t i = 0; i < h.size(); ++i) {
-    if (!use[i] || !(h[i] > u)) continue;
-    ++pot.exceedances;
-    if (!in_cluster || static_cast<double>(t[i] - last) >= separation_s) {
-      if (in_cluster) {
-        pot.time_utc_s.push_back(t[peak]);
-        pot.level_m.push_back(h[peak]);
-      }
-      in_cluster = true;
-      peak = i;
-    } else if (h[i] > h[peak]) {
-      peak = i;
-    }
-    last = t[i];
-  }
-  if (in_cluster) {
+  pot.exceedances = runs_declustering(t, h, use, u, separation_s, [&](std::size_t peak) {
     pot.time_utc_s.push_back(t[peak]);
     pot.level_m.push_back(h[peak]);
-  }
+  });
   if (pot.level_m.empty()) {
     throw InputError(series.source,
                      "no level of the complete years lies above the threshold " +

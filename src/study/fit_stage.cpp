@@ -227,7 +227,10 @@ report::ReturnLevelPlotInput return_level_plot_input(const FitStageResult& fit, 
   if (band_method) *band_method = profile_complete ? "profile-likelihood" : "delta-method";
   report::ReturnLevelPlotInput rlp;
   rlp.datum = fit.datum;
-  rlp.model_name = fit.model + " fit";
+  const std::string family = fit.model == "gumbel" ? "Gumbel" : fit.model == "gev" ? "GEV" : fit.model == "gpd" ? "GPD"
+                             : fit.model == "rlargest"                                        ? "r-largest GEV"
+                                                                                              : fit.model;
+  rlp.model_name = family + " fit";
   if (fit.model != "gpd") {
     for (const auto& p : fit.plot_points) rlp.annual_maxima_m.push_back(p.level_m);
   }
