@@ -300,7 +300,7 @@ nlohmann::ordered_json projection_json(const ProjectionStageResult& r) {
   j["total"] = quantile_block(total.rise_m, summary_probabilities);
   nlohmann::ordered_json comps = nlohmann::ordered_json::object();
   for (std::size_t c = 0; c < r.local.component_names.size(); ++c) {
-    comps[r.local.component_names[c]] = quantile_block(r.local.contribution_m[c], {0.05, 0.5, 0.95});
+    comps[r.local.component_names[c]] = quantile_block(r.local.contribution_m[c], {0.05, 0.17, 0.5, 0.83, 0.95});
   }
   j["components"] = comps;
   if (!r.local.fingerprint_used.empty()) j["fingerprints"] = r.local.fingerprint_used;
