@@ -44,6 +44,8 @@ struct MapOptions {
   std::string datum_offset_raster;
   bool same_datum = false;
   std::string sea;
+  std::string sea_layer;
+  std::string sea_where;
   std::vector<std::string> sea_points;
   std::optional<double> sea_edge_below_m;
   bool nodata_is_sea = false;
@@ -293,6 +295,10 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
     req.dem.datum.kind = terrain::DatumRelation::Kind::same;
   }
   req.sea.mask_path = o.sea;
+  req.sea.layer = o.sea_layer;
+  req.sea.where = o.sea_where;
+  req.sea.layer_input = "--sea-layer";
+  req.sea.where_input = "--sea-where";
   for (const auto& p : o.sea_points) req.sea.points_xy.push_back(parse_point(p));
   req.sea.edge_at_or_below_m = o.sea_edge_below_m;
   req.sea.nodata_is_sea = o.nodata_is_sea;
@@ -408,6 +414,10 @@ void configure(CLI::App& app, CommonOptions& common) {
                "State that the DEM's datum is the water-level datum");
   app.add_option("--sea", o->sea, "Sea mask: polygons (OGR) or raster (non-zero = sea)")
       ->type_name("FILE");
+  app.add_option("--sea-layer", o->sea_layer, "Layer of --sea that is the sea (needed when it has several)")
+      ->type_name("NAME");
+  app.add_option("--sea-where", o->sea_where, "Only --sea features passing this OGR SQL condition, e.g. \"kind = 'sea'\"")
+      ->type_name("SQL");
   app.add_option("--sea-point", o->sea_points, "A sea seed point X,Y in the DEM's CRS (repeat)")
       ->type_name("X,Y");
   app.add_option("--sea-edge-below", o->sea_edge_below_m, "DEM edge cells at or below M are sea")

@@ -181,6 +181,8 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
                        "set map.dem_offset_m, or map.same_datum = true if they are the same");
     }
     c.map.sea = mp->optional_path("sea");
+    c.map.sea_layer = mp->optional_string("sea_layer").value_or("");
+    c.map.sea_where = mp->optional_string("sea_where").value_or("");
     c.map.sea_spread_to_m = mp->optional_number("sea_spread_to_m");
     c.map.defences = mp->optional_path("defences");
     c.map.crest_attribute = mp->optional_string("crest_attribute").value_or(c.map.crest_attribute);

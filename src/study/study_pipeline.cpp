@@ -566,6 +566,10 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       m.dem.datum.offset_m = *c.map.dem_offset_m;
     }
     if (c.map.sea) m.sea.mask_path = c.map.sea->string();
+    m.sea.layer = c.map.sea_layer;
+    m.sea.where = c.map.sea_where;
+    m.sea.layer_input = field_location(c.file.string(), "map.sea_layer");
+    m.sea.where_input = field_location(c.file.string(), "map.sea_where");
     m.sea.spread_to_m = c.map.sea_spread_to_m;
     if (c.map.defences) {
       terrain::DefenceSource d;

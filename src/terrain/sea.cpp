@@ -13,14 +13,66 @@
 namespace tidewright::terrain {
 namespace {
 
-// Rasterises every polygon of every layer at cell centres (GDAL's default rule).
-std::vector<std::uint8_t> rasterise_sea_polygons(const std::string& path, const GeoGrid& grid) {
-  auto ds = gdal::open_vector(path, "sea mask");
-  std::vector<gdal::LayerGeometry> geometries;
-  for (auto* layer : ds->GetLayers()) {
-    auto g = gdal::layer_geometries(*layer, grid, path);
-    for (auto& item : g) geometries.push_back(std::move(item));
+std::string layer_names(GDALDataset& ds) {
+  std::string names;
+  for (auto* layer : ds.GetLayers()) names += (names.empty() ? "'" : ", '") + std::string(layer->GetName()) + "'";
+  return names;
+}
+
+// The one layer that holds the sea: the named one, or the file's only layer. A file of several
+// layers (a GeoPackage often holds land, rivers and sea) needs a name: reading them all once
+// turned 95 % of a DEM into sea.
+OGRLayer& sea_layer(GDALDataset& ds, const SeaSource& source) {
+  if (!source.layer.empty()) {
+    OGRLayer* layer = ds.GetLayerByName(source.layer.c_str());
+    if (layer == nullptr) {
+      throw InputError(source.mask_path, "has no layer '" + source.layer + "'",
+                       "name one of its layers with " + source.layer_input + ": " + layer_names(ds));
+    }
+    return *layer;
   }
+  if (ds.GetLayerCount() > 1) {
+    throw InputError(source.mask_path,
+                     "holds " + std::to_string(ds.GetLayerCount()) + " layers (" + layer_names(ds) +
+                         ") and none is named as the sea",
+                     "name the sea's layer with " + source.layer_input);
+  }
+  return *ds.GetLayer(0);
+}
+
+// Rasterises the sea layer's polygons (after the filter) at cell centres (GDAL's default rule).
+std::vector<std::uint8_t> rasterise_sea_polygons(const SeaSource& source, const GeoGrid& grid,
+                                                 std::string& description) {
+  const std::string& path = source.mask_path;
+  auto ds = gdal::open_vector(path, "sea mask");
+  OGRLayer& layer = sea_layer(*ds, source);
+  const std::string name = layer.GetName();
+  const auto bad_filter = [&] {
+    return InputError(source.where_input + " '" + source.where + "'",
+                      "is not an attribute filter of layer '" + name + "' (" + gdal::last_error() + ")",
+                      "write an OGR SQL condition on its fields, e.g. \"kind = 'sea'\" (ogrinfo -so " + path + ")");
+  };
+  CPLErrorReset();
+  if (!source.where.empty() && layer.SetAttributeFilter(source.where.c_str()) != OGRERR_NONE) throw bad_filter();
+  std::vector<gdal::LayerGeometry> geometries = gdal::layer_geometries(layer, grid, path);
+  // Some drivers (GeoPackage) accept any filter and fail only while reading.
+  if (!source.where.empty() && geometries.empty() && CPLGetLastErrorType() >= CE_Failure) throw bad_filter();
+  if (geometries.empty()) {
+    throw InputError(path, "layer '" + name + "' holds no feature" + (source.where.empty() ? "" : " that passes the filter"),
+                     source.where.empty() ? "check the file with ogrinfo" : "check " + source.where_input);
+  }
+  for (const auto& g : geometries) {
+    if (g.geometry->getDimension() < 2) {
+      throw InputError(path + ": feature " + std::to_string(g.fid),
+                       "is a " + std::string(OGRGeometryTypeToName(g.geometry->getGeometryType())) +
+                           ", but the sea is an area: lines and points are not sea polygons",
+                       "give polygons of the sea (a coastline closed into a polygon seaward), or sea points with "
+                       "their own option");
+    }
+  }
+  description = "sea polygons " + path + " layer '" + name + "'" +
+                (source.where.empty() ? std::string() : " where " + source.where) + ", " +
+                std::to_string(geometries.size()) + " features (cell centres)";
   auto mem = gdal::mem_raster(grid, GDT_Byte, 1, 0.0);
   std::vector<OGRGeometryH> handles;
   handles.reserve(geometries.size());
@@ -57,9 +109,15 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
   if (!source.mask_path.empty()) {
     std::vector<std::uint8_t> mask;
     if (gdal::is_vector(source.mask_path)) {
-      mask = rasterise_sea_polygons(source.mask_path, dem.grid);
-      add_part("sea polygons " + source.mask_path + " (cell centres)");
+      std::string description;
+      mask = rasterise_sea_polygons(source, dem.grid, description);
+      add_part(description);
     } else {
+      if (!source.layer.empty() || !source.where.empty()) {
+        throw InputError(source.layer.empty() ? source.where_input : source.layer_input,
+                         "applies to a vector sea mask, but " + source.mask_path + " is a raster",
+                         "leave it out, or give the sea as polygons");
+      }
       const auto values = resample_to_grid(source.mask_path, dem.grid, "near", "sea mask");
       mask.resize(n);
       for (std::size_t i = 0; i < n; ++i) {

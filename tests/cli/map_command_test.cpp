@@ -450,3 +450,75 @@ TEST(MapCommand, RecordedCommandLineIsShellQuoted) {
   ASSERT_EQ(pclose(pipe), 0);
   EXPECT_THAT(echoed, HasSubstr("\n" + dem + "\n"));
 }
+
+namespace {
+struct LayerSpec {
+  std::string name;
+  std::vector<std::pair<std::string, std::string>> features;  // WKT, kind
+};
+// A vector file of the given layers, each feature with a text field `kind` (UTM 33N).
+void write_layers(const std::string& path, const std::string& driver, const std::vector<LayerSpec>& layers) {
+  GDALAllRegister();
+  GDALDriver* drv = GetGDALDriverManager()->GetDriverByName(driver.c_str());
+  GDALDatasetUniquePtr ds(drv->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
+  OGRSpatialReference srs;
+  srs.importFromEPSG(32633);
+  srs.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
+  for (const auto& spec : layers) {
+    OGRLayer* layer = ds->CreateLayer(spec.name.c_str(), &srs, wkbUnknown, nullptr);
+    OGRFieldDefn kind("kind", OFTString);
+    layer->CreateField(&kind);
+    for (const auto& [wkt, k] : spec.features) {
+      OGRFeature f(layer->GetLayerDefn());
+      OGRGeometry* g = nullptr;
+      OGRGeometryFactory::createFromWkt(wkt.c_str(), &srs, &g);
+      f.SetGeometryDirectly(g);
+      f.SetField("kind", k.c_str());
+      ASSERT_EQ(layer->CreateFeature(&f), OGRERR_NONE);
+    }
+  }
+}
+// Column 0 of profile_dem (the sea, 3 cells) and the whole DEM.
+const std::string sea_column = "POLYGON((500000 5999970,500010 5999970,500010 6000000,500000 6000000,500000 5999970))";
+const std::string whole_dem = "POLYGON((500000 5999970,500050 5999970,500050 6000000,500000 6000000,500000 5999970))";
+}  // namespace
+
+// Issue 15: a multi-layer source needs its sea layer named; a filter picks features; a coastline
+// line is not taken for sea polygons.
+TEST(MapCommand, SeaLayerIsChosenFilteredAndMustBeAnArea) {
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const auto out = tmp / "maps";
+  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --level 1.5 --quiet --out " +
+                           shell_quote(out.string()) + " --sea ";
+  const auto both = (tmp / "coast.gpkg").string();
+  write_layers(both, "GPKG", {{"land", {{whole_dem, "land"}}}, {"sea", {{sea_column, "sea"}}}});
+  expect_input_error(run_cli(base + shell_quote(both)), "holds 2 layers ('land', 'sea') and none is named as the sea",
+                     out);
+  expect_input_error(run_cli(base + shell_quote(both) + " --sea-layer shore"), "has no layer 'shore'", out);
+  auto r = run_cli(base + shell_quote(both) + " --sea-layer sea");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  auto summary = nlohmann::json::parse(read_all(out / "summary.json"));
+  EXPECT_EQ(summary["sea_cells"], 3);
+  EXPECT_THAT(summary["sea"].get<std::string>(), HasSubstr("layer 'sea', 1 features"));
+  std::filesystem::remove_all(out);
+
+  const auto one = (tmp / "mixed.gpkg").string();
+  write_layers(one, "GPKG", {{"water", {{sea_column, "sea"}, {whole_dem, "lake"}}}});
+  r = run_cli(base + shell_quote(one) + " --sea-where \"kind = 'sea'\"");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  summary = nlohmann::json::parse(read_all(out / "summary.json"));
+  EXPECT_EQ(summary["sea_cells"], 3);
+  EXPECT_THAT(summary["sea"].get<std::string>(), HasSubstr("where kind = 'sea'"));
+  std::filesystem::remove_all(out);
+  expect_input_error(run_cli(base + shell_quote(one) + " --sea-where \"depth > 2\""), "--sea-where 'depth > 2'", out);
+  expect_input_error(run_cli(base + shell_quote(one) + " --sea-where \"kind = 'ocean'\""),
+                     "holds no feature that passes the filter", out);
+
+  const auto line = (tmp / "coastline.geojson").string();
+  write_layers(line, "GeoJSON", {{"coast", {{"LINESTRING(500010 5999970,500010 6000000)", "coast"}}}});
+  expect_input_error(run_cli(base + shell_quote(line)), "lines and points are not sea polygons", out);
+  expect_input_error(run_cli("map --dem " + shell_quote(dem) + " --same-datum --level 1.5 --quiet --out " +
+                             shell_quote(out.string()) + " --sea " + shell_quote(dem) + " --sea-layer sea"),
+                     "--sea-layer: applies to a vector sea mask", out);
+}

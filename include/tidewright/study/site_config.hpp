@@ -89,6 +89,8 @@ struct MapSettings {
   std::optional<double> dem_offset_m;  // water level = DEM elevation + offset
   bool same_datum = false;
   std::optional<std::filesystem::path> sea;       // vector polygon or raster mask
+  std::string sea_layer;                          // the sea's layer in a vector file of several
+  std::string sea_where;                          // OGR SQL attribute filter on the sea's features
   std::optional<double> sea_spread_to_m;          // the sea covers all it reaches at or below
   std::optional<std::filesystem::path> defences;  // lines or polygons with crest level
   std::string crest_attribute = "crest_m";

@@ -19,6 +19,14 @@ namespace tidewright::terrain {
 
 struct SeaSource {
   std::string mask_path;                         // vector (polygons) or raster; empty = none
+  // For a vector mask: the layer that is the sea (empty: the file's only layer; a file of
+  // several layers is refused without one) and an OGR SQL attribute filter (empty: every
+  // feature). Lines and points are refused: the sea is an area, not a coastline.
+  std::string layer;
+  std::string where;
+  // How the caller names these two inputs in errors (a flag, or a site-file key).
+  std::string layer_input = "the sea layer";
+  std::string where_input = "the sea filter";
   std::vector<std::array<double, 2>> points_xy;  // in the DEM's CRS
   std::optional<double> edge_at_or_below_m;      // above the water-level datum
   bool nodata_is_sea = false;
