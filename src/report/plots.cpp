@@ -12,6 +12,7 @@
 #include "tidewright/report/axis_ticks.hpp"
 #include "tidewright/report/palette.hpp"
 #include "tidewright/report/text_table.hpp"
+#include "tidewright/terrain/map_style.hpp"
 
 namespace tidewright::report {
 namespace {
@@ -452,19 +453,20 @@ Canvas continuous_map(const ContinuousMapInput& in) {
 }
 
 std::vector<MapCategory> extent_categories() {
-  return {{0, "Dry", Colour::from_hex("#ebe7df")},
-          {1, "Flooded, connected to the sea", series_colour(0)},
-          {2, "Low ground cut off from the sea", series_colour(4)},
-          // Pale and cool, so that the flooded land stands out from today's water.
-          {3, "Sea (today's water)", Colour::from_hex("#dbe6ee")}};
+  // One definition with the map rasters' colour tables and SLD styles (terrain/map_style.hpp).
+  std::vector<MapCategory> out;
+  for (const auto& c : terrain::extent_classes) {
+    out.push_back({c.code, std::string(c.label), Colour::from_hex(c.colour_hex)});
+  }
+  return out;
 }
 
 std::vector<MapCategory> aep_categories() {
-  return {{1, "10 % or more (1 in 10 years or more often)", viridis(0.05)},
-          {2, "1 % to 10 %", viridis(0.35)},
-          {3, "0.1 % to 1 %", viridis(0.65)},
-          {4, "below 0.1 %", Colour::from_hex("#f4f0c8")},  // pale: the least likely band draws the least attention
-          {5, "never (above the model's range)", Colour::from_hex("#ebe7df")}};
+  std::vector<MapCategory> out;
+  for (const auto& b : terrain::aep_bands) {
+    out.push_back({b.code, std::string(b.label), Colour::from_hex(b.colour_hex)});
+  }
+  return out;
 }
 
 RasterView aep_classes(const RasterView& aep) {
@@ -472,12 +474,14 @@ RasterView aep_classes(const RasterView& aep) {
   out.nodata = -1.0F;
   for (float& v : out.values) {
     const bool blank = std::isnan(v) || (aep.nodata && v == *aep.nodata);
-    if (blank) v = -1.0F;
-    else if (v >= 0.1F) v = 1.0F;
-    else if (v >= 0.01F) v = 2.0F;
-    else if (v >= 0.001F) v = 3.0F;
-    else if (v > 0.0F) v = 4.0F;
-    else v = 5.0F;
+    if (blank) {
+      v = -1.0F;
+      continue;
+    }
+    const double p = static_cast<double>(v);
+    const auto band = std::find_if(terrain::aep_bands.begin(), terrain::aep_bands.end(),
+                                   [p](const terrain::AepBand& b) { return p >= b.lower_aep; });
+    v = static_cast<float>(band->code);
   }
   return out;
 }

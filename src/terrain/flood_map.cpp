@@ -3,6 +3,8 @@
 // A_r area of a cell in row r (m^2); d = h - z depth (m); V = sum d A_r volume (m^3).
 #include "tidewright/terrain/flood_map.hpp"
 
+#include "tidewright/terrain/map_style.hpp"
+
 #include <gdal_alg.h>
 
 #include <cpl_conv.h>
@@ -321,6 +323,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   s.files.emplace_back("threshold.tif");
   std::unique_ptr<GeoTiffWriter> extent;
   std::unique_ptr<GeoTiffWriter> depth;
+  std::vector<std::unique_ptr<GeoTiffWriter>> class_writers;
   if (!req.levels.empty()) {
     std::vector<BandInfo> extent_bands;
     std::vector<BandInfo> depth_bands;
@@ -341,6 +344,18 @@ MapSummary make_flood_maps(const MapRequest& req) {
                                             req.format);
     s.files.emplace_back("extent.tif");
     s.files.emplace_back("depth.tif");
+    // Each level's classes also as a single-band raster with a colour table and category
+    // names, which opens as classes in a desktop GIS (a GeoTIFF palette belongs to a file).
+    for (std::size_t li = 0; li < req.levels.size(); ++li) {
+      BandInfo band = extent_bands[li];
+      band.classes.assign(extent_classes.begin(), extent_classes.end());
+      const std::string name = "extent_level_" + std::to_string(li + 1) + ".tif";
+      class_writers.push_back(std::make_unique<GeoTiffWriter>(dir / name, map.dem.grid, CellType::byte, 255.0,
+                                                              std::vector<BandInfo>{band},
+                                                              common_metadata(req, map, "flood extent classes"),
+                                                              req.format));
+      s.files.push_back(name);
+    }
   }
   std::vector<AepLookup> aep_tables;
   std::unique_ptr<GeoTiffWriter> aep;
@@ -414,6 +429,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
         }
       }
       extent->write_rows(li, r0, h, bbuf.data());
+      class_writers[li]->write_rows(0, r0, h, bbuf.data());
       depth->write_rows(li, r0, h, fbuf.data());
     }
     for (std::size_t ai = 0; ai < aep_tables.size(); ++ai) {
@@ -428,9 +444,22 @@ MapSummary make_flood_maps(const MapRequest& req) {
   }
   threshold.finish();
   if (extent) extent->finish();
+  for (auto& w : class_writers) w->finish();
   if (depth) depth->finish();
   if (aep) aep->finish();
   if (first_writer) first_writer->finish();
+  // OGC SLD 1.0 styles beside the rasters they style (map_style.hpp).
+  const auto add_style = [&](const std::string& name, const std::string& text) {
+    write_text_file(dir / name, text, false);
+    s.files.push_back(name);
+  };
+  if (extent) add_style("extent.sld", extent_sld("extent"));
+  if (depth) add_style("depth.sld", depth_sld("depth"));
+  if (aep) add_style("aep.sld", aep_sld("aep"));
+  // Sidecars GDAL wrote for what a GeoTIFF tag cannot hold (category names, statistics).
+  for (const auto& f : std::vector<std::string>(s.files)) {
+    if (std::filesystem::exists(dir / (f + ".aux.xml"))) s.files.push_back(f + ".aux.xml");
+  }
   if (req.polygons) {
     write_polygons(map, s.levels, dir / "extent.gpkg");
     s.files.emplace_back("extent.gpkg");

@@ -3,7 +3,10 @@
 
 #include <cpl_string.h>
 
+#include <algorithm>
+#include <filesystem>
 #include <string>
+#include <vector>
 
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/error.hpp"
@@ -40,10 +43,69 @@ std::string thread_option(const RasterFormat& f) {
   return f.compression_threads == 0 ? "ALL_CPUS" : std::to_string(f.compression_threads);
 }
 
+// Colour table and category names of a class band; the nodata entry is transparent.
+void set_classes(GDALRasterBand& band, const std::vector<MapClass>& classes, double nodata) {
+  GDALColorTable table;
+  CPLStringList names;
+  int top = 0;
+  for (const auto& c : classes) top = std::max(top, c.code);
+  for (int code = 0; code <= top; ++code) names.AddString("");
+  for (const auto& c : classes) {
+    const auto hex = std::string(c.colour_hex);
+    const GDALColorEntry e{static_cast<short>(std::stoi(hex.substr(1, 2), nullptr, 16)),
+                           static_cast<short>(std::stoi(hex.substr(3, 2), nullptr, 16)),
+                           static_cast<short>(std::stoi(hex.substr(5, 2), nullptr, 16)), 255};
+    table.SetColorEntry(c.code, &e);
+    CPLFree(names.List()[c.code]);
+    names.List()[c.code] = CPLStrdup(std::string(c.label).c_str());
+  }
+  const GDALColorEntry clear{0, 0, 0, 0};
+  table.SetColorEntry(static_cast<int>(nodata), &clear);
+  band.SetColorTable(&table);
+  band.SetCategoryNames(names.List());
+}
+
+// Internal overviews (factors 2, 4, ... until the coarsest fits one 256-cell tile) and exact
+// band statistics, so a GIS draws and stretches a large map at once.
+void add_overviews_and_statistics(const std::filesystem::path& path, GDALDataType type, const RasterFormat& format) {
+  GDALDatasetUniquePtr ds(GDALDataset::Open(path.c_str(), GDAL_OF_RASTER | GDAL_OF_UPDATE));
+  if (!ds) throw InputError(shown_path(path), "cannot be reopened (" + gdal::last_error() + ")", "check the folder");
+  std::vector<int> factors;
+  const int size = std::max(ds->GetRasterXSize(), ds->GetRasterYSize());
+  for (int f = 2; size / f >= 256 || (factors.empty() && size > 256); f *= 2) factors.push_back(f);
+  if (!factors.empty()) {
+    CPLSetThreadLocalConfigOption("COMPRESS_OVERVIEW", compression_name(format.compression));
+    CPLSetThreadLocalConfigOption("PREDICTOR_OVERVIEW", type == GDT_Float32 ? "3" : "2");
+    CPLSetThreadLocalConfigOption("GDAL_NUM_THREADS", thread_option(format).c_str());
+    const CPLErr err = ds->BuildOverviews(type == GDT_Float32 ? "AVERAGE" : "NEAREST", static_cast<int>(factors.size()),
+                                          factors.data(), 0, nullptr, nullptr, nullptr, nullptr);
+    CPLSetThreadLocalConfigOption("COMPRESS_OVERVIEW", nullptr);
+    CPLSetThreadLocalConfigOption("PREDICTOR_OVERVIEW", nullptr);
+    CPLSetThreadLocalConfigOption("GDAL_NUM_THREADS", nullptr);
+    if (err != CE_None) {
+      throw InputError(shown_path(path), "building overviews failed (" + gdal::last_error() + ")",
+                       "free disk space or choose another folder");
+    }
+  }
+  for (int b = 1; b <= ds->GetRasterCount(); ++b) {
+    double min = 0, max = 0, mean = 0, sd = 0;
+    // An all-nodata band has no statistics (GDAL reports a failure): nothing to record.
+    CPLPushErrorHandler(CPLQuietErrorHandler);
+    (void)ds->GetRasterBand(b)->ComputeStatistics(FALSE, &min, &max, &mean, &sd, nullptr, nullptr);
+    CPLPopErrorHandler();
+  }
+  CPLErrorReset();
+  ds.reset();
+  if (CPLGetLastErrorType() >= CE_Failure) {
+    throw InputError(shown_path(path), "writing failed (" + gdal::last_error() + ")",
+                     "free disk space or choose another folder");
+  }
+}
+
 }  // namespace
 
 std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
-    CellType type, const RasterFormat& format) {
+    CellType type, const RasterFormat& format, bool palette) {
   return {{"TILED", "YES"},
           {"BLOCKXSIZE", "256"},
           {"BLOCKYSIZE", "256"},
@@ -52,7 +114,7 @@ std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
           {"INTERLEAVE", "BAND"},
           // Bands are levels or years, not colours: without this GDAL tags a 3- or 4-band Byte
           // file RGB(A) and a desktop GIS draws extent.tif as a picture.
-          {"PHOTOMETRIC", "MINISBLACK"},
+          {"PHOTOMETRIC", palette ? "PALETTE" : "MINISBLACK"},
           {"BIGTIFF", "IF_SAFER"},
           {"NUM_THREADS", thread_option(format)}};
 }
@@ -69,8 +131,15 @@ GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, Ce
   impl_->format = format;
   impl_->tiff_path = impl_->path;
   if (format.cloud_optimized) impl_->tiff_path += ".tiled.tif";
+  const bool palette = bands.size() == 1 && !bands.front().classes.empty();
+  for (const auto& b : bands) {
+    if (!b.classes.empty() && (!palette || type != CellType::byte)) {
+      throw ComputationError(shown_path(impl_->path), "a colour table needs a single-band Byte raster",
+                             "report this as a bug");
+    }
+  }
   CPLStringList options;
-  for (const auto& [name, value] : geotiff_creation_options(type, format)) {
+  for (const auto& [name, value] : geotiff_creation_options(type, format, palette)) {
     options.SetNameValue(name.c_str(), value.c_str());
   }
   GDALDriver* driver = GetGDALDriverManager()->GetDriverByName("GTiff");
@@ -94,6 +163,7 @@ GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, Ce
     for (const auto& [key, value] : bands[b].metadata) {
       band->SetMetadataItem(key.c_str(), value.c_str());
     }
+    if (!bands[b].classes.empty()) set_classes(*band, bands[b].classes, nodata);
   }
 }
 
@@ -124,6 +194,7 @@ void GeoTiffWriter::finish() {
     throw InputError(shown_path(impl_->path), "writing failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
+  add_overviews_and_statistics(impl_->tiff_path, impl_->type, impl_->format);
   if (!impl_->format.cloud_optimized) return;
   GDALDatasetUniquePtr tiled(GDALDataset::Open(impl_->tiff_path.c_str(), GDAL_OF_RASTER));
   GDALDriver* cog = GetGDALDriverManager()->GetDriverByName("COG");
@@ -146,6 +217,7 @@ void GeoTiffWriter::finish() {
   tiled.reset();
   std::error_code ec;
   std::filesystem::remove(impl_->tiff_path, ec);
+  std::filesystem::remove(impl_->tiff_path.string() + ".aux.xml", ec);
   if (!created || CPLGetLastErrorType() >= CE_Failure) {
     throw InputError(shown_path(impl_->path), "writing the COG failed (" + gdal::last_error() + ")",
                      "free disk space or leave out --cog");

@@ -115,13 +115,9 @@ TEST(ClimateSeawaterGsw, LayeredExpansionMatchesTheIntegralOfAlphaOverAWarmedPro
   tidewright::write_text_file(in_path, input.str(), false);
   const std::string cmd = std::string(TIDEWRIGHT_PYTHON) + " " + TIDEWRIGHT_SOURCE_DIR +
                           "/tests/reference/scripts/climate_gsw_column.py < " + in_path.string() + " 2>&1";
-  FILE* pipe = popen(cmd.c_str(), "r");
-  ASSERT_NE(pipe, nullptr) << cmd;
-  std::string text;
-  char buf[4096];
-  std::size_t n = 0;
-  while ((n = std::fread(buf, 1, sizeof buf, pipe)) > 0) text.append(buf, n);
-  ASSERT_EQ(pclose(pipe), 0) << "the gsw script failed (needs python3-gsw): " << text;
+  const auto script = tidewright::testing::run_shell(cmd);
+  const std::string& text = script.out;
+  ASSERT_EQ(script.exit_code, 0) << "the gsw script failed (needs python3-gsw): " << text;
   std::istringstream lines(text);
   std::string line;
   std::getline(lines, line);  // header

@@ -30,16 +30,9 @@ struct Run {
 };
 
 Run python(const std::string& args) {
-  const std::string cmd =
-      shell_quote(TIDEWRIGHT_PYTHON) + " " + shell_quote(script) + " " + args + " 2>&1";
-  Run r;
-  FILE* p = popen(cmd.c_str(), "r");
-  if (p == nullptr) return r;
-  std::array<char, 4096> buf{};
-  std::size_t n = 0;
-  while ((n = std::fread(buf.data(), 1, buf.size(), p)) > 0) r.out.append(buf.data(), n);
-  r.status = pclose(p);
-  return r;
+  const auto r = tidewright::testing::run_shell(shell_quote(TIDEWRIGHT_PYTHON) + " " + shell_quote(script) + " " +
+                                                args + " 2>&1");
+  return {r.exit_code, r.out};
 }
 
 }  // namespace

@@ -76,6 +76,20 @@ inline CliResult run_cli(const std::string& args) {
   return r;
 }
 
+// A shell command's exit code and standard output (add 2>&1 to catch its errors too); for the
+// reference scripts.
+inline CliResult run_shell(const std::string& cmd) {
+  CliResult r;
+  FILE* pipe = popen(cmd.c_str(), "r");
+  if (pipe == nullptr) return r;
+  std::array<char, 4096> buf{};
+  std::size_t n = 0;
+  while ((n = std::fread(buf.data(), 1, buf.size(), pipe)) > 0) r.out.append(buf.data(), n);
+  const int status = pclose(pipe);
+  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+  return r;
+}
+
 inline std::size_t count_lines(const std::string& s) {
   std::size_t n = 0;
   for (char c : s) n += (c == '\n');

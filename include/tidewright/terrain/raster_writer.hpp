@@ -14,6 +14,7 @@
 #include <vector>
 
 #include "tidewright/terrain/geo_grid.hpp"
+#include "tidewright/terrain/map_style.hpp"
 
 namespace tidewright::terrain {
 
@@ -34,13 +35,17 @@ struct BandInfo {
   std::string description;
   std::string units;  // "m", "1" (probability), "year", "" (classes)
   std::vector<std::pair<std::string, std::string>> metadata;
+  // A class raster's category names and colour table. A GeoTIFF palette belongs to the whole
+  // file, so only a single-band Byte raster takes them; empty for measurement bands.
+  std::vector<MapClass> classes{};
 };
 
 // The GTiff creation options every map output is written with (name, value), in the order
 // given to GDAL. Benchmarks pass the same list to gdal_translate, so that their I/O floors are
 // written as the outputs are.
+// `palette`: a single-band class raster with a colour table (PHOTOMETRIC=PALETTE).
 [[nodiscard]] std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
-    CellType type, const RasterFormat& format);
+    CellType type, const RasterFormat& format, bool palette = false);
 
 class GeoTiffWriter {
  public:
@@ -56,7 +61,9 @@ class GeoTiffWriter {
   // The rows are flushed to the file at once, so memory stays at one block of rows whatever the
   // size of the raster and the number of bands.
   void write_rows(std::size_t band, std::size_t first_row, std::size_t rows, const void* values);
-  // Flushes and closes the file (and converts it to COG); throws InputError on a write failure.
+  // Flushes and closes the file, adds internal overviews (factors 2, 4, ... down to one tile;
+  // nearest for classes and years, average for measurements) and band statistics, or converts
+  // it to COG; throws InputError on a write failure.
   void finish();
 
  private:
