@@ -71,6 +71,7 @@ struct MapOptions {
   std::optional<double> aep_pass;
   bool polygons = false;
   bool cog = false;
+  bool no_overviews = false;
   std::string compress = "deflate";
   std::string out;
 };
@@ -330,6 +331,7 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
   }
   req.polygons = o.polygons;
   req.format.cloud_optimized = o.cog;
+  req.format.overviews = !o.no_overviews;
   req.format.compression =
       o.compress == "zstd" ? terrain::Compression::zstd : terrain::Compression::deflate;
   req.out_dir = o.out;
@@ -485,6 +487,8 @@ void configure(CLI::App& app, CommonOptions& common) {
       ->check(CLI::Range(1e-9, 1.0));
   app.add_flag("--polygons", o->polygons, "Write extent polygons to extent.gpkg");
   app.add_flag("--cog", o->cog, "Write Cloud-Optimized GeoTIFFs");
+  app.add_flag("--no-overviews", o->no_overviews,
+               "Leave out the internal overviews (faster for many levels; --cog always has them)");
   app.add_option("--compress", o->compress, "GeoTIFF compression: deflate or zstd")
       ->check(CLI::IsMember({"deflate", "zstd"}))
       ->default_val("deflate");

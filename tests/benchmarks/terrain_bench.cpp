@@ -223,10 +223,11 @@ tw::MapRequest map_request(const BenchDem& d, std::int64_t levels, bool spread,
 }
 
 // The whole map run: read the DEM, threshold, and extent + depth for N levels written as
-// compressed GeoTIFF (arguments: N levels, sea spread 0/1).
+// compressed GeoTIFF (arguments: N levels, sea spread 0/1, internal overviews 0/1).
 void BM_TerrainMapRun(benchmark::State& state) {
   const auto& d = bench_dem();
-  const auto req = map_request(d, state.range(0), state.range(1) != 0, "maps");
+  auto req = map_request(d, state.range(0), state.range(1) != 0, "maps");
+  req.format.overviews = state.range(2) != 0;
   for (auto _ : state) {
     auto s = tw::make_flood_maps(req);
     benchmark::DoNotOptimize(s.levels.data());
@@ -318,8 +319,9 @@ BENCHMARK(BM_TerrainPeerGdalTranslate)
     ->UseManualTime()
     ->Iterations(3);
 BENCHMARK(BM_TerrainMapRun)
-    ->ArgsProduct({{1, 20}, {0, 1}})
-    ->ArgNames({"levels", "spread"})
+    ->ArgsProduct({{1, 20}, {0, 1}, {1}})
+    ->Args({20, 0, 0})
+    ->ArgNames({"levels", "spread", "overviews"})
     ->Unit(benchmark::kMillisecond)
     ->Iterations(1);
 BENCHMARK(BM_TerrainPeerGdalConstantBands)

@@ -24,6 +24,10 @@ enum class CellType { byte, int16, float32 };
 struct RasterFormat {
   Compression compression = Compression::deflate;  // DEFLATE: read by every GIS (common practice)
   bool cloud_optimized = false;
+  // Internal overviews (factors 2, 4, ... to one tile). On by default: a GIS draws a large map
+  // at once. A 20-level run on 25 million cells spends about a third of its time on them
+  // (docs/performance.md, "Maps"), so big batch runs may leave them out (map --no-overviews).
+  bool overviews = true;
   // Threads compressing tiles (GDAL's NUM_THREADS creation option): 0 every core (ALL_CPUS),
   // 1 none besides the writing thread. Default every core, chosen here: compressing the depth
   // bands is most of a many-level map run (docs/performance.md, "Maps"). The values written,
@@ -61,9 +65,10 @@ class GeoTiffWriter {
   // The rows are flushed to the file at once, so memory stays at one block of rows whatever the
   // size of the raster and the number of bands.
   void write_rows(std::size_t band, std::size_t first_row, std::size_t rows, const void* values);
-  // Flushes and closes the file, adds internal overviews (factors 2, 4, ... down to one tile;
-  // nearest for classes and years, average for measurements) and band statistics, or converts
-  // it to COG; throws InputError on a write failure.
+  // Sets each band's exact statistics (gathered as the rows passed), flushes and closes the
+  // file, adds internal overviews (factors 2, 4, ... down to one tile; nearest for classes and
+  // years, average for measurements) and converts it to COG when asked; throws InputError on a
+  // write failure.
   void finish();
 
  private:
