@@ -291,6 +291,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   MapSummary s;
   s.warnings = map.dem.warnings;
   if (map.defences) s.warnings.insert(s.warnings.end(), map.defences->warnings.begin(), map.defences->warnings.end());
+  s.warnings.insert(s.warnings.end(), map.sea.warnings.begin(), map.sea.warnings.end());
   s.defences = map.defences;
   const GridShape shape = map.dem.grid.shape;
   s.cells = shape.cells();
@@ -394,6 +395,16 @@ MapSummary make_flood_maps(const MapRequest& req) {
   }
 
   for (const auto& l : req.levels) s.levels.push_back({l});
+  // Flooded cells beside a nodata cell that is not sea: the water may go on into ground the DEM
+  // does not cover (4-neighbours; the whole grid is in memory).
+  std::vector<std::size_t> gap_borders(req.levels.size(), 0);
+  const auto borders_gap = [&](std::size_t i) {
+    const std::size_t r = i / shape.cols;
+    const std::size_t c = i % shape.cols;
+    const auto gap = [&](std::size_t j) { return std::isnan(map.dem.elevation_m[j]) && map.sea.is_sea[j] == 0; };
+    return (c > 0 && gap(i - 1)) || (c + 1 < shape.cols && gap(i + 1)) || (r > 0 && gap(i - shape.cols)) ||
+           (r + 1 < shape.rows && gap(i + shape.cols));
+  };
   // Streamed passes: one block of rows at a time, every product.
   const std::size_t cols = shape.cols;
   std::vector<float> fbuf(cols * block_rows);
@@ -417,6 +428,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
         fbuf[k] = nan_f;
         const double area = areas.row_area_m2[r0 + k / cols];
         if (c == ExtentClass::connected_flooded) {
+          if (borders_gap(base + k)) ++gap_borders[li];
           const double d = level - static_cast<double>(z[base + k]);
           fbuf[k] = static_cast<float>(d);
           ++sum.connected_cells;
@@ -441,6 +453,12 @@ MapSummary make_flood_maps(const MapRequest& req) {
       first_writer->write_rows(0, r0, h, ibuf.data());
     }
     progress(0.4 + 0.5 * static_cast<double>(r0 + h) / static_cast<double>(shape.rows));
+  }
+  for (std::size_t li = 0; li < req.levels.size(); ++li) {
+    if (gap_borders[li] == 0) continue;
+    s.warnings.push_back("at " + level_label(req.levels[li]) + ", " + std::to_string(gap_borders[li]) +
+                         " flooded cells border nodata cells that are not sea: the water may go on into ground the "
+                         "DEM does not cover, so the extent there is a lower bound; check the DEM's gaps");
   }
   threshold.finish();
   if (extent) extent->finish();

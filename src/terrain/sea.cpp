@@ -96,6 +96,41 @@ std::vector<std::uint8_t> rasterise_sea_polygons(const SeaSource& source, const 
   return out;
 }
 
+// Nodata cells that no path of nodata cells (4-neighbours) joins to the DEM's frame: holes in
+// the survey rather than the sea beyond it.
+std::size_t inland_nodata_cells(const std::vector<float>& z, GridShape shape) {
+  const std::size_t n = shape.cells();
+  std::vector<std::uint8_t> outer(n, 0);
+  std::vector<std::size_t> stack;
+  const auto seed = [&](std::size_t i) {
+    if (std::isnan(z[i]) && outer[i] == 0) {
+      outer[i] = 1;
+      stack.push_back(i);
+    }
+  };
+  for (std::size_t c = 0; c < shape.cols; ++c) {
+    seed(c);
+    seed((shape.rows - 1) * shape.cols + c);
+  }
+  for (std::size_t r = 0; r < shape.rows; ++r) {
+    seed(r * shape.cols);
+    seed(r * shape.cols + shape.cols - 1);
+  }
+  while (!stack.empty()) {
+    const std::size_t i = stack.back();
+    stack.pop_back();
+    const std::size_t r = i / shape.cols;
+    const std::size_t c = i % shape.cols;
+    if (c > 0) seed(i - 1);
+    if (c + 1 < shape.cols) seed(i + 1);
+    if (r > 0) seed(i - shape.cols);
+    if (r + 1 < shape.rows) seed(i + shape.cols);
+  }
+  std::size_t inland = 0;
+  for (std::size_t i = 0; i < n; ++i) inland += std::isnan(z[i]) && outer[i] == 0;
+  return inland;
+}
+
 }  // namespace
 
 SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity connectivity) {
@@ -180,6 +215,13 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
       if (std::isnan(dem.elevation_m[i])) sea.is_sea[i] = 1;
     }
     add_part("nodata cells declared sea");
+    const std::size_t inland = inland_nodata_cells(dem.elevation_m, shape);
+    if (inland > 0) {
+      sea.warnings.push_back(std::to_string(inland) +
+                             " nodata cells lie inside the DEM, joined to its edge by no other nodata cell, and are "
+                             "declared sea with the rest: a gap in the survey there floods the land around it at every "
+                             "level; fill such gaps (e.g. gdal_fillnodata) or give the sea another way");
+    }
   }
 
   if (parts.empty()) {

@@ -522,3 +522,31 @@ TEST(MapCommand, SeaLayerIsChosenFilteredAndMustBeAnArea) {
                              shell_quote(out.string()) + " --sea " + shell_quote(dem) + " --sea-layer sea"),
                      "--sea-layer: applies to a vector sea mask", out);
 }
+
+// Issue 15 item 3: a hole in the survey declared sea, and flooded cells beside a hole that is not
+// sea, each get a warning with counts (stderr and summary.json).
+TEST(MapCommand, GapsInTheDemAreWarnedAboutWithCounts) {
+  TempDir tmp;
+  // 8 x 5 cells, a slope from -0.5 m (column 0) up by 0.5 m a column; a 2 x 2 hole (nodata
+  // -9999) at rows 1-2, columns 4-5, well inside the frame.
+  std::vector<double> z;
+  for (int r = 0; r < 5; ++r) {
+    for (int c = 0; c < 8; ++c) z.push_back((r == 1 || r == 2) && (c == 4 || c == 5) ? -9999.0 : 0.5 * c - 0.5);
+  }
+  const auto dem = (tmp / "holed.tif").string();
+  write_raster(dem, 8, 5, utm_10m, 32633, z, -9999.0);
+  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --out ";
+  auto r = run_cli(base + shell_quote((tmp / "a").string()) + " --level 1.5 --nodata-is-sea --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("4 nodata cells lie inside the DEM"));
+  auto summary = nlohmann::json::parse(read_all(tmp / "a" / "summary.json"));
+  ASSERT_EQ(summary["warnings"].size(), 1U);
+  // Without --nodata-is-sea the hole is a barrier: at 2.0 m columns 0-5 flood (z <= 2.0), and the
+  // cells beside the hole are rows 0 and 3 of columns 4-5 and rows 1-2 of columns 3 and 6
+  // (column 6 lies at 2.5 m: dry): 4 + 2 = 6.
+  r = run_cli(base + shell_quote((tmp / "b").string()) + " --level 2 --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  EXPECT_THAT(r.err, HasSubstr("at 2.000 m, 6 flooded cells border nodata cells that are not sea"));
+  summary = nlohmann::json::parse(read_all(tmp / "b" / "summary.json"));
+  EXPECT_EQ(summary["warnings"].size(), 1U);
+}

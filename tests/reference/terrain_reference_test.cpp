@@ -11,6 +11,7 @@
 #include <cstdio>
 #include <cstdlib>
 #include <nlohmann/json.hpp>
+#include <sstream>
 #include <string>
 
 #include "support/run_cli.hpp"
@@ -33,6 +34,17 @@ Run python(const std::string& args) {
   const auto r = tidewright::testing::run_shell(shell_quote(TIDEWRIGHT_PYTHON) + " " + shell_quote(script) + " " +
                                                 args + " 2>&1");
   return {r.exit_code, r.out};
+}
+
+// The generated DEMs hold scattered nodata cells, beside which flooded cells are rightly warned
+// about; the lines left are the other warnings.
+std::string without_gap_warnings(const std::string& err) {
+  std::istringstream in(err);
+  std::string kept;
+  for (std::string line; std::getline(in, line);) {
+    if (line.find("flooded cells border nodata cells") == std::string::npos) kept += line + "\n";
+  }
+  return kept;
 }
 
 }  // namespace
@@ -180,7 +192,7 @@ TEST(TerrainReference, FeetAndScaledCentimetreDemsFloodTheSameCellsAsMetres) {
                              " --same-datum --sea-edge-below 0 --quiet" + level_args + " --out " +
                              shell_quote(out));
     ASSERT_EQ(map.exit_code, 0) << map.err;
-    EXPECT_EQ(map.err, "");  // every copy names its unit: no warning
+    EXPECT_EQ(without_gap_warnings(map.err), "");  // every copy names its unit: no unit warning
     const auto check = python("check " + shell_quote(dem) + " " + shell_quote(out) + " 8 none " + levels);
     ASSERT_EQ(check.status, 0) << check.out;
     const auto j = nlohmann::json::parse(check.out);
@@ -218,7 +230,7 @@ TEST(TerrainReference, UnlabelledIntegerDemIsWarnedAndZUnitsReadsIt) {
                               " --same-datum --sea-edge-below 0 --quiet --level 0.505 --z-units cm --out " +
                               shell_quote((tmp / "stated").string()));
   ASSERT_EQ(stated.exit_code, 0) << stated.err;
-  EXPECT_EQ(stated.err, "");
+  EXPECT_EQ(without_gap_warnings(stated.err), "");
   const auto metres = run_cli("map --dem " + shell_quote(dem) +
                               " --same-datum --sea-edge-below 0 --quiet --level 0.505 --out " +
                               shell_quote((tmp / "metres").string()));

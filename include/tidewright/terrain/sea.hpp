@@ -41,6 +41,7 @@ struct SeaCells {
   std::vector<std::uint8_t> is_sea;  // one per DEM cell
   std::size_t count = 0;
   std::string description;  // for the metadata record
+  std::vector<std::string> warnings{};  // e.g. inland nodata declared sea
 };
 
 // Throws InputError when no sea source is given, a mask or point falls outside the DEM, or the
