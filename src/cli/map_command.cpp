@@ -152,7 +152,7 @@ std::optional<StillWaterModel> present_day_model(const MapOptions& o) {
   if (given == 0) return std::nullopt;
   StillWaterModel m;
   if (!o.planning.fit_json.empty()) {
-    m = study::read_fit_json(o.planning.fit_json).model;
+    m = study::read_fit_json(o.planning.fit_json).model;  // its datum: build_request
   } else if (!o.gumbel.empty()) {
     m = {Family::gumbel, o.gumbel[0], o.gumbel[1], 0.0, 0.0, 1.0, {}};
   } else if (!o.gev.empty()) {
@@ -202,6 +202,7 @@ void add_projected_layers(const MapOptions& o, terrain::MapRequest& req, std::ve
   const auto in = load_planning_inputs(o.planning);
   const auto& present = in.fit.model;
   if (!in.fit.datum.empty()) notes.push_back("water-level datum: " + in.fit.datum + " (from " + o.planning.fit_json + ")");
+  req.datum = in.fit.datum;
   notes.insert(notes.end(), in.notes.begin(), in.notes.end());
   const std::string scenario = o.scenario.empty() ? in.rise.scenario : o.scenario;
   // A year outside the members is refused by planning::conditions_in_year, before any output.
@@ -324,6 +325,7 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
     add_projected_layers(o, req, notes);
   } else {
     add_model_layers(o, req);
+    if (!o.planning.fit_json.empty()) req.datum = study::read_fit_json(o.planning.fit_json).datum;
   }
   if (req.levels.empty() && req.aep.empty()) {
     throw InputError("map", "nothing to map",

@@ -24,7 +24,7 @@ terrain::RateFunction future_rate(const extremes::StillWaterModel& present,
 void add_present_levels(terrain::MapRequest& m, const extremes::StillWaterModel& present,
                         const std::vector<double>& return_periods_yr) {
   for (double t : return_periods_yr) {
-    m.levels.push_back({planning::present_return_level(present, t), std::nullopt, "present day"});
+    m.levels.push_back({planning::present_return_level(present, t), std::nullopt, "present day", t});
   }
 }
 
@@ -35,7 +35,7 @@ void add_future_levels(terrain::MapRequest& m, const extremes::StillWaterModel& 
   for (int y : years) {
     const auto cond = planning::conditions_in_year(rise, y, storminess);
     for (const auto& a : planning::allowances(present, cond, return_periods_yr)) {
-      m.levels.push_back({a.present_level_m + a.allowance_m, y, scenario});
+      m.levels.push_back({a.present_level_m + a.allowance_m, y, scenario, a.return_period_yr});
     }
   }
 }

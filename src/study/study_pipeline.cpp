@@ -597,6 +597,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     m.out_dir = dir / "maps";
     m.force = false;
     m.command_line = o.command;
+    m.datum = fit.datum;
     for (const auto& s : report::safety_cautions()) m.cautions.emplace_back(s);
     const auto ms = terrain::make_flood_maps(m);
     defence_burn = ms.defences;

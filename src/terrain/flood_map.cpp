@@ -19,6 +19,7 @@
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
+#include "tidewright/extremes/return_levels.hpp"
 #include "gdal_support.hpp"
 #include "tidewright/version.hpp"
 
@@ -66,6 +67,7 @@ Metadata common_metadata(const MapRequest& req, const FloodThresholdMap& map,
                  "j.cageo.2013.04.024), " +
                      std::to_string(static_cast<int>(map.connectivity)) + "-connectivity");
   m.emplace_back("TIDEWRIGHT_VERTICAL", "metres above the water-level datum");
+  if (!req.datum.empty()) m.emplace_back("TIDEWRIGHT_WATER_LEVEL_DATUM", req.datum);
   m.emplace_back("TIDEWRIGHT_DEM", map.dem.description);
   m.emplace_back("TIDEWRIGHT_SEA", map.sea.description);
   m.emplace_back("TIDEWRIGHT_DEFENCES", map.defences ? map.defences->description : "none");
@@ -74,6 +76,63 @@ Metadata common_metadata(const MapRequest& req, const FloodThresholdMap& map,
   for (const auto& c : req.cautions) cautions += (cautions.empty() ? "" : " | ") + c;
   if (!cautions.empty()) m.emplace_back("TIDEWRIGHT_CAUTIONS", cautions);
   return m;
+}
+
+// What a level's band or polygon records of where it came from.
+Metadata level_metadata(const MapLevel& l, const std::string& datum) {
+  Metadata m{{"LEVEL_M", fixed(l.level_m, 4)}};
+  if (l.year) m.emplace_back("YEAR", std::to_string(*l.year));
+  if (!l.scenario.empty()) m.emplace_back("SCENARIO", l.scenario);
+  if (l.return_period_yr) {
+    m.emplace_back("RETURN_PERIOD_YR", fixed(*l.return_period_yr, 4));
+    m.emplace_back("RETURN_PERIOD_DEFINITION", extremes::return_period_definition);
+  }
+  if (!datum.empty()) m.emplace_back("WATER_LEVEL_DATUM", datum);
+  return m;
+}
+
+// Zone area from the equator to latitude phi per radian of longitude on the ellipsoid (a, e):
+// a^2 q / 2 with Snyder (1987, Map Projections: A Working Manual, eq. 3-12)
+// q = (1 - e^2) [sin phi / (1 - e^2 sin^2 phi) - ln((1 - e sin phi) / (1 + e sin phi)) / (2e)];
+// a sphere (e = 0) gives a^2 sin phi.
+double zone_area_per_radian_m2(double phi, double a, double e) {
+  const double s = std::sin(phi);
+  if (e < 1e-12) return a * a * s;
+  const double q = (1.0 - e * e) * (s / (1.0 - e * e * s * s) - std::log((1.0 - e * s) / (1.0 + e * s)) / (2.0 * e));
+  return 0.5 * a * a * q;
+}
+
+// Area of a polygon traced along cell edges of a north-up grid (GDALPolygonize's output): in a
+// projected CRS the planar area in square metres; in a geographic one the exact ellipsoidal
+// area, summed over the edges along parallels (those along meridians add nothing), the same
+// quantity the summary adds up cell by cell.
+double polygon_area_m2(const OGRGeometry& g, const OGRSpatialReference& srs) {
+  if (!srs.IsGeographic()) {
+    const double unit_m = srs.GetLinearUnits(nullptr);
+    const auto* surface = dynamic_cast<const OGRSurface*>(&g);
+    return surface != nullptr ? surface->get_Area() * unit_m * unit_m : 0.0;
+  }
+  const auto* polygon = dynamic_cast<const OGRPolygon*>(&g);
+  if (polygon == nullptr) return 0.0;
+  const double to_rad = srs.GetAngularUnits(nullptr);  // radians per CRS unit
+  OGRErr err = OGRERR_NONE;
+  const double a = srs.GetSemiMajor(&err);
+  const double inv_f = srs.GetInvFlattening(&err);
+  const double f = inv_f == 0.0 ? 0.0 : 1.0 / inv_f;
+  const double e = std::sqrt(f * (2.0 - f));
+  const auto ring_area = [&](const OGRLinearRing& ring) {
+    double sum = 0.0;
+    for (int k = 0; k + 1 < ring.getNumPoints(); ++k) {
+      const double y0 = ring.getY(k);
+      const double y1 = ring.getY(k + 1);
+      if (y0 != y1) continue;  // an edge along a meridian
+      sum += (ring.getX(k + 1) - ring.getX(k)) * to_rad * zone_area_per_radian_m2(y0 * to_rad, a, e);
+    }
+    return std::abs(sum);
+  };
+  double area = polygon->getExteriorRing() != nullptr ? ring_area(*polygon->getExteriorRing()) : 0.0;
+  for (int h = 0; h < polygon->getNumInteriorRings(); ++h) area -= ring_area(*polygon->getInteriorRing(h));
+  return area;
 }
 
 // Extent polygons of one level: the classes 1 and 2 polygonised (GDALPolygonize) into `layer`.
@@ -121,6 +180,8 @@ void polygonise_level(const FloodThresholdMap& map, const LevelSummary& level, O
     out.SetField("level_m", level.level.level_m);
     if (level.level.year) out.SetField("year", *level.level.year);
     if (!level.level.scenario.empty()) out.SetField("scenario", level.level.scenario.c_str());
+    if (level.level.return_period_yr) out.SetField("return_period_yr", *level.level.return_period_yr);
+    out.SetField("area_m2", polygon_area_m2(*f->GetGeometryRef(), srs));
     out.SetGeometry(f->GetGeometryRef());
     if (layer.CreateFeature(&out) != OGRERR_NONE) {
       throw InputError(path, "writing a polygon failed (" + gdal::last_error() + ")",
@@ -150,7 +211,7 @@ void pin_geopackage_time() {
 }
 
 void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary>& levels,
-                    const std::filesystem::path& path) {
+                    const std::filesystem::path& path, const std::string& datum) {
   GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
   GDALDatasetUniquePtr ds(gpkg->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
   if (!ds) {
@@ -164,10 +225,17 @@ void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary
                                                          {"class_name", OFTString},
                                                          {"level_m", OFTReal},
                                                          {"year", OFTInteger},
-                                                         {"scenario", OFTString}}) {
+                                                         {"scenario", OFTString},
+                                                         {"return_period_yr", OFTReal},
+                                                         {"area_m2", OFTReal}}) {
     OGRFieldDefn field(name, type);
     layer->CreateField(&field);
   }
+  // What the fields mean, on the layer (a GeoPackage keeps layer metadata).
+  layer->SetMetadataItem("RETURN_PERIOD_DEFINITION", extremes::return_period_definition);
+  layer->SetMetadataItem("AREA_M2", ("area of each polygon: " + cell_areas(map.dem.grid).method).c_str());
+  layer->SetMetadataItem("VERTICAL", "level_m in metres above the water-level datum");
+  if (!datum.empty()) layer->SetMetadataItem("WATER_LEVEL_DATUM", datum.c_str());
   ds->StartTransaction();
   for (const auto& level : levels) polygonise_level(map, level, *layer, shown_path(path));
   if (ds->CommitTransaction() != OGRERR_NONE) {
@@ -329,9 +397,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
     std::vector<BandInfo> extent_bands;
     std::vector<BandInfo> depth_bands;
     for (const auto& l : req.levels) {
-      Metadata m{{"LEVEL_M", fixed(l.level_m, 4)}};
-      if (l.year) m.emplace_back("YEAR", std::to_string(*l.year));
-      if (!l.scenario.empty()) m.emplace_back("SCENARIO", l.scenario);
+      const Metadata m = level_metadata(l, req.datum);
       extent_bands.push_back({"extent at " + level_label(l) +
                                   " (0 dry, 1 connected flooded, 2 cut-off low ground, 3 sea)",
                               "", m});
@@ -479,7 +545,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
     if (std::filesystem::exists(dir / (f + ".aux.xml"))) s.files.push_back(f + ".aux.xml");
   }
   if (req.polygons) {
-    write_polygons(map, s.levels, dir / "extent.gpkg");
+    write_polygons(map, s.levels, dir / "extent.gpkg", req.datum);
     s.files.emplace_back("extent.gpkg");
   }
   s.files.emplace_back("summary.csv");

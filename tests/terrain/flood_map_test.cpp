@@ -590,3 +590,54 @@ TEST(TerrainMap, CloudOptimizedAndZstdOutputs) {
   }
   EXPECT_EQ(side_files, 0U);
 }
+
+// Issue 15 item 5: every polygon carries its area (planar in a projected CRS, ellipsoidal in a
+// geographic one) and the return period and datum of its level; the areas of a level's polygons
+// add up to the summary's areas, which are computed cell by cell (geodesic_cell_area_m2, PROJ).
+TEST(TerrainMap, PolygonsCarryAreasThatAddUpToTheSummary) {
+  for (const int epsg : {32633, 4326}) {
+    SCOPED_TRACE(epsg);
+    TempDir tmp;
+    const auto dem_path = (tmp / "dem.tif").string();
+    // 40 x 30 cells: a slope rising from the west edge, with a bowl behind a ridge (cut off at
+    // 1.5 m). UTM: 10 m cells; geographic: 0.01 degree cells at 50-50.3 N.
+    std::vector<double> z;
+    for (int r = 0; r < 30; ++r) {
+      for (int c = 0; c < 40; ++c) {
+        double v = 0.1 * c - 0.5;
+        if (c == 20) v = 4.0;                              // ridge
+        if (c > 20 && c < 30 && r > 5 && r < 25) v = 0.5;  // bowl behind it
+        z.push_back(v);
+      }
+    }
+    const std::array<double, 6> geo{10.0, 0.01, 0.0, 50.3, 0.0, -0.01};
+    write_raster(dem_path, 40, 30, epsg == 4326 ? geo : utm_10m, epsg, z);
+    tw::MapRequest req;
+    req.dem = same_datum(dem_path);
+    req.sea.edge_at_or_below_m = 0.0;
+    req.levels = {{1.5, 2100, "midway", 100.0}};
+    req.datum = "QCD (invented)";
+    req.polygons = true;
+    req.out_dir = tmp / "out";
+    const auto s = tw::make_flood_maps(req);
+    ASSERT_GT(s.levels[0].cut_off_cells, 0U);
+    GDALDatasetUniquePtr gpkg(GDALDataset::Open((tmp / "out" / "extent.gpkg").c_str(), GDAL_OF_VECTOR));
+    ASSERT_TRUE(gpkg);
+    OGRLayer* layer = gpkg->GetLayerByName("extent");
+    EXPECT_STREQ(layer->GetMetadataItem("WATER_LEVEL_DATUM"), "QCD (invented)");
+    EXPECT_NE(std::string(layer->GetMetadataItem("RETURN_PERIOD_DEFINITION")).find("annual rate 1/T"), std::string::npos);
+    double flooded = 0.0;
+    double cut_off = 0.0;
+    for (auto& f : layer) {
+      EXPECT_DOUBLE_EQ(f->GetFieldAsDouble("return_period_yr"), 100.0);
+      (f->GetFieldAsInteger("extent_class") == 1 ? flooded : cut_off) += f->GetFieldAsDouble("area_m2");
+    }
+    EXPECT_NEAR(flooded, s.levels[0].flooded_area_m2, 1e-9 * s.levels[0].flooded_area_m2);
+    EXPECT_NEAR(cut_off, s.levels[0].cut_off_area_m2, 1e-9 * s.levels[0].cut_off_area_m2);
+    GDALDatasetUniquePtr depth(GDALDataset::Open((tmp / "out" / "depth.tif").c_str(), GDAL_OF_RASTER));
+    ASSERT_TRUE(depth);
+    EXPECT_STREQ(depth->GetRasterBand(1)->GetMetadataItem("RETURN_PERIOD_YR"), "100.0000");
+    EXPECT_STREQ(depth->GetRasterBand(1)->GetMetadataItem("WATER_LEVEL_DATUM"), "QCD (invented)");
+    EXPECT_STREQ(depth->GetMetadataItem("TIDEWRIGHT_WATER_LEVEL_DATUM"), "QCD (invented)");
+  }
+}

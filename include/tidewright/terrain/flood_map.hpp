@@ -32,6 +32,9 @@ struct MapLevel {
   double level_m = 0.0;
   std::optional<int> year;
   std::string scenario;
+  // The return period T whose T-year level this is (extremes::return_period_definition), when
+  // it came from one; recorded on the level's bands and polygons.
+  std::optional<double> return_period_yr{};
 };
 
 // One band of the AEP raster: P = 1 - exp(-N(T)) for a rate function N (present day:
@@ -86,6 +89,9 @@ struct MapRequest {
   // terrain comes before report in the module order, so it does not include it).
   std::string command_line;
   std::vector<std::string> cautions;
+  // The water-level datum's name (from the fit), recorded on every band and polygon layer;
+  // empty when the caller does not know it.
+  std::string datum;
   std::function<void(double fraction)> progress;  // 0..1; may be empty
 };
 
