@@ -424,7 +424,8 @@ void configure(CLI::App& app, CommonOptions& common) {
       ->type_name("SQL");
   app.add_option("--sea-point", o->sea_points, "A sea seed point X,Y in the DEM's CRS (repeat)")
       ->type_name("X,Y");
-  app.add_option("--sea-edge-below", o->sea_edge_below_m, "DEM edge cells at or below M are sea")
+  app.add_option("--sea-edge-below", o->sea_edge_below_m,
+                 "Cells at or below M on the edge of the valid data (frame, or nodata reaching it) are sea")
       ->type_name("M");
   app.add_flag("--nodata-is-sea", o->nodata_is_sea, "Nodata cells are sea (otherwise barriers)");
   app.add_option("--sea-spread-to", o->sea_spread_to_m,

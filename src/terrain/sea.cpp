@@ -96,9 +96,9 @@ std::vector<std::uint8_t> rasterise_sea_polygons(const SeaSource& source, const 
   return out;
 }
 
-// Nodata cells that no path of nodata cells (4-neighbours) joins to the DEM's frame: holes in
-// the survey rather than the sea beyond it.
-std::size_t inland_nodata_cells(const std::vector<float>& z, GridShape shape) {
+// The nodata cells that a path of nodata cells (4-neighbours) joins to the DEM's frame: what
+// lies beyond the survey, as against holes inside it.
+std::vector<std::uint8_t> outer_nodata(const std::vector<float>& z, GridShape shape) {
   const std::size_t n = shape.cells();
   std::vector<std::uint8_t> outer(n, 0);
   std::vector<std::size_t> stack;
@@ -126,9 +126,22 @@ std::size_t inland_nodata_cells(const std::vector<float>& z, GridShape shape) {
     if (r > 0) seed(i - shape.cols);
     if (r + 1 < shape.rows) seed(i + shape.cols);
   }
+  return outer;
+}
+
+std::size_t inland_nodata_cells(const std::vector<float>& z, const std::vector<std::uint8_t>& outer) {
   std::size_t inland = 0;
-  for (std::size_t i = 0; i < n; ++i) inland += std::isnan(z[i]) && outer[i] == 0;
+  for (std::size_t i = 0; i < z.size(); ++i) inland += std::isnan(z[i]) && outer[i] == 0;
   return inland;
+}
+
+// A valid cell on the edge of the data: on the DEM's frame, or beside nodata that reaches the
+// frame (a DEM clipped to a coastline has its seaward edge there, not at the frame).
+bool on_data_edge(std::size_t i, GridShape shape, const std::vector<std::uint8_t>& outer) {
+  const std::size_t r = i / shape.cols;
+  const std::size_t c = i % shape.cols;
+  if (r == 0 || c == 0 || r + 1 == shape.rows || c + 1 == shape.cols) return true;
+  return outer[i - 1] != 0 || outer[i + 1] != 0 || outer[i - shape.cols] != 0 || outer[i + shape.cols] != 0;
 }
 
 }  // namespace
@@ -197,17 +210,16 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
     add_part(std::to_string(source.points_xy.size()) + " seed point(s)");
   }
 
+  std::vector<std::uint8_t> outer;
+  if (source.edge_at_or_below_m || source.nodata_is_sea) outer = outer_nodata(dem.elevation_m, shape);
   if (source.edge_at_or_below_m) {
     const double limit = *source.edge_at_or_below_m;
-    for (std::size_t y = 0; y < shape.rows; ++y) {
-      for (std::size_t x = 0; x < shape.cols; ++x) {
-        if (y != 0 && x != 0 && y + 1 != shape.rows && x + 1 != shape.cols) continue;
-        const std::size_t i = y * shape.cols + x;
-        const float z = dem.elevation_m[i];
-        if (!std::isnan(z) && static_cast<double>(z) <= limit) sea.is_sea[i] = 1;
-      }
+    for (std::size_t i = 0; i < n; ++i) {
+      const float z = dem.elevation_m[i];
+      if (!std::isnan(z) && static_cast<double>(z) <= limit && on_data_edge(i, shape, outer)) sea.is_sea[i] = 1;
     }
-    add_part("DEM edge cells at or below " + gdal::number_text(limit) + " m");
+    add_part("cells at or below " + gdal::number_text(limit) +
+             " m on the edge of the valid data (the DEM's frame, or nodata joined to it)");
   }
 
   if (source.nodata_is_sea) {
@@ -215,7 +227,7 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
       if (std::isnan(dem.elevation_m[i])) sea.is_sea[i] = 1;
     }
     add_part("nodata cells declared sea");
-    const std::size_t inland = inland_nodata_cells(dem.elevation_m, shape);
+    const std::size_t inland = inland_nodata_cells(dem.elevation_m, outer);
     if (inland > 0) {
       sea.warnings.push_back(std::to_string(inland) +
                              " nodata cells lie inside the DEM, joined to its edge by no other nodata cell, and are "

@@ -550,3 +550,33 @@ TEST(MapCommand, GapsInTheDemAreWarnedAboutWithCounts) {
   summary = nlohmann::json::parse(read_all(tmp / "b" / "summary.json"));
   EXPECT_EQ(summary["warnings"].size(), 1U);
 }
+
+// Issue 15 item 7: a DEM clipped to its coast has nodata beyond the coastline; --sea-edge-below
+// finds the sea at the edge of the valid data, not only on the raster's frame. A hole inside
+// the land is not an edge.
+TEST(MapCommand, SeaEdgeIsTheEdgeOfTheValidData) {
+  TempDir tmp;
+  // 8 x 5: columns 0-1 nodata (clipped away), column 2 at -0.2 m, then 0.5 m a column up;
+  // a nodata cell at row 2, column 5 inside the land with a cell at -0.1 m beside it.
+  std::vector<double> z;
+  for (int r = 0; r < 5; ++r) {
+    for (int c = 0; c < 8; ++c) {
+      double v = c < 2 ? -9999.0 : 0.5 * (c - 2) - 0.2;
+      if (r == 2 && c == 5) v = -9999.0;
+      if (r == 2 && c == 6) v = -0.1;
+      z.push_back(v);
+    }
+  }
+  const auto dem = (tmp / "clipped.tif").string();
+  write_raster(dem, 8, 5, utm_10m, 32633, z, -9999.0);
+  const auto out = tmp / "m";
+  const auto r = run_cli("map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 0.5 --quiet --out " +
+                         shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto summary = nlohmann::json::parse(read_all(out / "summary.json"));
+  // The sea: column 2 (5 cells); not the -0.1 m cell beside the inland hole. At 0.5 m column 3
+  // (0.3 m) floods: 5 cells.
+  EXPECT_EQ(summary["sea_cells"], 5);
+  EXPECT_EQ(summary["levels"][0]["connected_cells"], 5);
+  EXPECT_THAT(summary["sea"].get<std::string>(), HasSubstr("edge of the valid data"));
+}

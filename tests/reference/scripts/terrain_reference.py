@@ -17,7 +17,9 @@ check DEM OUT_DIR CONNECTIVITY SPREAD LEVEL...
       - the extent classes by connected-component labelling below each level
         (scipy.ndimage.label), keeping the components that contain a sea cell;
       - the GeoTIFF record read back with GDAL (gdal.Info JSON, as gdalinfo -json).
-    Sea: the DEM's edge cells at or below 0 m (the map was run with --sea-edge-below 0); with
+    Sea: the cells at or below 0 m on the edge of the valid data (the map was run with
+    --sea-edge-below 0): on the raster's frame, or 4-adjacent to nodata that a 4-connected
+    component of nodata joins to the frame (ndimage.label); with
     SPREAD a number (the map run with --sea-spread-to SPREAD), also every cell of the
     components of {z <= SPREAD} (ndimage.label) that hold such a cell; SPREAD "none" otherwise.
     With SPREAD, the depth, AEP and first-year rasters' records are read back too.
@@ -111,8 +113,12 @@ def connected_to(cells, seeds, footprint):
 def check(dem_path, out_dir, connectivity, spread, levels):
     z = read(dem_path).astype(np.float64)
     valid = z != NODATA
-    edge = np.zeros(z.shape, dtype=bool)
-    edge[0, :] = edge[-1, :] = edge[:, 0] = edge[:, -1] = True
+    frame = np.zeros(z.shape, dtype=bool)
+    frame[0, :] = frame[-1, :] = frame[:, 0] = frame[:, -1] = True
+    cross = ndimage.generate_binary_structure(2, 1)
+    holes, _ = ndimage.label(~valid, structure=cross)
+    outer = np.isin(holes, np.unique(holes[frame & ~valid])) & ~valid
+    edge = frame | ndimage.binary_dilation(outer, structure=cross)
     sea = edge & valid & (z <= 0.0)
     footprint = np.ones((3, 3)) if connectivity == 8 else ndimage.generate_binary_structure(2, 1)
     result = {"connectivity": connectivity}
