@@ -70,6 +70,7 @@ struct MapOptions {
   int first_year_step = study::kFirstYearStepYr;
   std::optional<double> aep_pass;
   bool polygons = false;
+  std::string polygon_format;  // empty: gpkg
   bool cog = false;
   bool no_overviews = false;
   std::string compress = "deflate";
@@ -332,6 +333,13 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
                      "give --level M (repeat), --return-periods with --fit, or a still-water model");
   }
   req.polygons = o.polygons;
+  if (!o.polygon_format.empty() && !o.polygons) {
+    throw InputError("--polygon-format", "applies to the extent polygons, and --polygons is not given",
+                     "add --polygons, or drop --polygon-format");
+  }
+  req.polygon_format = o.polygon_format == "fgb" ? terrain::PolygonFormat::flatgeobuf
+                       : o.polygon_format == "shp" ? terrain::PolygonFormat::shapefile
+                                                   : terrain::PolygonFormat::geopackage;
   req.format.cloud_optimized = o.cog;
   req.format.overviews = !o.no_overviews;
   req.format.compression =
@@ -488,7 +496,11 @@ void configure(CLI::App& app, CommonOptions& common) {
                  "Write first_year.tif: first projected (or --rise) year a cell's AEP reaches P")
       ->type_name("P")
       ->check(CLI::Range(1e-9, 1.0));
-  app.add_flag("--polygons", o->polygons, "Write extent polygons to extent.gpkg");
+  app.add_flag("--polygons", o->polygons, "Write extent polygons (extent.gpkg; see --polygon-format)");
+  app.add_option("--polygon-format", o->polygon_format,
+                 "Format of the extent polygons: gpkg (GeoPackage), fgb (FlatGeobuf) or shp (Shapefile)")
+      ->check(CLI::IsMember({"gpkg", "fgb", "shp"}))
+      ->type_name("FORMAT");
   app.add_flag("--cog", o->cog, "Write Cloud-Optimized GeoTIFFs");
   app.add_flag("--no-overviews", o->no_overviews,
                "Leave out the internal overviews (faster for many levels; --cog always has them)");

@@ -135,9 +135,33 @@ double polygon_area_m2(const OGRGeometry& g, const OGRSpatialReference& srs) {
   return area;
 }
 
+struct PolygonFile {
+  const char* driver;
+  const char* name;                       // the file the driver is given
+  std::vector<const char*> side_suffixes;  // further files it writes beside it
+};
+PolygonFile polygon_file(PolygonFormat f) {
+  switch (f) {
+    case PolygonFormat::flatgeobuf:
+      return {"FlatGeobuf", "extent.fgb", {}};
+    case PolygonFormat::shapefile:
+      return {"ESRI Shapefile", "extent.shp", {".shx", ".dbf", ".prj", ".cpg"}};
+    default:
+      return {"GPKG", "extent.gpkg", {}};
+  }
+}
+
+// A field's name in the chosen format: a Shapefile's (dBASE) names hold at most 10 characters.
+const char* field_name(const char* name, PolygonFormat f) {
+  if (f != PolygonFormat::shapefile) return name;
+  if (std::string_view(name) == "extent_class") return "ext_class";
+  if (std::string_view(name) == "return_period_yr") return "ret_per_yr";
+  return name;
+}
+
 // Extent polygons of one level: the classes 1 and 2 polygonised (GDALPolygonize) into `layer`.
 void polygonise_level(const FloodThresholdMap& map, const LevelSummary& level, OGRLayer& layer,
-                      const std::string& path) {
+                      const std::string& path, PolygonFormat format) {
   const GeoGrid& grid = map.dem.grid;
   const std::size_t n = grid.shape.cells();
   auto classes = gdal::mem_raster(grid, GDT_Byte, 1, 0.0);
@@ -175,12 +199,12 @@ void polygonise_level(const FloodThresholdMap& map, const LevelSummary& level, O
   for (auto& f : tmp) {
     OGRFeature out(layer.GetLayerDefn());
     const int cls = f->GetFieldAsInteger(0);
-    out.SetField("extent_class", cls);
+    out.SetField(field_name("extent_class", format), cls);
     out.SetField("class_name", class_name(static_cast<std::uint8_t>(cls)));
     out.SetField("level_m", level.level.level_m);
     if (level.level.year) out.SetField("year", *level.level.year);
     if (!level.level.scenario.empty()) out.SetField("scenario", level.level.scenario.c_str());
-    if (level.level.return_period_yr) out.SetField("return_period_yr", *level.level.return_period_yr);
+    if (level.level.return_period_yr) out.SetField(field_name("return_period_yr", format), *level.level.return_period_yr);
     out.SetField("area_m2", polygon_area_m2(*f->GetGeometryRef(), srs));
     out.SetGeometry(f->GetGeometryRef());
     if (layer.CreateFeature(&out) != OGRERR_NONE) {
@@ -211,9 +235,13 @@ void pin_geopackage_time() {
 }
 
 void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary>& levels,
-                    const std::filesystem::path& path, const std::string& datum) {
-  GDALDriver* gpkg = GetGDALDriverManager()->GetDriverByName("GPKG");
-  GDALDatasetUniquePtr ds(gpkg->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
+                    const std::filesystem::path& path, const std::string& datum, PolygonFormat format) {
+  GDALDriver* driver = GetGDALDriverManager()->GetDriverByName(polygon_file(format).driver);
+  if (driver == nullptr) {
+    throw InputError(shown_path(path), std::string("this GDAL has no ") + polygon_file(format).driver + " driver",
+                     "choose another polygon format");
+  }
+  GDALDatasetUniquePtr ds(driver->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
   if (!ds) {
     throw InputError(shown_path(path), "cannot be created (" + gdal::last_error() + ")",
                      "check the output folder");
@@ -228,24 +256,26 @@ void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary
                                                          {"scenario", OFTString},
                                                          {"return_period_yr", OFTReal},
                                                          {"area_m2", OFTReal}}) {
-    OGRFieldDefn field(name, type);
+    OGRFieldDefn field(field_name(name, format), type);
     layer->CreateField(&field);
   }
-  // What the fields mean, on the layer (a GeoPackage keeps layer metadata).
-  layer->SetMetadataItem("RETURN_PERIOD_DEFINITION", extremes::return_period_definition);
-  layer->SetMetadataItem("AREA_M2", ("area of each polygon: " + cell_areas(map.dem.grid).method).c_str());
-  layer->SetMetadataItem("VERTICAL", "level_m in metres above the water-level datum");
-  if (!datum.empty()) layer->SetMetadataItem("WATER_LEVEL_DATUM", datum.c_str());
-  ds->StartTransaction();
-  for (const auto& level : levels) polygonise_level(map, level, *layer, shown_path(path));
-  if (ds->CommitTransaction() != OGRERR_NONE) {
+  // What the fields mean, on the layer (a GeoPackage keeps layer metadata; the others do not).
+  if (format == PolygonFormat::geopackage) {
+    layer->SetMetadataItem("RETURN_PERIOD_DEFINITION", extremes::return_period_definition);
+    layer->SetMetadataItem("AREA_M2", ("area of each polygon: " + cell_areas(map.dem.grid).method).c_str());
+    layer->SetMetadataItem("VERTICAL", "level_m in metres above the water-level datum");
+    if (!datum.empty()) layer->SetMetadataItem("WATER_LEVEL_DATUM", datum.c_str());
+  }
+  const bool transaction = ds->StartTransaction() == OGRERR_NONE;
+  for (const auto& level : levels) polygonise_level(map, level, *layer, shown_path(path), format);
+  if (transaction && ds->CommitTransaction() != OGRERR_NONE) {
     throw InputError(shown_path(path), "writing the polygons failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
   CPLErrorReset();
   ds.reset();
   if (CPLGetLastErrorType() >= CE_Failure) {
-    throw InputError(shown_path(path), "closing the GeoPackage failed (" + gdal::last_error() + ")",
+    throw InputError(shown_path(path), "closing the polygon file failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
 }
@@ -545,8 +575,13 @@ MapSummary make_flood_maps(const MapRequest& req) {
     if (std::filesystem::exists(dir / (f + ".aux.xml"))) s.files.push_back(f + ".aux.xml");
   }
   if (req.polygons) {
-    write_polygons(map, s.levels, dir / "extent.gpkg", req.datum);
-    s.files.emplace_back("extent.gpkg");
+    const PolygonFile file = polygon_file(req.polygon_format);
+    write_polygons(map, s.levels, dir / file.name, req.datum, req.polygon_format);
+    s.files.emplace_back(file.name);
+    for (const char* suffix : file.side_suffixes) {
+      const std::string side = std::filesystem::path(file.name).replace_extension(suffix).string();
+      if (std::filesystem::exists(dir / side)) s.files.push_back(side);
+    }
   }
   s.files.emplace_back("summary.csv");
   s.files.emplace_back("summary.json");

@@ -580,3 +580,35 @@ TEST(MapCommand, SeaEdgeIsTheEdgeOfTheValidData) {
   EXPECT_EQ(summary["levels"][0]["connected_cells"], 5);
   EXPECT_THAT(summary["sea"].get<std::string>(), HasSubstr("edge of the valid data"));
 }
+
+// Issue 15 item 6: extent polygons as GeoPackage, FlatGeobuf or Shapefile (10-character field
+// names), each listing its files and holding the same polygons and areas.
+TEST(MapCommand, PolygonFormatsHoldTheSamePolygons) {
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  std::vector<double> areas;
+  for (const std::string format : {"gpkg", "fgb", "shp"}) {
+    SCOPED_TRACE(format);
+    const auto out = tmp / format;
+    const auto r = run_cli("map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 1.5 --quiet" +
+                           " --polygons --polygon-format " + format + " --out " + shell_quote(out.string()));
+    ASSERT_EQ(r.exit_code, 0) << r.err;
+    const auto file = out / ("extent." + format);
+    GDALDatasetUniquePtr ds(GDALDataset::Open(file.c_str(), GDAL_OF_VECTOR));
+    ASSERT_TRUE(ds);
+    OGRLayer* layer = ds->GetLayer(0);
+    const char* class_field = format == "shp" ? "ext_class" : "extent_class";
+    EXPECT_GE(layer->GetLayerDefn()->GetFieldIndex(class_field), 0);
+    double total = 0.0;
+    for (auto& f : layer) total += f->GetFieldAsDouble("area_m2");
+    areas.push_back(total);
+    const auto summary = nlohmann::json::parse(read_all(out / "summary.json"));
+    const auto files = summary["files"].dump();
+    EXPECT_THAT(files, HasSubstr("extent." + format));
+    if (format == "shp") {
+      for (const char* side : {"extent.shx", "extent.dbf", "extent.prj"}) EXPECT_THAT(files, HasSubstr(side));
+    }
+  }
+  // Beach (3 cells) and bowl (3 cells) of 100 m2: 600 m2 in every format.
+  EXPECT_EQ(areas, (std::vector<double>{600.0, 600.0, 600.0}));
+}

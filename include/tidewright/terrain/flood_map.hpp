@@ -71,6 +71,8 @@ struct FloodThresholdMap {
 // under 10 m, from memory): a higher one is usually a level in centimetres or feet.
 inline constexpr double max_plausible_level_m = 50.0;
 
+enum class PolygonFormat { geopackage, flatgeobuf, shapefile };
+
 struct MapRequest {
   DemSource dem;
   SeaSource sea;
@@ -81,7 +83,11 @@ struct MapRequest {
   bool accept_high_levels = false;
   std::vector<AepLayer> aep;
   std::optional<FirstYearLayer> first_year;
-  bool polygons = false;  // extent polygons to extent.gpkg (needs levels)
+  bool polygons = false;  // extent polygons (needs levels), in polygon_format:
+  // GeoPackage (extent.gpkg, one layer, layer metadata), FlatGeobuf (extent.fgb) or ESRI
+  // Shapefile (extent.shp with .shx, .dbf, .prj, .cpg; field names cut to 10 characters:
+  // extent_class -> ext_class, return_period_yr -> ret_per_yr; no layer metadata).
+  PolygonFormat polygon_format = PolygonFormat::geopackage;
   RasterFormat format;
   std::filesystem::path out_dir;
   bool force = false;
