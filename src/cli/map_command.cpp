@@ -71,6 +71,7 @@ struct MapOptions {
   std::optional<double> aep_pass;
   bool polygons = false;
   std::string polygon_format;  // empty: gpkg
+  std::vector<std::string> creation_options;  // --co KEY=VALUE
   bool cog = false;
   bool no_overviews = false;
   std::string compress = "deflate";
@@ -342,6 +343,13 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
                                                    : terrain::PolygonFormat::geopackage;
   req.format.cloud_optimized = o.cog;
   req.format.overviews = !o.no_overviews;
+  for (const auto& kv : o.creation_options) {
+    const auto eq = kv.find('=');
+    if (eq == std::string::npos || eq == 0) {
+      throw InputError("--co " + kv, "is not KEY=VALUE", "give a GDAL creation option, e.g. --co ZLEVEL=9");
+    }
+    req.format.creation_options.emplace_back(kv.substr(0, eq), kv.substr(eq + 1));
+  }
   req.format.compression =
       o.compress == "zstd" ? terrain::Compression::zstd : terrain::Compression::deflate;
   req.out_dir = o.out;
@@ -502,6 +510,10 @@ void configure(CLI::App& app, CommonOptions& common) {
       ->check(CLI::IsMember({"gpkg", "fgb", "shp"}))
       ->type_name("FORMAT");
   app.add_flag("--cog", o->cog, "Write Cloud-Optimized GeoTIFFs");
+  app.add_option("--co", o->creation_options,
+                 "GDAL creation option KEY=VALUE for the GeoTIFFs (the COG driver's with --cog), over the "
+                 "defaults and --compress (repeat)")
+      ->type_name("KEY=VALUE");
   app.add_flag("--no-overviews", o->no_overviews,
                "Leave out the internal overviews (faster for many levels; --cog always has them)");
   app.add_option("--compress", o->compress, "GeoTIFF compression: deflate or zstd")

@@ -148,10 +148,42 @@ void add_overviews(const std::filesystem::path& path, GDALDataType type, const R
   }
 }
 
-}  // namespace
+// The user's options over `defaults`: a key given replaces the default's value (keys compared
+// without case, as GDAL does), a new key is added.
+std::vector<std::pair<std::string, std::string>> with_user_options(
+    std::vector<std::pair<std::string, std::string>> defaults,
+    const std::vector<std::pair<std::string, std::string>>& user) {
+  for (const auto& [key, value] : user) {
+    const auto same = std::find_if(defaults.begin(), defaults.end(),
+                                   [&](const auto& d) { return EQUAL(d.first.c_str(), key.c_str()); });
+    if (same != defaults.end()) same->second = value;
+    else defaults.emplace_back(key, value);
+  }
+  return defaults;
+}
 
-std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
-    CellType type, const RasterFormat& format, bool palette) {
+// InputError unless every user option is one the driver lists.
+void check_user_options(const char* driver_name, const std::vector<std::pair<std::string, std::string>>& user) {
+  if (user.empty()) return;
+  GDALDriver* driver = GetGDALDriverManager()->GetDriverByName(driver_name);
+  if (driver == nullptr) return;
+  for (const auto& [key, value] : user) {
+    CPLStringList one;
+    one.SetNameValue(key.c_str(), value.c_str());
+    CPLErrorReset();
+    CPLPushErrorHandler(CPLQuietErrorHandler);
+    const int valid = GDALValidateCreationOptions(driver, one.List());
+    CPLPopErrorHandler();
+    if (valid == FALSE) {
+      throw InputError("creation option " + key + "=" + value,
+                       std::string("is not one the ") + driver_name + " driver takes (" + gdal::last_error() + ")",
+                       std::string("see 'gdalinfo --format ") + driver_name + "' for its options");
+    }
+  }
+}
+
+std::vector<std::pair<std::string, std::string>> geotiff_defaults(CellType type, const RasterFormat& format,
+                                                                  bool palette) {
   return {{"TILED", "YES"},
           {"BLOCKXSIZE", "256"},
           {"BLOCKYSIZE", "256"},
@@ -163,6 +195,16 @@ std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
           {"PHOTOMETRIC", palette ? "PALETTE" : "MINISBLACK"},
           {"BIGTIFF", "IF_SAFER"},
           {"NUM_THREADS", thread_option(format)}};
+}
+
+}  // namespace
+
+std::vector<std::pair<std::string, std::string>> geotiff_creation_options(
+    CellType type, const RasterFormat& format, bool palette) {
+  // With COG the user's options are the COG driver's (finish()); the tiled file takes defaults.
+  const auto user = format.cloud_optimized ? std::vector<std::pair<std::string, std::string>>{}
+                                           : format.creation_options;
+  return with_user_options(geotiff_defaults(type, format, palette), user);
 }
 
 GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, CellType type,
@@ -179,6 +221,7 @@ GeoTiffWriter::GeoTiffWriter(std::filesystem::path path, const GeoGrid& grid, Ce
   impl_->nodata = nodata;
   impl_->statistics.resize(bands.size());
   if (format.cloud_optimized) impl_->tiff_path += ".tiled.tif";
+  check_user_options(format.cloud_optimized ? "COG" : "GTiff", format.creation_options);
   const bool palette = bands.size() == 1 && !bands.front().classes.empty();
   for (const auto& b : bands) {
     if (!b.classes.empty() && (!palette || type != CellType::byte)) {
@@ -272,12 +315,15 @@ void GeoTiffWriter::finish() {
                      "leave out --cog");
   }
   CPLStringList options;
-  options.SetNameValue("COMPRESS", compression_name(impl_->format.compression));
-  options.SetNameValue("PREDICTOR", "YES");
-  options.SetNameValue("BLOCKSIZE", "256");
-  options.SetNameValue("BIGTIFF", "IF_SAFER");
-  options.SetNameValue("NUM_THREADS", thread_option(impl_->format).c_str());
-  options.SetNameValue("RESAMPLING", impl_->type == GDT_Float32 ? "AVERAGE" : "NEAREST");
+  for (const auto& [key, value] : with_user_options({{"COMPRESS", compression_name(impl_->format.compression)},
+                                                     {"PREDICTOR", "YES"},
+                                                     {"BLOCKSIZE", "256"},
+                                                     {"BIGTIFF", "IF_SAFER"},
+                                                     {"NUM_THREADS", thread_option(impl_->format)},
+                                                     {"RESAMPLING", impl_->type == GDT_Float32 ? "AVERAGE" : "NEAREST"}},
+                                                    impl_->format.creation_options)) {
+    options.SetNameValue(key.c_str(), value.c_str());
+  }
   CPLErrorReset();
   GDALDatasetUniquePtr out(
       cog->CreateCopy(impl_->path.c_str(), tiled.get(), FALSE, options.List(), nullptr, nullptr));

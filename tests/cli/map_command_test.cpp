@@ -612,3 +612,28 @@ TEST(MapCommand, PolygonFormatsHoldTheSamePolygons) {
   // Beach (3 cells) and bowl (3 cells) of 100 m2: 600 m2 in every format.
   EXPECT_EQ(areas, (std::vector<double>{600.0, 600.0, 600.0}));
 }
+
+// Issue 15 item 6: --co passes GDAL creation options through, over the defaults and --compress
+// (to the COG driver with --cog); an option the driver does not list is refused before output.
+TEST(MapCommand, CreationOptionsArePassedThroughAndChecked) {
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);
+  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 1.5 --quiet";
+  auto out = tmp / "lzw";
+  auto r = run_cli(base + " --compress zstd --co COMPRESS=LZW --co BLOCKXSIZE=128 --out " + shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  GDALDatasetUniquePtr ds(GDALDataset::Open((out / "depth.tif").c_str(), GDAL_OF_RASTER));
+  ASSERT_TRUE(ds);
+  EXPECT_STREQ(ds->GetMetadataItem("COMPRESSION", "IMAGE_STRUCTURE"), "LZW");
+  int bx = 0;
+  int by = 0;
+  ds->GetRasterBand(1)->GetBlockSize(&bx, &by);
+  EXPECT_EQ(bx, 128);
+  out = tmp / "cog";
+  r = run_cli(base + " --cog --compress zstd --co LEVEL=12 --out " + shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  expect_input_error(run_cli(base + " --co NOT_AN_OPTION=1 --out " + shell_quote((tmp / "bad").string())),
+                     "creation option NOT_AN_OPTION=1: is not one the GTiff driver takes", tmp / "bad");
+  expect_input_error(run_cli(base + " --co ZLEVEL --out " + shell_quote((tmp / "bad").string())),
+                     "--co ZLEVEL: is not KEY=VALUE", tmp / "bad");
+}

@@ -28,6 +28,10 @@ struct RasterFormat {
   // at once. A 20-level run on 25 million cells spends about a third of its time on them
   // (docs/performance.md, "Maps"), so big batch runs may leave them out (map --no-overviews).
   bool overviews = true;
+  // Creation options (KEY, VALUE) given by the user, over the defaults below and `compression`:
+  // the GTiff driver's, or with cloud_optimized the COG driver's. Checked against the driver's
+  // list before anything is written.
+  std::vector<std::pair<std::string, std::string>> creation_options{};
   // Threads compressing tiles (GDAL's NUM_THREADS creation option): 0 every core (ALL_CPUS),
   // 1 none besides the writing thread. Default every core, chosen here: compressing the depth
   // bands is most of a many-level map run (docs/performance.md, "Maps"). The values written,
