@@ -40,6 +40,7 @@ struct MapOptions {
   std::string dem_crs;
   std::string z_units;
   std::optional<double> z_factor;
+  std::vector<double> projwin;  // ULX ULY LRX LRY
   std::optional<double> datum_offset_m;
   std::string datum_offset_raster;
   bool same_datum = false;
@@ -284,6 +285,7 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
   req.dem.crs_override = o.dem_crs;
   req.dem.z_units = o.z_units;
   req.dem.z_factor = o.z_factor;
+  if (!o.projwin.empty()) req.dem.window = std::array<double, 4>{o.projwin[0], o.projwin[1], o.projwin[2], o.projwin[3]};
   const int datum_given = static_cast<int>(o.datum_offset_m.has_value()) +
                           static_cast<int>(!o.datum_offset_raster.empty()) +
                           static_cast<int>(o.same_datum);
@@ -421,6 +423,9 @@ void configure(CLI::App& app, CommonOptions& common) {
                  "Vertical unit of the DEM's values: m, ft, us-ft, cm, mm (default: the band's "
                  "unit, else the vertical CRS's, else metres)")
       ->type_name("UNIT");
+  app.add_option("--projwin", o->projwin, "Map only this window of the DEM, in its CRS (as gdal_translate -projwin)")
+      ->expected(4)
+      ->type_name("ULX ULY LRX LRY");
   app.add_option("--z-factor", o->z_factor,
                  "Metres per unit of the DEM's values, for a unit --z-units does not name")
       ->type_name("M_PER_UNIT");

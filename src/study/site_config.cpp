@@ -181,6 +181,11 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
                        "set map.dem_offset_m, or map.same_datum = true if they are the same");
     }
     c.map.sea = mp->optional_path("sea");
+    if (mp->has("window")) {
+      const auto w = mp->numbers("window");
+      require(w.size() == 4, *mp, "window", "must hold four numbers", "give [ULX, ULY, LRX, LRY] in the DEM's CRS");
+      c.map.window = std::array<double, 4>{w[0], w[1], w[2], w[3]};
+    }
     c.map.sea_layer = mp->optional_string("sea_layer").value_or("");
     c.map.sea_where = mp->optional_string("sea_where").value_or("");
     c.map.sea_spread_to_m = mp->optional_number("sea_spread_to_m");

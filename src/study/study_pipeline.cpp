@@ -560,6 +560,8 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     clock.begin("maps");
     terrain::MapRequest m;
     m.dem.path = c.map.dem.string();
+    m.dem.window = c.map.window;
+    m.dem.window_name = field_location(c.file.string(), "map.window");
     if (c.map.same_datum) m.dem.datum.kind = terrain::DatumRelation::Kind::same;
     else {
       m.dem.datum.kind = terrain::DatumRelation::Kind::constant;

@@ -256,6 +256,47 @@ std::string horizontal_wkt(OGRSpatialReference crs) {
 
 }  // namespace
 
+namespace {
+
+struct PixelWindow {
+  int col0 = 0;
+  int row0 = 0;
+  int cols = 0;
+  int rows = 0;
+};
+
+// The cells of the DEM's grid (its full size on entry) that a window in its CRS covers, widened
+// to whole cells; the whole grid without a window.
+PixelWindow pixel_window(const DemSource& source, const GeoGrid& grid) {
+  const auto& gt = grid.geotransform;
+  PixelWindow all{0, 0, static_cast<int>(grid.shape.cols), static_cast<int>(grid.shape.rows)};
+  if (!source.window) return all;
+  const auto [ulx, uly, lrx, lry] = *source.window;
+  const std::string where = source.window_name + " " + number(ulx) + " " + number(uly) + " " + number(lrx) + " " +
+                            number(lry);
+  if (gt[2] != 0.0 || gt[4] != 0.0) {
+    throw InputError(where, "the DEM's grid is rotated, so a window in its CRS is not a block of cells",
+                     "warp the DEM north-up first (gdalwarp)");
+  }
+  if (!(ulx < lrx) || !((uly - lry) * -gt[5] > 0.0)) {
+    throw InputError(where, "is not upper-left then lower-right", "give ULX ULY LRX LRY with ULX < LRX and ULY > LRY");
+  }
+  const double c0 = std::floor((ulx - gt[0]) / gt[1] + 1e-9);
+  const double c1 = std::ceil((lrx - gt[0]) / gt[1] - 1e-9);
+  const double r0 = std::floor((uly - gt[3]) / gt[5] + 1e-9);
+  const double r1 = std::ceil((lry - gt[3]) / gt[5] - 1e-9);
+  if (c0 < 0.0 || r0 < 0.0 || c1 > static_cast<double>(all.cols) || r1 > static_cast<double>(all.rows)) {
+    const double x1 = gt[0] + gt[1] * all.cols;
+    const double y1 = gt[3] + gt[5] * all.rows;
+    throw InputError(where, "reaches outside the DEM (" + number(gt[0]) + " " + number(gt[3]) + " " + number(x1) + " " +
+                                number(y1) + ")",
+                     "give a window inside the DEM's extent (gdalinfo shows it)");
+  }
+  return {static_cast<int>(c0), static_cast<int>(r0), static_cast<int>(c1 - c0), static_cast<int>(r1 - r0)};
+}
+
+}  // namespace
+
 Dem read_dem(const DemSource& source) {
   auto ds = gdal::open_raster(source.path, "DEM");
   if (source.band < 1 || source.band > ds->GetRasterCount()) {
@@ -285,6 +326,10 @@ Dem read_dem(const DemSource& source) {
                      "assign one (gdal_edit.py -a_srs EPSG:XXXX) or pass --dem-crs EPSG:XXXX");
   }
   dem.grid.crs_wkt = horizontal_wkt(chosen);
+  const PixelWindow win = pixel_window(source, dem.grid);
+  dem.grid.shape = {static_cast<std::size_t>(win.cols), static_cast<std::size_t>(win.rows)};
+  dem.grid.geotransform[0] += win.col0 * dem.grid.geotransform[1];
+  dem.grid.geotransform[3] += win.row0 * dem.grid.geotransform[5];
 
   GDALRasterBand* band = ds->GetRasterBand(source.band);
   const VerticalScale vertical = vertical_scale(source, *band, chosen);
@@ -293,14 +338,14 @@ Dem read_dem(const DemSource& source) {
   dem.elevation_m.resize(n);
   // Read a block of rows at a time and drop GDAL's cached copy of it, so reading does not hold
   // the DEM twice (our grid plus GDAL's block cache).
-  const int cols = ds->GetRasterXSize();
-  const int rows = ds->GetRasterYSize();
+  const int cols = win.cols;
+  const int rows = win.rows;
   constexpr int rows_per_read = 256;
   for (int r0 = 0; r0 < rows; r0 += rows_per_read) {
     const int h = std::min(rows_per_read, rows - r0);
     float* dest =
         dem.elevation_m.data() + static_cast<std::size_t>(r0) * static_cast<std::size_t>(cols);
-    if (band->RasterIO(GF_Read, 0, r0, cols, h, dest, cols, h, GDT_Float32, 0, 0, nullptr) !=
+    if (band->RasterIO(GF_Read, win.col0, win.row0 + r0, cols, h, dest, cols, h, GDT_Float32, 0, 0, nullptr) !=
         CE_None) {
       throw InputError(source.path, "reading the DEM failed (" + gdal::last_error() + ")",
                        "check the file with gdalinfo -checksum");
@@ -399,8 +444,11 @@ Dem read_dem(const DemSource& source) {
   }
   dem.description =
       source.path + " band " + std::to_string(source.band) + " (" +
-      std::to_string(dem.grid.shape.cols) + " x " + std::to_string(dem.grid.shape.rows) +
-      " cells, " + std::to_string(valid) + " valid; nodata: " +
+      std::to_string(dem.grid.shape.cols) + " x " + std::to_string(dem.grid.shape.rows) + " cells" +
+      (source.window ? " of the window " + number((*source.window)[0]) + " " + number((*source.window)[1]) + " " +
+                           number((*source.window)[2]) + " " + number((*source.window)[3])
+                     : std::string()) +
+      ", " + std::to_string(valid) + " valid; nodata: " +
       (has_nodata != 0 ? number(file_nodata) + " from the file" : "none in the file") +
       (source.nodata ? ", " + number(*source.nodata) + " declared" : "") + "); vertical unit: " +
       dem.vertical_unit + "; " + datum;

@@ -637,3 +637,28 @@ TEST(MapCommand, CreationOptionsArePassedThroughAndChecked) {
   expect_input_error(run_cli(base + " --co ZLEVEL --out " + shell_quote((tmp / "bad").string())),
                      "--co ZLEVEL: is not KEY=VALUE", tmp / "bad");
 }
+
+// Issue 15 item 6: --projwin maps a window of the DEM in its CRS (widened to whole cells), as
+// gdal_translate -projwin does; a window reaching outside the DEM is refused.
+TEST(MapCommand, ProjwinMapsAWindowOfTheDem) {
+  TempDir tmp;
+  const auto dem = profile_dem(tmp);  // 5 x 3 cells of 10 m from (500000, 6000000)
+  const std::string base = "map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --level 1.5 --quiet";
+  const auto out = tmp / "w";
+  // 500000-500032 widens to columns 0-3, 6000000-5999985 to rows 0-1.
+  const auto r = run_cli(base + " --projwin 500000 6000000 500032 5999985 --out " + shell_quote(out.string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  GDALDatasetUniquePtr ds(GDALDataset::Open((out / "threshold.tif").c_str(), GDAL_OF_RASTER));
+  ASSERT_TRUE(ds);
+  EXPECT_EQ(ds->GetRasterXSize(), 4);
+  EXPECT_EQ(ds->GetRasterYSize(), 2);
+  std::array<double, 6> gt{};
+  ds->GetGeoTransform(gt.data());
+  EXPECT_EQ(gt[0], 500000.0);
+  EXPECT_EQ(gt[3], 6000000.0);
+  const auto summary = nlohmann::json::parse(read_all(out / "summary.json"));
+  EXPECT_EQ(summary["cells"], 8);
+  EXPECT_EQ(summary["levels"][0]["connected_cells"], 2);  // the beach cells of rows 0-1
+  expect_input_error(run_cli(base + " --projwin 500000 6000000 500100 5999985 --out " + shell_quote((tmp / "x").string())),
+                     "--projwin 500000 6000000 500100 5999985: reaches outside the DEM", tmp / "x");
+}

@@ -105,3 +105,18 @@ TEST(SiteConfig, SeaSpreadLevelIsReadAndMustBeFinite) {
   EXPECT_THAT(error_for(dir, std::string(minimal) + map + "sea_spread_to_m = nan\n"),
               HasSubstr("map.sea_spread_to_m"));
 }
+
+TEST(SiteConfig, MapWindowAndSeaLayerAreRead) {
+  TempDir dir;
+  const std::string map = "[map]\ndem = \"dem.tif\"\nsame_datum = true\nsea = \"sea.gpkg\"\n";
+  tidewright::write_text_file(dir / "site.toml",
+                              std::string(minimal) + map +
+                                  "sea_layer = \"sea\"\nsea_where = \"kind = 'sea'\"\nwindow = [0.0, 10.0, 5.0, 2.0]\n",
+                              false);
+  const auto c = load_site_file(dir / "site.toml");
+  EXPECT_EQ(c.map.sea_layer, "sea");
+  EXPECT_EQ(c.map.sea_where, "kind = 'sea'");
+  ASSERT_TRUE(c.map.window);
+  EXPECT_EQ(*c.map.window, (std::array<double, 4>{0.0, 10.0, 5.0, 2.0}));
+  EXPECT_THAT(error_for(dir, std::string(minimal) + map + "window = [0.0, 1.0]\n"), HasSubstr("map.window"));
+}

@@ -3,6 +3,7 @@
 // and the file's line; relative paths are relative to the site file's folder.
 #pragma once
 
+#include <array>
 #include <filesystem>
 #include <map>
 #include <optional>
@@ -87,6 +88,7 @@ struct MapSettings {
   bool enabled = false;
   std::filesystem::path dem;
   std::optional<double> dem_offset_m;  // water level = DEM elevation + offset
+  std::optional<std::array<double, 4>> window;    // map.window: ULX ULY LRX LRY in the DEM's CRS
   bool same_datum = false;
   std::optional<std::filesystem::path> sea;       // vector polygon or raster mask
   std::string sea_layer;                          // the sea's layer in a vector file of several

@@ -8,6 +8,7 @@
 // where offset is the height of the DEM datum's zero above the water-level datum's zero (m).
 #pragma once
 
+#include <array>
 #include <optional>
 #include <string>
 #include <vector>
@@ -33,6 +34,10 @@ struct DemSource {
   // band's unit type, else the vertical CRS's unit, else metres. Known: m, ft, us-ft, cm, mm.
   std::string z_units;
   std::optional<double> z_factor;  // metres per unit, instead of z_units
+  // A window of the DEM to map, in its CRS: upper-left x, y and lower-right x, y (as
+  // gdal_translate -projwin), widened to whole cells; it must lie inside the DEM.
+  std::optional<std::array<double, 4>> window{};
+  std::string window_name = "--projwin";
   // How the caller names these inputs in messages (a flag, or a site-file key).
   std::string z_units_name = "--z-units";
   std::string z_factor_name = "--z-factor";
