@@ -75,6 +75,7 @@ struct MapOptions {
   std::vector<std::string> creation_options;  // --co KEY=VALUE
   bool cog = false;
   bool no_overviews = false;
+  bool depth_per_level = false;
   std::string compress = "deflate";
   std::string out;
 };
@@ -345,6 +346,9 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
                                                    : terrain::PolygonFormat::geopackage;
   req.format.cloud_optimized = o.cog;
   req.format.overviews = !o.no_overviews;
+  req.depth_per_level = o.depth_per_level;
+  if (!o.planning.fit_json.empty()) req.input_metadata.emplace_back("TIDEWRIGHT_FIT", o.planning.fit_json);
+  if (!o.planning.members.empty()) req.input_metadata.emplace_back("TIDEWRIGHT_MEMBERS", o.planning.members);
   for (const auto& kv : o.creation_options) {
     const auto eq = kv.find('=');
     if (eq == std::string::npos || eq == 0) {
@@ -519,6 +523,8 @@ void configure(CLI::App& app, CommonOptions& common) {
                  "GDAL creation option KEY=VALUE for the GeoTIFFs (the COG driver's with --cog), over the "
                  "defaults and --compress (repeat)")
       ->type_name("KEY=VALUE");
+  app.add_flag("--depth-per-level", o->depth_per_level,
+               "Also write each level's depths as its own file, depth_level_K.tif");
   app.add_flag("--no-overviews", o->no_overviews,
                "Leave out the internal overviews (faster for many levels; --cog always has them)");
   app.add_option("--compress", o->compress, "GeoTIFF compression: deflate or zstd")

@@ -68,6 +68,7 @@ Metadata common_metadata(const MapRequest& req, const FloodThresholdMap& map,
                      std::to_string(static_cast<int>(map.connectivity)) + "-connectivity");
   m.emplace_back("TIDEWRIGHT_VERTICAL", "metres above the water-level datum");
   if (!req.datum.empty()) m.emplace_back("TIDEWRIGHT_WATER_LEVEL_DATUM", req.datum);
+  for (const auto& kv : req.input_metadata) m.push_back(kv);
   m.emplace_back("TIDEWRIGHT_DEM", map.dem.description);
   m.emplace_back("TIDEWRIGHT_SEA", map.sea.description);
   m.emplace_back("TIDEWRIGHT_DEFENCES", map.defences ? map.defences->description : "none");
@@ -399,7 +400,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   double hi = -lo;
   for (std::size_t i = 0; i < s.cells; ++i) {
     const float t = map.threshold_m[i];
-    if (!std::isnan(map.dem.elevation_m[i]) || map.sea.is_sea[i] != 0) ++s.valid_cells;
+    if (!std::isnan(map.dem.elevation_m[i])) ++s.valid_cells;
     if (t == std::numeric_limits<float>::infinity()) ++s.unreached_cells;
     if (std::isfinite(t)) {
       lo = std::min(lo, static_cast<double>(t));
@@ -423,6 +424,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   std::unique_ptr<GeoTiffWriter> extent;
   std::unique_ptr<GeoTiffWriter> depth;
   std::vector<std::unique_ptr<GeoTiffWriter>> class_writers;
+  std::vector<std::unique_ptr<GeoTiffWriter>> depth_writers;
   if (!req.levels.empty()) {
     std::vector<BandInfo> extent_bands;
     std::vector<BandInfo> depth_bands;
@@ -452,6 +454,13 @@ MapSummary make_flood_maps(const MapRequest& req) {
                                                               common_metadata(req, map, "flood extent classes"),
                                                               req.format));
       s.files.push_back(name);
+      if (req.depth_per_level) {
+        const std::string depth_name = "depth_level_" + std::to_string(li + 1) + ".tif";
+        depth_writers.push_back(std::make_unique<GeoTiffWriter>(dir / depth_name, map.dem.grid, CellType::float32, nan,
+                                                                std::vector<BandInfo>{depth_bands[li]},
+                                                                common_metadata(req, map, "flood depth"), req.format));
+        s.files.push_back(depth_name);
+      }
     }
   }
   std::vector<AepLookup> aep_tables;
@@ -538,6 +547,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
       }
       extent->write_rows(li, r0, h, bbuf.data());
       class_writers[li]->write_rows(0, r0, h, bbuf.data());
+      if (!depth_writers.empty()) depth_writers[li]->write_rows(0, r0, h, fbuf.data());
       depth->write_rows(li, r0, h, fbuf.data());
     }
     for (std::size_t ai = 0; ai < aep_tables.size(); ++ai) {
@@ -559,6 +569,7 @@ MapSummary make_flood_maps(const MapRequest& req) {
   threshold.finish();
   if (extent) extent->finish();
   for (auto& w : class_writers) w->finish();
+  for (auto& w : depth_writers) w->finish();
   if (depth) depth->finish();
   if (aep) aep->finish();
   if (first_writer) first_writer->finish();

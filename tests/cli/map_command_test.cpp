@@ -259,10 +259,25 @@ TEST(MapCommand, AepAndLevelsFromProjectionMembers) {
   const auto r = run_cli("map --dem " + shell_quote(dem) + " --same-datum --sea-edge-below 0 --fit " +
                          shell_quote((tmp / "fit.json").string()) + " --members " +
                          shell_quote((tmp / "members.csv").string()) +
-                         " --years 2050,2100 --return-periods 10 --aep-pass 0.1 --first-year-step 10 --out " +
+                         " --years 2050,2100 --return-periods 10 --aep-pass 0.1 --first-year-step 10 --depth-per-level --out " +
                          shell_quote(out.string()));
   ASSERT_EQ(r.exit_code, 0) << r.err;
   EXPECT_THAT(r.out, HasSubstr("note: water-level datum: test datum"));
+  // Issue 15 item 5: every file names the fit and members it came from, and the datum; each
+  // level's depths also stand alone (--depth-per-level), equal to depth.tif's band.
+  GDALDatasetUniquePtr depth(GDALDataset::Open((out / "depth.tif").c_str(), GDAL_OF_RASTER));
+  ASSERT_TRUE(depth);
+  EXPECT_THAT(std::string(depth->GetMetadataItem("TIDEWRIGHT_FIT")), HasSubstr("fit.json"));
+  EXPECT_THAT(std::string(depth->GetMetadataItem("TIDEWRIGHT_MEMBERS")), HasSubstr("members.csv"));
+  EXPECT_STREQ(depth->GetMetadataItem("TIDEWRIGHT_WATER_LEVEL_DATUM"), "test datum");
+  EXPECT_STREQ(depth->GetRasterBand(1)->GetMetadataItem("RETURN_PERIOD_YR"), "10.0000");
+  for (int k = 1; k <= depth->GetRasterCount(); ++k) {
+    const auto own = read_band(out / ("depth_level_" + std::to_string(k) + ".tif"), 1, 5, 3);
+    const auto band = read_band(out / "depth.tif", k, 5, 3);
+    for (std::size_t i = 0; i < own.size(); ++i) {
+      EXPECT_TRUE(own[i] == band[i] || (std::isnan(own[i]) && std::isnan(band[i]))) << "level " << k << " cell " << i;
+    }
+  }
   const auto n0 = [](double z) { return std::exp(-(z - 1.0) / 0.5); };
   const auto n2050 = [](double z) { return 0.5 * (std::exp(-(z - 1.2) / 0.5) + std::exp(-(z - 1.4) / 0.5)); };
   const auto aep = [](double n) { return 1.0 - std::exp(-n); };

@@ -98,6 +98,11 @@ struct MapRequest {
   // The water-level datum's name (from the fit), recorded on every band and polygon layer;
   // empty when the caller does not know it.
   std::string datum;
+  // Further inputs for every file's metadata record, as the caller names them (e.g.
+  // TIDEWRIGHT_FIT = the fit file, TIDEWRIGHT_MEMBERS = the projection's members file).
+  std::vector<std::pair<std::string, std::string>> input_metadata;
+  // Depths also as one single-band file per level (depth_level_K.tif), beside depth.tif.
+  bool depth_per_level = false;
   std::function<void(double fraction)> progress;  // 0..1; may be empty
 };
 
@@ -113,7 +118,7 @@ struct LevelSummary {
 
 struct MapSummary {
   std::size_t cells = 0;
-  std::size_t valid_cells = 0;  // not nodata (sea cells included)
+  std::size_t valid_cells = 0;  // with an elevation (not nodata): the metadata record's "valid" count
   std::size_t sea_cells = 0;
   std::size_t unreached_cells = 0;  // valid land no path of valid cells joins to the sea
   double lowest_threshold_m = 0.0;  // over finite thresholds
