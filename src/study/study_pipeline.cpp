@@ -560,6 +560,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     clock.begin("maps");
     terrain::MapRequest m;
     m.dem.path = c.map.dem.string();
+    m.dem.recorded_as = relative_to_site(m.dem.path, c);
     m.dem.window = c.map.window;
     m.dem.window_name = field_location(c.file.string(), "map.window");
     if (c.map.same_datum) m.dem.datum.kind = terrain::DatumRelation::Kind::same;
@@ -568,6 +569,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       m.dem.datum.offset_m = *c.map.dem_offset_m;
     }
     if (c.map.sea) m.sea.mask_path = c.map.sea->string();
+    m.sea.mask_recorded_as = relative_to_site(m.sea.mask_path, c);
     m.sea.layer = c.map.sea_layer;
     m.sea.where = c.map.sea_where;
     m.sea.layer_input = field_location(c.file.string(), "map.sea_layer");
@@ -576,6 +578,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     if (c.map.defences) {
       terrain::DefenceSource d;
       d.path = c.map.defences->string();
+      d.recorded_as = relative_to_site(d.path, c);
       d.crest_field = c.map.crest_attribute;
       d.crest_in_water_datum = true;
       m.defences = d;

@@ -148,17 +148,18 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
       ++out.cells_raised;
     }
   }
-  out.description = source.path + " (" + std::to_string(out.features) + " features, crest '" +
+  const std::string& shown = source.recorded_as.empty() ? source.path : source.recorded_as;
+  out.description = shown + " (" + std::to_string(out.features) + " features, crest '" +
                     source.crest_field + "' in the " +
                     (source.crest_in_water_datum ? "water-level" : "DEM") +
                     " datum, ALL_TOUCHED burn, " + std::to_string(out.gaps_closed) +
                     " diagonal gaps closed, " + std::to_string(out.cells_raised) + " cells raised)";
   if (out.cells_touched == 0) {
-    out.warnings.push_back(source.path + ": the " + std::to_string(out.features) +
+    out.warnings.push_back(shown + ": the " + std::to_string(out.features) +
                            " defences touch none of the DEM's cells, so they change nothing: check their CRS and "
                            "extent against the DEM (ogrinfo -so, gdalinfo)");
   } else if (out.cells_raised == 0) {
-    out.warnings.push_back(source.path + ": every defence crest is at or below the ground under it (" +
+    out.warnings.push_back(shown + ": every defence crest is at or below the ground under it (" +
                            std::to_string(out.cells_touched) + " cells), so none was raised: check --crest-field and "
                            "--crest-datum");
   }

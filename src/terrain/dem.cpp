@@ -258,6 +258,8 @@ std::string horizontal_wkt(OGRSpatialReference crs) {
 
 namespace {
 
+const std::string& recorded_name(const DemSource& s) { return s.recorded_as.empty() ? s.path : s.recorded_as; }
+
 struct PixelWindow {
   int col0 = 0;
   int row0 = 0;
@@ -363,7 +365,7 @@ Dem read_dem(const DemSource& source) {
     // Only values not declared: a declared nodata of -9999 is fine.
     const bool declared_fill = std::any_of(std::begin(common_fill_values), std::end(common_fill_values),
                                            [&](float f) { return is_declared(f); });
-    if (!declared_fill) dem.warnings.push_back(source.path + ": " + *w);
+    if (!declared_fill) dem.warnings.push_back(recorded_name(source) + ": " + *w);
   }
   std::size_t valid = 0;
   for (auto& v : dem.elevation_m) {
@@ -394,7 +396,7 @@ Dem read_dem(const DemSource& source) {
   // Judged on the band's values after its scale and offset (the unit is metres, assumed).
   if (!vertical.stated) {
     if (auto w = unit_suspicion(dem.elevation_m, band->GetRasterDataType(), scaled)) {
-      dem.warnings.push_back(source.path + ": " + *w);
+      dem.warnings.push_back(recorded_name(source) + ": " + *w);
     }
   }
   dem.vertical_unit = vertical.text;
@@ -443,7 +445,7 @@ Dem read_dem(const DemSource& source) {
     }
   }
   dem.description =
-      source.path + " band " + std::to_string(source.band) + " (" +
+      recorded_name(source) + " band " + std::to_string(source.band) + " (" +
       std::to_string(dem.grid.shape.cols) + " x " + std::to_string(dem.grid.shape.rows) + " cells" +
       (source.window ? " of the window " + number((*source.window)[0]) + " " + number((*source.window)[1]) + " " +
                            number((*source.window)[2]) + " " + number((*source.window)[3])

@@ -70,7 +70,8 @@ std::vector<std::uint8_t> rasterise_sea_polygons(const SeaSource& source, const 
                        "their own option");
     }
   }
-  description = "sea polygons " + path + " layer '" + name + "'" +
+  description = "sea polygons " + (source.mask_recorded_as.empty() ? path : source.mask_recorded_as) + " layer '" +
+                name + "'" +
                 (source.where.empty() ? std::string() : " where " + source.where) + ", " +
                 std::to_string(geometries.size()) + " features (cell centres)";
   auto mem = gdal::mem_raster(grid, GDT_Byte, 1, 0.0);
@@ -171,7 +172,8 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
       for (std::size_t i = 0; i < n; ++i) {
         mask[i] = !std::isnan(values[i]) && values[i] != 0.0F ? 1 : 0;
       }
-      add_part("sea raster " + source.mask_path + " (non-zero cells, nearest resampling)");
+      add_part("sea raster " + (source.mask_recorded_as.empty() ? source.mask_path : source.mask_recorded_as) +
+               " (non-zero cells, nearest resampling)");
     }
     std::size_t in_mask = 0;
     for (std::size_t i = 0; i < n; ++i) {

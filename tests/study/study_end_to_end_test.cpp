@@ -241,4 +241,9 @@ TEST_F(SmallDemo, ReportListsWhatShapedItsNumbers) {
   EXPECT_EQ(html.find(demo().string()), std::string::npos) << "an absolute path in the report";
   const auto results = nlohmann::json::parse(read_all(demo() / "study" / "results.json"));
   EXPECT_EQ(results["fit"]["source"], "quillhaven_tide_gauge.csv");
+  // The maps record the inputs as the site file names them too (issue 15).
+  const auto maps = nlohmann::json::parse(read_all(demo() / "study" / "maps" / "summary.json"));
+  EXPECT_THAT(maps["dem"].get<std::string>(), ::testing::StartsWith("quillhaven_dem.tif band 1"));
+  EXPECT_THAT(maps["sea"].get<std::string>(), HasSubstr("sea polygons quillhaven_sea.geojson layer"));
+  EXPECT_THAT(maps["defences"].get<std::string>(), ::testing::StartsWith("quillhaven_defences.geojson ("));
 }

@@ -20,6 +20,7 @@ struct DefenceSource {
   std::string layer;                    // empty = the first layer
   std::string crest_field = "crest_m";  // attribute with the crest level (m); a project name
   bool crest_in_water_datum = false;    // false: crest levels are in the DEM's datum
+  std::string recorded_as{};  // how descriptions and warnings name it; empty: path
 };
 
 struct DefenceBurn {

@@ -41,6 +41,7 @@ struct DemSource {
   // How the caller names these inputs in messages (a flag, or a site-file key).
   std::string z_units_name = "--z-units";
   std::string z_factor_name = "--z-factor";
+  std::string recorded_as{};  // how descriptions and warnings name it (e.g. as a site file writes it); empty: path
 };
 
 // Metres per unit of a vertical unit's name (GDAL band unit types, PROJ unit names and the

@@ -19,6 +19,7 @@ namespace tidewright::terrain {
 
 struct SeaSource {
   std::string mask_path;                         // vector (polygons) or raster; empty = none
+  std::string mask_recorded_as{};                // how the description names it; empty: mask_path
   // For a vector mask: the layer that is the sea (empty: the file's only layer; a file of
   // several layers is refused without one) and an OGR SQL attribute filter (empty: every
   // feature). Lines and points are refused: the sea is an area, not a coastline.
