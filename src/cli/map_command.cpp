@@ -109,40 +109,7 @@ StillWaterModel model_from_json(const std::string& path) {
   } catch (const nlohmann::json::exception& e) {
     throw InputError(path, std::string("is not valid JSON (") + e.what() + ")", "fix the file");
   }
-  StillWaterModel m;
-  const auto number = [&](const char* key, double fallback, bool required) {
-    if (!j.contains(key)) {
-      if (required)
-        throw InputError(field_location(path, key), "is missing", "add it (see docs/map.md)");
-      return fallback;
-    }
-    if (!j[key].is_number())
-      throw InputError(field_location(path, key), "is not a number", "give a number");
-    return j[key].get<double>();
-  };
-  const std::string family = j.value("family", "");
-  if (family == "gumbel") {
-    m.family = Family::gumbel;
-  } else if (family == "gev") {
-    m.family = Family::gev;
-  } else if (family == "gpd") {
-    m.family = Family::gpd;
-  } else {
-    throw InputError(field_location(path, "family"), "'" + family + "' is not gumbel, gev or gpd",
-                     "name the model family");
-  }
-  const bool gpd = m.family == Family::gpd;
-  m.location_m = number("location_m", 0.0, !gpd);
-  m.scale_m = number("scale_m", 1.0, true);
-  m.shape = number("shape", 0.0, m.family != Family::gumbel);
-  m.threshold_m = number("threshold_m", 0.0, gpd);
-  m.rate_per_yr = number("rate_per_yr", 1.0, gpd);
-  if (j.contains("below_threshold")) {
-    const auto& b = j["below_threshold"];
-    m.below_threshold.level_m = b.value("level_m", std::vector<double>{});
-    m.below_threshold.rate_per_yr = b.value("rate_per_yr", std::vector<double>{});
-  }
-  return m;
+  return study::still_water_model_from_json(j, [&](const std::string& key) { return field_location(path, key); });
 }
 
 std::optional<StillWaterModel> present_day_model(const MapOptions& o) {

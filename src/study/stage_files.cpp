@@ -114,6 +114,64 @@ nlohmann::ordered_json still_water_model_json(const extremes::StillWaterModel& m
   return j;
 }
 
+extremes::StillWaterModel still_water_model_from_json(const nlohmann::json& j,
+                                                     const std::function<std::string(const std::string&)>& field) {
+  if (!j.is_object()) throw InputError(field("family"), "the model is not a JSON object", "give {\"family\": ...}");
+  extremes::StillWaterModel m;
+  const std::string family = j.contains("family") && j["family"].is_string() ? j["family"].get<std::string>() : "";
+  if (family == "gumbel") m.family = extremes::Family::gumbel;
+  else if (family == "gev") m.family = extremes::Family::gev;
+  else if (family == "gpd") m.family = extremes::Family::gpd;
+  else throw InputError(field("family"), "'" + family + "' is not gumbel, gev or gpd", "name the model family");
+  const auto number = [&](const char* key, double fallback, bool required) {
+    if (!j.contains(key)) {
+      if (required) throw InputError(field(key), "is missing", "add it (docs/file-formats.md)");
+      return fallback;
+    }
+    if (!j[key].is_number() || !std::isfinite(j[key].get<double>())) {
+      throw InputError(field(key), "is not a finite number", "give a number");
+    }
+    return j[key].get<double>();
+  };
+  const bool gpd = m.family == extremes::Family::gpd;
+  m.location_m = number("location_m", 0.0, !gpd);
+  m.scale_m = number("scale_m", 1.0, true);
+  m.shape = m.family == extremes::Family::gumbel ? 0.0 : number("shape", 0.0, true);
+  if (!(m.scale_m > 0.0)) throw InputError(field("scale_m"), "is not above 0", "give the scale in metres (> 0)");
+  if (gpd) {
+    m.threshold_m = number("threshold_m", 0.0, true);
+    m.rate_per_yr = number("rate_per_yr", 1.0, true);
+    if (!(m.rate_per_yr > 0.0)) {
+      throw InputError(field("rate_per_yr"), "is not above 0", "give the threshold's exceedance rate per year");
+    }
+    if (j.contains("below_threshold")) {
+      const auto& b = j["below_threshold"];
+      const auto list = [&](const char* key) {
+        if (!b.is_object() || !b.contains(key) || !b[key].is_array()) {
+          throw InputError(field(std::string("below_threshold.") + key), "is not a list of numbers",
+                           "give the fit's output unchanged");
+        }
+        std::vector<double> v;
+        for (const auto& x : b[key]) {
+          if (!x.is_number()) {
+            throw InputError(field(std::string("below_threshold.") + key), "holds a value that is not a number",
+                             "give the fit's output unchanged");
+          }
+          v.push_back(x.get<double>());
+        }
+        return v;
+      };
+      m.below_threshold.level_m = list("level_m");
+      m.below_threshold.rate_per_yr = list("rate_per_yr");
+      if (m.below_threshold.level_m.size() != m.below_threshold.rate_per_yr.size()) {
+        throw InputError(field("below_threshold"), "lists levels and rates of different lengths",
+                         "give the fit's output unchanged");
+      }
+    }
+  }
+  return m;
+}
+
 FitSummary read_fit_json(const std::filesystem::path& file) {
   std::ifstream in(file, std::ios::binary);
   if (!in) throw InputError(file.string(), "cannot be opened for reading", "check the path");
@@ -132,27 +190,9 @@ FitSummary read_fit_json(const std::filesystem::path& file) {
     if (!j.is_object() || !j.contains("present_day_model")) {
       throw InputError(field("present_day_model"), "is missing", "give the --json output of 'tidewright fit'");
     }
-    const auto& m = j.at("present_day_model");
-    const std::string fam = m.at("family").get<std::string>();
-    if (fam == "gumbel") f.model.family = extremes::Family::gumbel;
-    else if (fam == "gev") f.model.family = extremes::Family::gev;
-    else if (fam == "gpd") f.model.family = extremes::Family::gpd;
-    else throw InputError(field("present_day_model.family"), "is '" + fam + "'", "use gumbel, gev or gpd");
-    f.model.location_m = m.value("location_m", 0.0);
-    f.model.scale_m = m.at("scale_m").get<double>();
-    f.model.shape = m.value("shape", 0.0);
-    if (!(f.model.scale_m > 0.0) || !std::isfinite(f.model.shape) || !std::isfinite(f.model.location_m)) {
-      throw InputError(field("present_day_model"), "has a scale <= 0 or a non-finite parameter",
-                       "give the output of a successful fit");
-    }
-    if (f.model.family == extremes::Family::gpd) {
-      f.model.threshold_m = m.at("threshold_m").get<double>();
-      f.model.rate_per_yr = m.at("rate_per_yr").get<double>();
-      if (m.contains("below_threshold")) {
-        f.model.below_threshold.level_m = m.at("below_threshold").at("level_m").get<std::vector<double>>();
-        f.model.below_threshold.rate_per_yr = m.at("below_threshold").at("rate_per_yr").get<std::vector<double>>();
-      }
-    }
+    f.model = still_water_model_from_json(j.at("present_day_model"), [&](const std::string& key) {
+      return field_location(file.string(), "present_day_model." + key);
+    });
     f.datum = j.value("datum", "");
     if (j.contains("reference_epoch") && j["reference_epoch"].is_number()) {
       f.reference_epoch = j["reference_epoch"].get<double>();

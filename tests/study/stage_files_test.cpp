@@ -127,3 +127,38 @@ TEST(StageFiles, FitJsonErrors) {
   tidewright::write_text_file(dir / "d.json", R"({"present_day_model": {"scale_m": 1e999}})", false);
   EXPECT_THROW((void)study::read_fit_json(dir / "d.json"), InputError);
 }
+
+// Issue 13: one decoder of a still-water model, the inverse of still_water_model_json, for the
+// fit's present_day_model and map's --model-json alike.
+TEST(StillWaterModelJson, RoundTripsEveryFamilyAndNamesTheBadKey) {
+  namespace ex = tidewright::extremes;
+  ex::StillWaterModel gpd{ex::Family::gpd, 0.0, 0.12, -0.1, 2.4, 3.5, {}};
+  gpd.below_threshold.level_m = {2.0, 2.2};
+  gpd.below_threshold.rate_per_yr = {40.0, 12.0};
+  const auto where = [](const std::string& key) { return "m.json: " + key; };
+  for (const auto& m : {ex::StillWaterModel{ex::Family::gumbel, 2.0, 0.15, 0.0, 0.0, 1.0, {}},
+                        ex::StillWaterModel{ex::Family::gev, 2.0, 0.15, -0.05, 0.0, 1.0, {}}, gpd}) {
+    const auto back = tidewright::study::still_water_model_from_json(
+        nlohmann::json::parse(tidewright::study::still_water_model_json(m).dump()), where);
+    EXPECT_EQ(back.family, m.family);
+    EXPECT_EQ(back.location_m, m.family == ex::Family::gpd ? 0.0 : m.location_m);
+    EXPECT_EQ(back.scale_m, m.scale_m);
+    EXPECT_EQ(back.shape, m.shape);
+    EXPECT_EQ(back.threshold_m, m.threshold_m);
+    EXPECT_EQ(back.below_threshold.rate_per_yr, m.below_threshold.rate_per_yr);
+  }
+  const auto error = [&](const char* text) {
+    try {
+      (void)tidewright::study::still_water_model_from_json(nlohmann::json::parse(text), where);
+    } catch (const tidewright::InputError& e) {
+      return std::string(e.what());
+    }
+    return std::string("no error");
+  };
+  EXPECT_THAT(error(R"({"family": "weibull"})"), HasSubstr("m.json: family"));
+  EXPECT_THAT(error(R"({"family": "gev", "location_m": 2, "scale_m": 0.1})"), HasSubstr("m.json: shape"));
+  EXPECT_THAT(error(R"({"family": "gumbel", "location_m": 2, "scale_m": -1})"), HasSubstr("m.json: scale_m"));
+  EXPECT_THAT(error(R"({"family": "gpd", "scale_m": 0.1, "shape": 0, "threshold_m": 2, "rate_per_yr": 0})"),
+              HasSubstr("m.json: rate_per_yr"));
+  EXPECT_THAT(error(R"({"family": "gumbel", "location_m": "2", "scale_m": 0.1})"), HasSubstr("m.json: location_m"));
+}

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <filesystem>
+#include <functional>
 #include <optional>
 #include <string>
 #include <vector>
@@ -38,6 +39,11 @@ struct FitSummary {
     const std::optional<climate::YearSpan>& period);
 
 [[nodiscard]] nlohmann::ordered_json still_water_model_json(const extremes::StillWaterModel& m);
+// Its inverse, the one decoder of a still-water model (a fit's present_day_model, map's
+// --model-json): family gumbel, gev or gpd; the numbers each family needs; a positive scale,
+// finite parameters, a positive GPD rate. InputError names the key through `field`.
+[[nodiscard]] extremes::StillWaterModel still_water_model_from_json(
+    const nlohmann::json& j, const std::function<std::string(const std::string&)>& field);
 [[nodiscard]] FitSummary read_fit_json(const std::filesystem::path& file);
 
 }  // namespace tidewright::study
