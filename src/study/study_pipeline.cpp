@@ -626,10 +626,7 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
       map_table.add_csv_row({csv_m(l.level.level_m), l.level.year ? std::to_string(*l.level.year) : "",
                              l.level.scenario, fixed(l.flooded_area_m2 / 1e4, 4), fixed(l.cut_off_area_m2 / 1e4, 4),
                              csv_m(l.max_depth_m)});
-      levels.push_back({{"level_m", l.level.level_m}, {"year", l.level.year ? Json(*l.level.year) : Json(nullptr)},
-                        {"scenario", l.level.scenario}, {"flooded_area_m2", l.flooded_area_m2},
-                        {"cut_off_area_m2", l.cut_off_area_m2}, {"volume_m3", l.volume_m3},
-                        {"max_depth_m", l.max_depth_m}});
+      levels.push_back(terrain::level_summary_json(l));
     }
     maps_json = {{"files", ms.files}, {"area_method", ms.area_method}, {"levels", levels}};
     for (const auto& f : ms.files) out.files.push_back("maps/" + f);

@@ -294,6 +294,26 @@ std::string summary_csv(const MapSummary& s) {
   return out.str();
 }
 
+}  // namespace
+
+nlohmann::ordered_json level_summary_json(const LevelSummary& l) {
+  nlohmann::ordered_json e;
+  e["level_m"] = l.level.level_m;
+  e["year"] = l.level.year ? nlohmann::ordered_json(*l.level.year) : nlohmann::ordered_json();
+  e["scenario"] = l.level.scenario;
+  e["return_period_yr"] = l.level.return_period_yr ? nlohmann::ordered_json(*l.level.return_period_yr)
+                                                   : nlohmann::ordered_json();
+  e["connected_cells"] = l.connected_cells;
+  e["cut_off_cells"] = l.cut_off_cells;
+  e["flooded_area_m2"] = l.flooded_area_m2;
+  e["cut_off_area_m2"] = l.cut_off_area_m2;
+  e["volume_m3"] = l.volume_m3;
+  e["max_depth_m"] = l.max_depth_m;
+  return e;
+}
+
+namespace {
+
 nlohmann::ordered_json summary_json(const MapSummary& s, const FloodThresholdMap& map,
                                     const MapRequest& req) {
   nlohmann::ordered_json j;
@@ -311,19 +331,7 @@ nlohmann::ordered_json summary_json(const MapSummary& s, const FloodThresholdMap
   j["lowest_threshold_m"] = s.lowest_threshold_m;
   j["highest_threshold_m"] = s.highest_threshold_m;
   auto& levels = j["levels"] = nlohmann::ordered_json::array();
-  for (const auto& l : s.levels) {
-    nlohmann::ordered_json e;
-    e["level_m"] = l.level.level_m;
-    e["year"] = l.level.year ? nlohmann::ordered_json(*l.level.year) : nlohmann::ordered_json();
-    e["scenario"] = l.level.scenario;
-    e["connected_cells"] = l.connected_cells;
-    e["cut_off_cells"] = l.cut_off_cells;
-    e["flooded_area_m2"] = l.flooded_area_m2;
-    e["cut_off_area_m2"] = l.cut_off_area_m2;
-    e["volume_m3"] = l.volume_m3;
-    e["max_depth_m"] = l.max_depth_m;
-    levels.push_back(e);
-  }
+  for (const auto& l : s.levels) levels.push_back(level_summary_json(l));
   j["files"] = s.files;
   j["command"] = req.command_line;
   j["cautions"] = req.cautions;

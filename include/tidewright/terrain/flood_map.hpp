@@ -17,6 +17,8 @@
 #include <string>
 #include <vector>
 
+#include <nlohmann/json.hpp>
+
 #include "tidewright/terrain/defences.hpp"
 #include "tidewright/terrain/dem.hpp"
 #include "tidewright/terrain/flood_threshold.hpp"
@@ -129,6 +131,10 @@ struct MapSummary {
   std::vector<std::string> warnings;  // about the inputs (e.g. a DEM's unclear vertical unit)
   std::optional<DefenceBurn> defences;  // what the defence layer did, when one was given
 };
+
+// One level's summary as summary.json and a study's results.json write it: the level, its year,
+// scenario and return period, cell counts, areas (m2), volume (m3) and deepest depth (m).
+[[nodiscard]] nlohmann::ordered_json level_summary_json(const LevelSummary& l);
 
 // Throws InputError for bad inputs (before any output exists) and when out_dir exists without
 // force; ComputationError for a rate function that rises with level.
