@@ -153,11 +153,11 @@ void add_overviews(const std::filesystem::path& path, GDALDataType type, const R
 std::vector<std::pair<std::string, std::string>> with_user_options(
     std::vector<std::pair<std::string, std::string>> defaults,
     const std::vector<std::pair<std::string, std::string>>& user) {
-  for (const auto& [key, value] : user) {
+  for (const auto& option : user) {
     const auto same = std::find_if(defaults.begin(), defaults.end(),
-                                   [&](const auto& d) { return EQUAL(d.first.c_str(), key.c_str()); });
-    if (same != defaults.end()) same->second = value;
-    else defaults.emplace_back(key, value);
+                                   [&](const auto& d) { return EQUAL(d.first.c_str(), option.first.c_str()); });
+    if (same != defaults.end()) same->second = option.second;
+    else defaults.push_back(option);
   }
   return defaults;
 }
