@@ -603,13 +603,11 @@ StudyOutcome run_study(const SiteConfig& c, const StudyOptions& o) {
     m.force = false;
     m.command_line = o.command;
     m.datum = fit.datum;
+    std::string scenario_names;
+    for (const auto& s : c.scenarios) scenario_names += (scenario_names.empty() ? "" : ", ") + display_name(s);
     m.input_metadata = {{"TIDEWRIGHT_SITE_FILE", c.file.filename().string()},
                         {"TIDEWRIGHT_RECORD", relative_to_site(c.record.path.string(), c)},
-                        {"TIDEWRIGHT_PROJECTION", "the study's own ensembles (scenarios " + [&] {
-                           std::string names;
-                           for (const auto& s : c.scenarios) names += (names.empty() ? "" : ", ") + display_name(s);
-                           return names;
-                         }() + ")"}};
+                        {"TIDEWRIGHT_PROJECTION", "the study's own ensembles (scenarios " + scenario_names + ")"}};
     for (const auto& s : report::safety_cautions()) m.cautions.emplace_back(s);
     const auto ms = terrain::make_flood_maps(m);
     defence_burn = ms.defences;

@@ -273,12 +273,7 @@ void write_polygons(const FloodThresholdMap& map, const std::vector<LevelSummary
     throw InputError(shown_path(path), "writing the polygons failed (" + gdal::last_error() + ")",
                      "free disk space or choose another folder");
   }
-  CPLErrorReset();
-  ds.reset();
-  if (CPLGetLastErrorType() >= CE_Failure) {
-    throw InputError(shown_path(path), "closing the polygon file failed (" + gdal::last_error() + ")",
-                     "free disk space or choose another folder");
-  }
+  gdal::close_checked(ds, shown_path(path), "closing the polygon file");
 }
 
 std::string summary_csv(const MapSummary& s) {

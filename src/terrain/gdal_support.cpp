@@ -66,6 +66,15 @@ GDALDatasetUniquePtr open_raster(const std::string& path, const std::string& rol
   return ds;
 }
 
+void close_checked(GDALDatasetUniquePtr& ds, const std::string& shown, const std::string& what) {
+  CPLErrorReset();
+  if (ds) ds->FlushCache(true);
+  ds.reset();
+  if (CPLGetLastErrorType() >= CE_Failure) {
+    throw InputError(shown, what + " failed (" + last_error() + ")", "free disk space or choose another folder");
+  }
+}
+
 GDALDatasetUniquePtr open_vector(const std::string& path, const std::string& role) {
   require_local_file(path, role);
   auto ds = open_quietly(path, GDAL_OF_VECTOR);

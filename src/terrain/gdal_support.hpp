@@ -19,6 +19,9 @@ void register_drivers();
 [[nodiscard]] std::string number_text(double value);  // GDALAllRegister once, thread-safe
 // The last GDAL error message (trimmed), or "no reason given".
 [[nodiscard]] std::string last_error();
+// Flushes and closes `ds`; GDAL 3.6 reports write failures of the flush and close through the
+// error state only, so that is checked: InputError(shown, "<what> failed (<reason>)", hint).
+void close_checked(GDALDatasetUniquePtr& ds, const std::string& shown, const std::string& what);
 
 // Throws InputError(path, "GDAL cannot open it as a raster/vector: <reason>", hint).
 [[nodiscard]] GDALDatasetUniquePtr open_raster(const std::string& path, const std::string& role);

@@ -121,7 +121,12 @@ void add_overviews(const std::filesystem::path& path, GDALDataType type, const R
   const int size = std::max(ds->GetRasterXSize(), ds->GetRasterYSize());
   for (int f = 2; size / f >= 256 || (factors.empty() && size > 256); f *= 2) factors.push_back(f);
   if (!factors.empty()) {
-    CPLSetThreadLocalConfigOption("COMPRESS_OVERVIEW", compression_name(format.compression));
+    // Compressed as the file itself, including a user's COMPRESS creation option.
+    std::string compress = compression_name(format.compression);
+    for (const auto& option : format.creation_options) {
+      if (EQUAL(option.first.c_str(), "COMPRESS")) compress = option.second;
+    }
+    CPLSetThreadLocalConfigOption("COMPRESS_OVERVIEW", compress.c_str());
     CPLSetThreadLocalConfigOption("PREDICTOR_OVERVIEW", type == GDT_Float32 ? "3" : "2");
     CPLSetThreadLocalConfigOption("GDAL_NUM_THREADS", thread_option(format).c_str());
     // GDAL's block cache (5 % of RAM by default) would hold every band's tiles while the
@@ -140,12 +145,7 @@ void add_overviews(const std::filesystem::path& path, GDALDataType type, const R
                        "free disk space or choose another folder");
     }
   }
-  CPLErrorReset();
-  ds.reset();
-  if (CPLGetLastErrorType() >= CE_Failure) {
-    throw InputError(shown_path(path), "writing failed (" + gdal::last_error() + ")",
-                     "free disk space or choose another folder");
-  }
+  gdal::close_checked(ds, shown_path(path), "writing the overviews");
 }
 
 // The user's options over `defaults`: a key given replaces the default's value (keys compared
@@ -298,14 +298,7 @@ void GeoTiffWriter::finish() {
                                          static_cast<double>(impl_->grid.shape.cells()))
                               .c_str());
   }
-  CPLErrorReset();
-  // GDAL 3.6 reports write failures of the flush and close through the error state only.
-  impl_->ds->FlushCache(true);
-  impl_->ds.reset();
-  if (CPLGetLastErrorType() >= CE_Failure) {
-    throw InputError(shown_path(impl_->path), "writing failed (" + gdal::last_error() + ")",
-                     "free disk space or choose another folder");
-  }
+  gdal::close_checked(impl_->ds, shown_path(impl_->path), "writing");
   if (impl_->format.overviews) add_overviews(impl_->tiff_path, impl_->type, impl_->format);
   if (!impl_->format.cloud_optimized) return;
   GDALDatasetUniquePtr tiled(GDALDataset::Open(impl_->tiff_path.c_str(), GDAL_OF_RASTER));
