@@ -10,6 +10,7 @@
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/report/text_table.hpp"
+#include "tidewright/study/planning_answers.hpp"
 
 namespace tidewright::cli {
 namespace {
@@ -134,44 +135,33 @@ void configure(CLI::App& app, CommonOptions& common) {
     o << tail.render();
     if (!a->design_life.empty()) {
       const auto [first, last] = parse_year_span(a->design_life, "--design-life");
-      const auto span = study::year_span(in, first, last);
-      nlohmann::ordered_json life;
-      life["first_year"] = first;
-      life["last_year"] = last;
-      nlohmann::ordered_json dl = nlohmann::ordered_json::array();
+      const auto life = study::design_life_answers(in, first, last, a->periods, a->heights, a->target_risk);
       o << "\nDesign life " << first << "-" << last << ":\n";
       report::TextTable d({"return period (yr)", "today's level (m)", "design-life allowance (m)"});
-      for (double period : a->periods) {
-        const auto al = planning::design_life_allowance(in.fit.model, span, period);
-        d.add_row({report::fixed(period, 0), report::fixed(al.present_level_m, 3), report::fixed(al.allowance_m, 3)});
+      for (const auto& al : life.allowances) {
+        d.add_row({report::fixed(al.return_period_yr, 0), report::fixed(al.present_level_m, 3),
+                   report::fixed(al.allowance_m, 3)});
         CsvCells cells;
         cells[kind] = "design_life_allowance";
         cells[first_year] = std::to_string(first);
         cells[last_year] = std::to_string(last);
         put_allowance(cells, al);
         csv << csv_line(cells);
-        dl.push_back({{"return_period", period}, {"present_level_m", al.present_level_m},
-                      {"allowance_m", al.allowance_m}, {"monte_carlo", study::monte_carlo_json(al.monte_carlo, "m")},
-                      {"members_beyond_model_range_fraction", al.beyond_range_fraction}, {"method", al.method}});
       }
       o << d.render();
-      life["allowances"] = dl;
-      nlohmann::ordered_json risks = nlohmann::ordered_json::array();
-      if (!a->heights.empty()) {
+      if (!life.risks.empty()) {
         report::TextTable rt({"height (m)", "P(at least one exceedance)", "Monte Carlo error",
                               study::expected_count_heading(in.fit.model), "member-years beyond the model (%)"});
-        for (double h : a->heights) {
-          const auto r = planning::design_life_risk(in.fit.model, span, h);
-          rt.add_row({report::fixed(h, 3), report::probability_text(r.probability, r.rounds_to_one),
+        for (const auto& r : life.risks) {
+          rt.add_row({report::fixed(r.level_m, 3), report::probability_text(r.probability, r.rounds_to_one),
                       r.monte_carlo.sampled ? report::fixed(r.monte_carlo.standard_error, 4) : "-",
                       report::fixed(study::expected_count(in.fit.model, r), 3),
                       report::fixed(100.0 * r.beyond_range_fraction, 2)});
-          risks.push_back(study::design_life_risk_json(r));
           CsvCells cells;
           cells[kind] = "design_life_risk";
           cells[first_year] = std::to_string(first);
           cells[last_year] = std::to_string(last);
-          cells[height] = number(h);
+          cells[height] = number(r.level_m);
           cells[probability] = number(r.probability, 8);
           if (r.monte_carlo.sampled) cells[probability_se] = number(r.monte_carlo.standard_error, 8);
           cells[expected_years] = number(r.expected_years_with_exceedance, 6);
@@ -180,21 +170,19 @@ void configure(CLI::App& app, CommonOptions& common) {
         }
         o << rt.render();
       }
-      life["risks"] = risks;
-      if (a->target_risk) {
-        const auto h = planning::level_for_design_life_risk(in.fit.model, span, *a->target_risk);
-        o << "Height with a " << report::fixed(*a->target_risk * 100, 1) << "% chance of at least one exceedance in "
+      if (life.target) {
+        const auto& h = *life.target;
+        o << "Height with a " << report::fixed(h.target_probability * 100, 1) << "% chance of at least one exceedance in "
           << first << "-" << last << ": " << report::fixed(h.level_m, 3) << " m\n";
-        life["target"] = {{"probability", *a->target_risk}, {"height_m", h.level_m}};
         CsvCells cells;
         cells[kind] = "design_life_target";
         cells[first_year] = std::to_string(first);
         cells[last_year] = std::to_string(last);
         cells[height] = number(h.level_m);
-        cells[probability] = number(*a->target_risk, 8);
+        cells[probability] = number(h.target_probability, 8);
         csv << csv_line(cells);
       }
-      j["design_life"] = life;
+      j["design_life"] = study::design_life_json(life);
     }
     for (const auto& n : in.notes) o << "note: " << n << "\n";
     for (const auto& w : j["warnings"]) std::cerr << "tidewright: warning: " << w.get<std::string>() << "\n";

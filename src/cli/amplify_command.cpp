@@ -11,6 +11,7 @@
 #include "tidewright/common/error.hpp"
 #include "tidewright/report/cautions.hpp"
 #include "tidewright/report/text_table.hpp"
+#include "tidewright/study/planning_answers.hpp"
 
 namespace tidewright::cli {
 namespace {
@@ -72,35 +73,29 @@ void configure(CLI::App& app, CommonOptions& common) {
     const std::string datum = in.fit.datum.empty() ? "datum" : in.fit.datum;
     report::TextTable t({"year", "level (m, " + datum + ")", "today's return period (yr)",
                          "future return period (yr)", "amplification factor", "members beyond the model (%)"});
+    std::vector<double> levels;
+    for (const auto& target : targets) levels.push_back(target.level_m);
     bool any_beyond = false;
-    for (int y : a->years) {
-      const auto cond = planning::conditions_in_year(in.rise, y, in.storminess);
-      for (const auto& target : targets) {
-        const auto am = planning::amplification(in.fit.model, cond, target.level_m);
-        const auto text = study::amplification_text(am);
-        any_beyond = any_beyond || am.beyond_annual_maxima_range;
-        t.add_row({std::to_string(y), report::fixed(target.level_m, 3),
-                   study::return_period_text(am.present_return_period_yr), text.future_return_period, text.factor,
-                   report::fixed(100.0 * am.beyond_range_fraction, 1)});
-        rows.push_back(study::amplification_json(am));
-        csv << y << ',' << report::fixed(target.level_m, 4);
-        for (const auto& cell : study::amplification_csv_cells(am)) csv << ',' << cell;
-        csv << '\n';
-      }
+    for (const auto& row : study::amplification_rows(in, a->years, levels)) {
+      const auto& am = row.result;
+      const auto text = study::amplification_text(am);
+      any_beyond = any_beyond || am.beyond_annual_maxima_range;
+      t.add_row({std::to_string(row.year), report::fixed(row.level_m, 3),
+                 study::return_period_text(am.present_return_period_yr), text.future_return_period, text.factor,
+                 report::fixed(100.0 * am.beyond_range_fraction, 1)});
+      rows.push_back(study::amplification_json(am));
+      csv << row.year << ',' << report::fixed(row.level_m, 4);
+      for (const auto& cell : study::amplification_csv_cells(am)) csv << ',' << cell;
+      csv << '\n';
     }
     j["rows"] = rows;
-    const auto span = study::year_span(in, in.rise.years.front(), in.rise.years.back());
     nlohmann::ordered_json em = nlohmann::ordered_json::array();
     report::TextTable e({"level (m)", "today's return period (yr)", "first year exceeded " +
                                                                           report::fixed(a->frequency, 2) + " times a year"});
-    for (const auto& target : targets) {
-      const auto r = planning::emergence_year(in.fit.model, span, target.level_m, a->frequency);
-      e.add_row({report::fixed(target.level_m, 3),
-                 study::return_period_text(1.0 / in.fit.model.annual_exceedance_rate(target.level_m)),
-                 r.year ? std::to_string(*r.year) : "not by " + std::to_string(in.rise.years.back())});
-      em.push_back({{"level", target.level_m},
-                    {"frequency_per_yr", a->frequency},
-                    {"year", r.year ? nlohmann::ordered_json(*r.year) : nlohmann::ordered_json(nullptr)}});
+    for (const auto& r : study::emergence_rows(in, levels, a->frequency)) {
+      e.add_row({report::fixed(r.emergence.level_m, 3), study::return_period_text(r.present_return_period_yr),
+                 r.emergence.year ? std::to_string(*r.emergence.year) : "not by " + std::to_string(in.rise.years.back())});
+      em.push_back(study::emergence_json(r));
     }
     j["emergence"] = em;
     j["cautions"] = report::safety_cautions();
@@ -120,19 +115,15 @@ void configure(CLI::App& app, CommonOptions& common) {
     write_data_output(outputs[0], j, common.force);
     write_data_output(outputs[1], csv.str(), common.force);
     if (!a->plot.empty()) {
-      std::vector<double> years;
+      std::vector<int> years;
       for (int y = in.rise.years.front(); y <= in.rise.years.back(); ++y) years.push_back(y);
       std::vector<report::NamedSeries> series;
       for (const auto& target : targets) {
-        report::NamedSeries s{target.period_yr > 0 ? "today's " + report::fixed(target.period_yr, 0) + "-year level"
-                                                   : report::fixed(target.level_m, 2) + " m",
-                              {}};
-        for (const auto& cond : span) {
-          s.values.push_back(planning::amplification(in.fit.model, cond, target.level_m).quotable_factor());
-        }
-        series.push_back(std::move(s));
+        series.push_back({target.period_yr > 0 ? "today's " + report::fixed(target.period_yr, 0) + "-year level"
+                                               : report::fixed(target.level_m, 2) + " m",
+                          study::factor_path(in, years, target.level_m)});
       }
-      write_plot(report::amplification_plot(years, series), a->plot, common.force);
+      write_plot(report::amplification_plot(std::vector<double>(years.begin(), years.end()), series), a->plot, common.force);
     }
     if (!common.quiet) summary_stream(outputs) << o.str();
   });

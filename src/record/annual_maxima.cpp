@@ -22,7 +22,7 @@ AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
 
   AnnualMaxima am;
   am.datum = options.datum;
-  am.source = table.source();
+  am.source = options.recorded_as.empty() ? table.source() : options.recorded_as;
   std::map<int, std::size_t> line_of_year;
   std::vector<std::size_t> value_lines;
   int previous_year = 0;

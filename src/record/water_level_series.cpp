@@ -18,7 +18,7 @@ WaterLevelSeries from_table(const CsvTable& table, const ReadOptions& options) {
   const std::size_t level_col = table.column(options.level_column);
   WaterLevelSeries s;
   s.datum = options.datum;
-  s.source = table.source();
+  s.source = options.recorded_as.empty() ? table.source() : options.recorded_as;
   const auto& rows = table.rows();
   s.time_utc_s.reserve(rows.size());
   s.level_m.reserve(rows.size());

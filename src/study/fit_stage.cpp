@@ -101,7 +101,7 @@ FitStageResult run_fit_stage(const FitRequest& request) {
     }
   }
   FitStageResult out;
-  out.source = request.input.string();
+  out.source = request.read.recorded_as.empty() ? request.input.string() : request.read.recorded_as;
   const RecordKind kind = detect_kind(request);
   refuse_ignored_options(request, kind);
   const std::string& model = request.model;
@@ -217,6 +217,18 @@ std::vector<std::string> numerical_warnings(const extremes::FitResult& fit) {
     }
   }
   return w;
+}
+
+FitSummary fit_summary(const FitStageResult& result) {
+  FitSummary s;
+  s.model = result.present_day;
+  s.datum = result.datum;
+  s.reference_epoch = result.reference_epoch;
+  s.parameter_names = result.fit.parameter_names;
+  for (Eigen::Index i = 0; i < result.fit.estimate.size(); ++i) s.estimates.push_back(result.fit.estimate(i));
+  s.covariance = Eigen::MatrixXd(result.fit.covariance);
+  s.source = result.source;
+  return s;
 }
 
 report::ReturnLevelPlotInput return_level_plot_input(const FitStageResult& fit, std::string* band_method) {

@@ -210,4 +210,13 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
   return c;
 }
 
+std::string path_as_written(const std::filesystem::path& path, const SiteConfig& c) {
+  const std::string dir = c.file.parent_path().string();
+  std::string text = path.string();
+  if (!dir.empty() && text.size() > dir.size() + 1 && text.compare(0, dir.size() + 1, dir + "/") == 0) {
+    text.erase(0, dir.size() + 1);
+  }
+  return text;
+}
+
 }  // namespace tidewright::study

@@ -27,6 +27,9 @@ struct ReadOptions {
   // Read levels far from the record's median, or a column named in another unit, on purpose
   // (level_plausibility.hpp).
   bool accept_implausible_levels = false;
+  // The record's name in summaries and outputs once it is read (the record's `source`), e.g. the
+  // path as a site file writes it; empty: the path read. Reading errors name the path read.
+  std::string recorded_as{};
 };
 
 // Metres per unit: m 1, cm 0.01, mm 0.001, ft 0.3048 (the international foot, exact by the

@@ -18,6 +18,7 @@
 #include "tidewright/record/peaks_over_threshold.hpp"
 #include "tidewright/record/read_options.hpp"
 #include "tidewright/report/plots.hpp"
+#include "tidewright/study/stage_files.hpp"
 
 namespace tidewright::study {
 
@@ -66,6 +67,9 @@ struct FitStageResult {
 };
 
 [[nodiscard]] FitStageResult run_fit_stage(const FitRequest& request);
+
+// What later stages take from a fit: the same as read_fit_json gives from the fit's JSON.
+[[nodiscard]] FitSummary fit_summary(const FitStageResult& result);
 
 // Above this GEV/GPD shape a still-water fit gets a caution: fitted shapes of tide-gauge
 // extremes mostly lie between about -0.2 and 0.2, so a heavier tail more often means mixed

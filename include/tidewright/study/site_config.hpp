@@ -118,4 +118,8 @@ struct SiteConfig {
 // Reads and checks the site file; throws InputError naming key path and line.
 [[nodiscard]] SiteConfig load_site_file(const std::filesystem::path& file);
 
+// A path as the site file writes it: relative to the site file's folder when it lies inside it,
+// so that the report, results.json and the maps read the same wherever the study was run from.
+[[nodiscard]] std::string path_as_written(const std::filesystem::path& path, const SiteConfig& c);
+
 }  // namespace tidewright::study
