@@ -3,6 +3,7 @@
 #include <sstream>
 
 #include "command.hpp"
+#include "tidewright/study/option_names.hpp"
 #include "plot_output.hpp"
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/common/error.hpp"
@@ -109,7 +110,7 @@ void configure(CLI::App& app, CommonOptions& common) {
   auto args = std::make_shared<FitArgs>();
   app.add_option("INPUT", args->input, "Tide-gauge CSV: a water-level series or annual maxima")->required();
   app.add_option("--kind", args->kind, "What the file holds: detect (by its columns), series, annual-maxima")
-      ->check(CLI::IsMember({"detect", "series", "annual-maxima"}))
+      ->check(CLI::IsMember(study::names_of(study::record_kind_names())))
       ->default_str("detect");
   app.add_option("--model", args->model, "gumbel, gev, gpd (peaks over threshold), rlargest, or auto (deviance test)")
       ->check(CLI::IsMember({"gumbel", "gev", "gpd", "rlargest", "auto"}))
@@ -134,7 +135,7 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_flag("--accept-implausible-levels", args->accept_implausible,
                "Read levels over 20 m from the record's median, or a column named in another unit, on purpose");
   app.add_option("--detrend", args->detrend, "Series: remove the mean-sea-level trend: none, annual-mean, linear")
-      ->check(CLI::IsMember({"none", "annual-mean", "linear"}))
+      ->check(CLI::IsMember(study::names_of(study::detrend_names())))
       ->default_str("none");
   app.add_option("--epoch", args->epoch, "Series: decimal year the detrended levels refer to (default: record middle)");
   auto* thr = app.add_option("--threshold", args->threshold_m, "GPD: threshold level in metres");
@@ -161,9 +162,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     if (!a.plot.empty()) check_plot_path(a.plot, common.force);
     study::FitRequest req;
     req.input = a.input;
-    req.kind = a.kind == "series" ? study::RecordKind::series
-               : a.kind == "annual-maxima" ? study::RecordKind::annual_maxima
-                                           : study::RecordKind::detect;
+    req.kind = study::value_named(study::record_kind_names(), a.kind, "--kind");
     req.model = a.model;
     req.read.time_column = a.time_column;
     req.read.year_column = a.year_column;
@@ -176,7 +175,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     req.read.accept_implausible_levels = a.accept_implausible;
     req.maxima.min_completeness = a.min_completeness;
     req.maxima.year_start_month = a.year_start_month;
-    req.maxima.detrend = record::parse_detrend_method(a.detrend, "--detrend");
+    req.maxima.detrend = study::value_named(study::detrend_names(), a.detrend, "--detrend");
     req.maxima.epoch_yr = a.epoch;
     req.detrend_given = a.detrend != "none";
     req.peaks.threshold_m = a.threshold_m;

@@ -3,6 +3,7 @@
 #include <sstream>
 
 #include "command.hpp"
+#include "tidewright/study/option_names.hpp"
 #include "plot_output.hpp"
 #include "tidewright/climate/scenario.hpp"
 #include "tidewright/common/atomic_output.hpp"
@@ -78,7 +79,7 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--storyline", a->storyline,
                  "Ice sheets: assessed (the likely-range calibration) or high-end-ice (a low-likelihood, high-impact "
                  "variant for testing a design)")
-      ->check(CLI::IsMember({"assessed", "high-end-ice"}))
+      ->check(CLI::IsMember(study::names_of(study::storyline_names())))
       ->default_str("assessed");
   app.add_option("--samples", a->samples, "Monte Carlo members (at most 200,000)")->default_val(2000);
   app.add_flag("--accept-extreme", a->accept_extreme,
@@ -137,7 +138,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     r.last_year = a->last_year;
     r.members = a->samples;
     r.accept_extreme_inputs = a->accept_extreme;
-    r.storyline = a->storyline == "high-end-ice" ? climate::IceStoryline::high_end_ice : climate::IceStoryline::assessed;
+    r.storyline = study::value_named(study::storyline_names(), a->storyline, "--storyline");
     r.seed = a->seed;
     r.reference = climate::parse_year_span(a->reference, "--reference");
     for (const auto& f : a->fingerprints) {

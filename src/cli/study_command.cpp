@@ -44,6 +44,8 @@ study::StudyOutcome run(const study::SiteConfig& site, const std::string& out_di
   o.force = common.force;
   o.date = report_date();
   o.command = command;
+  // How the site file was read (an older spelling of a value): on standard error, like warnings.
+  for (const auto& n : site.notes) std::cerr << "tidewright: note: " << n << "\n";
   if (!common.quiet) o.progress = [](const std::string& stage) { std::cout << "tidewright: " << stage << " ..." << std::endl; };
   return study::run_study(site, o);
 }

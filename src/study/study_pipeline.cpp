@@ -42,7 +42,7 @@ FitRequest fit_request(const SiteConfig& c) {
   FitRequest r;
   r.input = c.record.path;
   r.read.recorded_as = path_as_written(c.record.path, c);
-  r.kind = c.record.kind == "series" ? RecordKind::series : RecordKind::annual_maxima;
+  r.kind = c.record.kind;
   r.read.time_column = c.record.time_column;
   r.read.year_column = c.record.year_column;
   r.read.level_column = c.record.level_column;
@@ -53,8 +53,7 @@ FitRequest fit_request(const SiteConfig& c) {
   r.read.accept_implausible_levels = c.record.accept_implausible_levels;
   r.model = c.extremes.model;
   r.return_periods_yr = c.extremes.return_periods_yr;
-  const auto method = record::parse_detrend_method(c.record.detrend == "annual_mean" ? "annual-mean" : c.record.detrend,
-                                                   field_location(c.file.string(), "record.detrend"));
+  const auto method = c.record.detrend;
   r.maxima.min_completeness = c.record.min_completeness;
   r.maxima.year_start_month = c.record.year_start_month;
   r.maxima.detrend = method;
@@ -78,17 +77,10 @@ FitRequest fit_request(const SiteConfig& c) {
 ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings& s, std::size_t index) {
   ProjectionRequest r;
   r.label = s.name;
-  if (s.source == "pathway") {
-    r.source = ScenarioSource::pathway;
-    r.pathway = s.pathway;
-  } else {
-    r.source = s.source == "forcing_csv" ? ScenarioSource::forcing_csv
-               : s.source == "co2_csv"   ? ScenarioSource::co2_csv
-               : s.source == "temperature_csv" ? ScenarioSource::temperature_csv
-                                               : ScenarioSource::table;
-    r.path = *s.path;
-  }
-  r.storyline = s.storyline == "high-end-ice" ? climate::IceStoryline::high_end_ice : climate::IceStoryline::assessed;
+  r.source = s.source;
+  if (s.source == ScenarioSource::pathway) r.pathway = s.pathway;
+  else r.path = *s.path;
+  r.storyline = s.storyline;
   r.storyline_input = field_location(c.file.string(), "scenario.storyline");
   r.first_year = c.projection.start_year;
   r.last_year = c.projection.end_year;
@@ -107,9 +99,11 @@ ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings
     r.local.land_motion.uplift_mm_per_yr = c.local.land_motion_mm_per_yr;
     r.local.land_motion.uplift_sd_mm_per_yr = c.local.land_motion_sd_mm_per_yr;
     if (c.local.ocean_dynamic_offset_m != 0.0 || c.local.ocean_dynamic_sd_m != 0.0) {
-      // A linear ramp from zero at the start to the stated offset in 2100 (docs/site-file.md).
+      // A linear ramp from zero at the start to the stated offset in local.ocean_dynamic_year
+      // (docs/site-file.md), held beyond it.
+      const double ramp_yr = std::max(1, c.local.ocean_dynamic_year - r.first_year);
       for (int y = r.first_year; y <= r.last_year; ++y) {
-        const double w = std::max(0.0, static_cast<double>(y - r.first_year) / (2100.0 - r.first_year));
+        const double w = std::max(0.0, static_cast<double>(y - r.first_year) / ramp_yr);
         r.local.ocean_dynamic.years.push_back(y);
         r.local.ocean_dynamic.mean_m.push_back(c.local.ocean_dynamic_offset_m * w);
         r.local.ocean_dynamic.sd_m.push_back(c.local.ocean_dynamic_sd_m * w);
@@ -148,9 +142,12 @@ void set_answer_grid(StudyResults& r, const SiteConfig& c) {
   const auto& model = r.fit.present_day;
   for (double t : c.planning.return_periods_yr) r.follow_levels_m.push_back(planning::present_return_level(model, t));
   for (double z : c.planning.levels_of_interest_m) r.follow_levels_m.push_back(z);
-  for (int y = c.projection.start_year; y <= std::min(c.projection.end_year, 2150); y += 5) r.plot_years.push_back(y);
-  const double z0 = planning::present_return_level(model, 2.0);
-  for (int k = 0; k <= 40; ++k) r.risk_curve_heights_m.push_back(z0 + 0.05 * k);
+  const auto& f = c.figures;
+  for (int y = c.projection.start_year; y <= std::min(c.projection.end_year, f.plot_last_year); y += f.plot_step_yr) {
+    r.plot_years.push_back(y);
+  }
+  const double z0 = planning::present_return_level(model, f.risk_curve_from_return_period_yr);
+  for (int k = 0; k < f.risk_curve_points; ++k) r.risk_curve_heights_m.push_back(z0 + f.risk_curve_step_m * k);
   r.design_return_period_yr = c.planning.return_periods_yr.back();
 }
 
@@ -183,7 +180,7 @@ terrain::MapRequest map_request(const StudyResults& r, const SiteConfig& c, cons
     d.crest_in_water_datum = true;
     m.defences = d;
   }
-  m.connectivity = c.map.connectivity == 4 ? terrain::Connectivity::four : terrain::Connectivity::eight;
+  m.connectivity = c.map.connectivity;
   const auto& present = r.fit.present_day;
   add_present_levels(m, present, c.map.return_periods_yr);
   for (const auto& run : r.runs) {
@@ -194,10 +191,12 @@ terrain::MapRequest map_request(const StudyResults& r, const SiteConfig& c, cons
   for (const auto& run : r.runs) {
     add_future_aep(m, present, run.inputs.rise, run.inputs.storminess, c.map.years, display_name(run.settings));
   }
-  const auto& last_run = r.runs.back();
-  m.first_year = first_year_layer(present, last_run.inputs.rise, last_run.inputs.storminess,
-                                  projection_years(last_run.inputs.rise, kFirstYearStepYr), c.map.aep_passing,
-                                  display_name(last_run.settings));
+  const auto& chosen = *std::find_if(r.runs.begin(), r.runs.end(), [&](const ScenarioRun& run) {
+    return run.settings.name == first_year_scenario(c).name;
+  });
+  m.first_year = first_year_layer(present, chosen.inputs.rise, chosen.inputs.storminess,
+                                  projection_years(chosen.inputs.rise, kFirstYearStepYr), c.map.aep_passing,
+                                  display_name(chosen.settings));
   m.polygons = true;
   m.out_dir = dir / "maps";
   m.force = false;

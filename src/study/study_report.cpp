@@ -9,6 +9,7 @@
 #include "tidewright/report/cautions.hpp"
 #include "tidewright/report/plots.hpp"
 #include "tidewright/report/text_table.hpp"
+#include "tidewright/study/option_names.hpp"
 #include "tidewright/study/study_results.hpp"
 #include "tidewright/version.hpp"
 
@@ -94,7 +95,7 @@ std::vector<report::InputItem> report_inputs(const SiteConfig& c, const std::opt
   const std::string& datum = c.site.datum;
   std::vector<report::InputItem> in{
       {"Site file", c.file.filename().string()},
-      {"Record", name(c.record.path) + " (" + c.record.kind + ", units " + c.record.units + ")"},
+      {"Record", name(c.record.path) + " (" + name_of(record_kind_names(), c.record.kind) + ", units " + c.record.units + ")"},
       {"Water-level datum", datum},
       {"Extreme model", c.extremes.model},
       {"Projection", std::to_string(c.projection.members) + " members, " + std::to_string(c.projection.start_year) +
@@ -102,7 +103,8 @@ std::vector<report::InputItem> report_inputs(const SiteConfig& c, const std::opt
       {"Seed", std::to_string(c.seed)}};
   for (const auto& s : c.scenarios) {
     in.push_back({"Scenario " + display_name(s),
-                  s.source == "pathway" ? "built-in pathway " + s.pathway : s.source + " " + name(*s.path)});
+                  s.source == ScenarioSource::pathway ? "built-in pathway " + s.pathway
+                                                      : name_of(scenario_source_names(), s.source) + " " + name(*s.path)});
   }
   in.push_back({"Design years", joined(p.design_years, 0)});
   in.push_back({"Return periods", joined(p.return_periods_yr, 0) + " years (" + extremes::return_period_definition + ")"});
@@ -124,7 +126,8 @@ std::vector<report::InputItem> report_inputs(const SiteConfig& c, const std::opt
                                             fixed(c.local.land_motion_sd_mm_per_yr, 2) + " mm/yr (positive = uplift)"});
   if (c.local.ocean_dynamic_offset_m != 0.0 || c.local.ocean_dynamic_sd_m != 0.0) {
     in.push_back({"Ocean dynamic offset", fixed(c.local.ocean_dynamic_offset_m, 3) + " ± " +
-                                              fixed(c.local.ocean_dynamic_sd_m, 3) + " m in 2100, a ramp from the start"});
+                                              fixed(c.local.ocean_dynamic_sd_m, 3) + " m in " +
+                                              std::to_string(c.local.ocean_dynamic_year) + ", a ramp from the start"});
   }
   if (!c.map.enabled) return in;
   in.push_back({"DEM", name(c.map.dem) + "; " + (c.map.same_datum ? std::string("same vertical datum as the water levels")
@@ -141,7 +144,7 @@ std::vector<report::InputItem> report_inputs(const SiteConfig& c, const std::opt
   }
   in.push_back({"Mapped", "today's and the future " + joined(c.map.return_periods_yr, 0) + "-year levels in " +
                               joined(c.map.years, 0) + "; first year with an AEP of " + fixed(100.0 * c.map.aep_passing, 2) +
-                              " % (scenario " + display_name(c.scenarios.back()) + ")"});
+                              " % (scenario " + display_name(first_year_scenario(c)) + ")"});
   return in;
 }
 
@@ -512,7 +515,7 @@ std::vector<report::MethodReference> methods() {
 }  // namespace
 
 std::string display_name(const ScenarioSettings& s) {
-  return s.storyline == "high-end-ice" ? s.name + " [high-end ice storyline]" : s.name;
+  return s.storyline == climate::IceStoryline::high_end_ice ? s.name + " [high-end ice storyline]" : s.name;
 }
 
 Json study_results_json(const StudyResults& r, const SiteConfig& c) {
@@ -526,7 +529,7 @@ Json study_results_json(const StudyResults& r, const SiteConfig& c) {
   for (const auto& run : r.runs) {
     Json sj;
     sj["name"] = run.settings.name;
-    sj["storyline"] = run.settings.storyline;
+    sj["storyline"] = name_of(storyline_names(), run.settings.storyline);
     sj["projection"] = projection_json(run.projection);
     const Json allowances = allowance_json(run.inputs, run.allowances, "projection.members");
     sj["allowances"] = allowances["allowances"];

@@ -284,7 +284,7 @@ TEST(StageCommands, StudyErrorsNameTheSiteFileKeys) {
   const auto site = [&](const std::string& record_extra, const std::string& tail) {
     tidewright::write_text_file(dir / "site.toml",
                                 "[site]\nname = \"Test\"\nwater_level_datum = \"test datum\"\n\n[record]\npath = \"" +
-                                    portpirie + "\"\nkind = \"annual_maxima\"\nlevel_column = \"level_m\"\n" +
+                                    portpirie + "\"\nkind = \"annual-maxima\"\nlevel_column = \"level_m\"\n" +
                                     record_extra + "\n[[scenario]]\nname = \"mid\"\npathway = \"midway\"\n" + tail,
                                 true);
     return "study " + shell_quote((dir / "site.toml").string()) + " --quiet --out " + shell_quote((dir / "out").string());

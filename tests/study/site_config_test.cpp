@@ -1,6 +1,8 @@
 // The site file: keys read strictly, errors with key path and line, paths relative to the file.
 #include "tidewright/study/site_config.hpp"
 
+#include "tidewright/study/option_names.hpp"
+
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
@@ -44,7 +46,12 @@ TEST(SiteConfig, MinimalFileGetsDocumentedDefaults) {
   const auto c = load_site_file(dir / "site.toml");
   EXPECT_EQ(c.site.name, "Test harbour");
   EXPECT_EQ(c.record.path, (dir / "data/gauge.csv").lexically_normal());
-  EXPECT_EQ(c.record.kind, "series");
+  EXPECT_EQ(c.record.kind, tidewright::study::RecordKind::series);
+  EXPECT_EQ(c.record.detrend, tidewright::record::DetrendMethod::linear);
+  EXPECT_EQ(c.figures.plot_last_year, 2150);
+  EXPECT_EQ(c.local.ocean_dynamic_year, 2100);
+  EXPECT_TRUE(c.map.first_year_scenario.empty());
+  EXPECT_TRUE(c.notes.empty());
   EXPECT_DOUBLE_EQ(c.record.min_completeness, 0.75);
   EXPECT_DOUBLE_EQ(c.extremes.declustering_hours, 72.0);
   ASSERT_EQ(c.scenarios.size(), 1U);
@@ -119,4 +126,61 @@ TEST(SiteConfig, MapWindowAndSeaLayerAreRead) {
   ASSERT_TRUE(c.map.window);
   EXPECT_EQ(*c.map.window, (std::array<double, 4>{0.0, 10.0, 5.0, 2.0}));
   EXPECT_THAT(error_for(dir, std::string(minimal) + map + "window = [0.0, 1.0]\n"), HasSubstr("map.window"));
+}
+
+TEST(SiteConfig, ValuesTakeTheCommandLinesSpellingAndTheOlderOneWithANote) {
+  TempDir dir;
+  const std::string with_record = std::string(minimal) + "";
+  // The command line's spelling (fit --kind annual-maxima, --detrend annual-mean).
+  std::string text = with_record;
+  text.replace(text.find("path = \"data/gauge.csv\"\n"), 24,
+               "path = \"data/gauge.csv\"\nkind = \"annual-maxima\"\ndetrend = \"annual-mean\"\n");
+  tidewright::write_text_file(dir / "site.toml", text, true);
+  auto c = load_site_file(dir / "site.toml");
+  EXPECT_EQ(c.record.kind, tidewright::study::RecordKind::annual_maxima);
+  EXPECT_EQ(c.record.detrend, tidewright::record::DetrendMethod::annual_mean);
+  EXPECT_TRUE(c.notes.empty());
+  // The older site-file spelling: the same values, and a note naming key and line.
+  text = with_record;
+  text.replace(text.find("path = \"data/gauge.csv\"\n"), 24,
+               "path = \"data/gauge.csv\"\nkind = \"annual_maxima\"\ndetrend = \"annual_mean\"\n");
+  tidewright::write_text_file(dir / "site.toml", text, true);
+  c = load_site_file(dir / "site.toml");
+  EXPECT_EQ(c.record.kind, tidewright::study::RecordKind::annual_maxima);
+  EXPECT_EQ(c.record.detrend, tidewright::record::DetrendMethod::annual_mean);
+  ASSERT_EQ(c.notes.size(), 2U);
+  EXPECT_THAT(c.notes[0], HasSubstr("site.toml:8: record.kind: 'annual_maxima' is the older spelling of 'annual-maxima'"));
+  EXPECT_THAT(c.notes[1], HasSubstr("record.detrend: 'annual_mean' is the older spelling"));
+  // Neither spelling: refused, listing the names.
+  EXPECT_THAT(error_for(dir, std::string(minimal) + "\n[[scenario]]\nname = \"x\"\npathway = \"p\"\nstoryline = \"worst\"\n"),
+              HasSubstr("scenario[1].storyline: is 'worst'; use one of: assessed, high-end-ice"));
+}
+
+TEST(SiteConfig, FigureGridOceanRampAndFirstYearScenarioAreKeys) {
+  TempDir dir;
+  const std::string text = std::string(minimal) +
+                           "\n[[scenario]]\nname = \"high\"\npathway = \"unchecked\"\n"
+                           "\n[local]\nocean_dynamic_offset_m = 0.1\nocean_dynamic_year = 2080\n"
+                           "\n[map]\ndem = \"dem.tif\"\nsame_datum = true\nfirst_year_scenario = \"medium\"\n"
+                           "\n[figures]\nplot_last_year = 2120\nplot_step_yr = 10\nrisk_curve_from_return_period_yr = 5\n"
+                           "risk_curve_step_m = 0.1\nrisk_curve_points = 11\n";
+  tidewright::write_text_file(dir / "site.toml", text, false);
+  const auto c = load_site_file(dir / "site.toml");
+  EXPECT_EQ(c.local.ocean_dynamic_year, 2080);
+  EXPECT_EQ(tidewright::study::first_year_scenario(c).name, "medium");
+  EXPECT_EQ(c.figures.plot_last_year, 2120);
+  EXPECT_EQ(c.figures.plot_step_yr, 10);
+  EXPECT_DOUBLE_EQ(c.figures.risk_curve_from_return_period_yr, 5.0);
+  EXPECT_DOUBLE_EQ(c.figures.risk_curve_step_m, 0.1);
+  EXPECT_EQ(c.figures.risk_curve_points, 11);
+  // Without the key, the first-year raster follows the last scenario listed.
+  std::string without = text;
+  without.erase(without.find("first_year_scenario = \"medium\"\n"), 31);
+  tidewright::write_text_file(dir / "site.toml", without, true);
+  EXPECT_EQ(tidewright::study::first_year_scenario(load_site_file(dir / "site.toml")).name, "high");
+  std::string wrong = text;
+  wrong.replace(wrong.find("\"medium\"\n\n[figures]"), 8, "\"middle\"");
+  EXPECT_THAT(error_for(dir, wrong), HasSubstr("map.first_year_scenario: names no [[scenario]] ('middle'); name one of: medium, high"));
+  EXPECT_THAT(error_for(dir, std::string(minimal) + "\n[figures]\nrisk_curve_points = 1\n"),
+              HasSubstr("figures.risk_curve_points: must be 2 to 1000"));
 }

@@ -10,6 +10,12 @@
 #include <string>
 #include <vector>
 
+#include "tidewright/climate/projection.hpp"
+#include "tidewright/record/mean_sea_level_trend.hpp"
+#include "tidewright/study/fit_stage.hpp"
+#include "tidewright/study/projection_stage.hpp"
+#include "tidewright/terrain/flood_threshold.hpp"
+
 namespace tidewright::study {
 
 struct SiteInfo {
@@ -22,7 +28,7 @@ struct SiteInfo {
 
 struct RecordSettings {
   std::filesystem::path path;
-  std::string kind = "series";  // "series" (timestamped levels) or "annual_maxima"
+  RecordKind kind = RecordKind::series;  // series (timestamped levels) or annual maxima
   std::string time_column = "time";
   std::string year_column = "year";
   std::string level_column = "level";
@@ -32,7 +38,7 @@ struct RecordSettings {
   bool accept_implausible_levels = false;    // record::ReadOptions, level_plausibility.hpp
   double min_completeness = 0.75;  // Slangen et al. (2017): years > 75 % complete
   int year_start_month = 1;
-  std::string detrend = "linear";  // "none", "annual_mean", "linear"
+  record::DetrendMethod detrend = record::DetrendMethod::linear;
   bool detrend_given = false;      // the key was in the file (a default is not refused for maxima)
   std::optional<double> reference_epoch;  // decimal year; default: the record's middle
 };
@@ -49,10 +55,10 @@ struct ExtremesSettings {
 
 struct ScenarioSettings {
   std::string name;
-  std::string source = "pathway";  // "pathway", "forcing_csv", "co2_csv", "temperature_csv", "table"
+  ScenarioSource source = ScenarioSource::pathway;
   std::string pathway;             // built-in illustrative pathway name
   std::optional<std::filesystem::path> path;  // CSV for the other sources
-  std::string storyline = "assessed";         // "assessed" or "high-end-ice" (climate::IceStoryline)
+  climate::IceStoryline storyline = climate::IceStoryline::assessed;
 };
 
 struct ProjectionSettings {
@@ -69,6 +75,9 @@ struct LocalSettings {
   double land_motion_sd_mm_per_yr = 0.0;
   double ocean_dynamic_offset_m = 0.0;
   double ocean_dynamic_sd_m = 0.0;
+  // The year the stated ocean dynamic offset is reached, by a linear ramp from zero at the
+  // projection's start (2100: the year assessments state regional offsets for; common practice).
+  int ocean_dynamic_year = 2100;
 };
 
 struct PlanningSettings {
@@ -96,10 +105,23 @@ struct MapSettings {
   std::optional<double> sea_spread_to_m;          // the sea covers all it reaches at or below
   std::optional<std::filesystem::path> defences;  // lines or polygons with crest level
   std::string crest_attribute = "crest_m";
-  int connectivity = 8;
+  terrain::Connectivity connectivity = terrain::Connectivity::eight;
   std::vector<double> return_periods_yr{100};
   std::vector<int> years{2100};
   double aep_passing = 0.01;  // the AEP whose first year is mapped
+  // The scenario whose ensemble sets the first-year raster; empty: the last one listed.
+  std::string first_year_scenario;
+};
+
+// What the report's figures span (the [figures] table).
+struct FigureSettings {
+  int plot_last_year = 2150;  // the yearly figures stop here (or at the projection's end, if sooner)
+  int plot_step_yr = 5;       // one point every 5 years: finer than the scenarios' spread
+  // The design-life risk curve: heights from today's T-year level for this T, in steps, so the
+  // curve starts at a level met about every other year and climbs 2 m (41 points of 0.05 m).
+  double risk_curve_from_return_period_yr = 2.0;
+  double risk_curve_step_m = 0.05;
+  int risk_curve_points = 41;
 };
 
 struct SiteConfig {
@@ -112,8 +134,14 @@ struct SiteConfig {
   LocalSettings local;
   PlanningSettings planning;
   MapSettings map;
+  FigureSettings figures;
   unsigned long long seed = 20261201ULL;
+  // Notes on how the file was read (an older spelling of a value), for the caller to print.
+  std::vector<std::string> notes;
 };
+
+// The scenario map.first_year_scenario names (the last one when it names none).
+[[nodiscard]] const ScenarioSettings& first_year_scenario(const SiteConfig& c);
 
 // Reads and checks the site file; throws InputError naming key path and line.
 [[nodiscard]] SiteConfig load_site_file(const std::filesystem::path& file);
