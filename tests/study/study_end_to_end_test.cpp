@@ -247,3 +247,73 @@ TEST_F(SmallDemo, ReportListsWhatShapedItsNumbers) {
   EXPECT_THAT(maps["sea"].get<std::string>(), HasSubstr("sea polygons quillhaven_sea.geojson layer"));
   EXPECT_THAT(maps["defences"].get<std::string>(), ::testing::StartsWith("quillhaven_defences.geojson ("));
 }
+
+// One function per planning answer: the study's design-life, emergence and amplification JSON
+// are the `allowance` and `amplify` commands' own, on the same fit and members.
+TEST_F(SmallDemo, DesignLifeEmergenceAndAmplificationAreTheCommandsOwn) {
+  const auto in = demo() / "inputs";
+  const auto results = nlohmann::json::parse(read_all(demo() / "study" / "results.json"));
+  TempDir work;
+  const auto fit_json = (work / "fit.json").string();
+  auto r = run_cli("fit " + shell_quote((in / "quillhaven_tide_gauge.csv").string()) +
+                   " --level-column level_m --sentinel -99 --min-completeness 0.8 --year-start-month 7"
+                   " --detrend linear --epoch 2024 --datum " +
+                   shell_quote(results["site"]["datum"].get<std::string>()) + " --json " + shell_quote(fit_json) +
+                   " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto members = (work / "m.csv").string();
+  const auto seed = results["seed"].get<unsigned long long>() + 1;
+  r = run_cli("project --pathway midway --label midway --samples 300 --first-year 2020 --last-year 2150"
+              " --land-motion -0.5 --land-motion-sd 0.3 --seed " + std::to_string(seed) + " --members " +
+              shell_quote(members) + " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto& study = results["scenarios"][1];
+  ASSERT_EQ(study["name"], "midway");
+  // demo_coast/site.toml: design life 2030-2080, target 0.1, heights 5.2, 6.0, 6.3.
+  const auto a_json = (work / "a.json").string();
+  r = run_cli("allowance --fit " + shell_quote(fit_json) + " --members " + shell_quote(members) +
+              " --design-life 2030-2080 --heights 5.2,6.0,6.3 --target-risk 0.1 --json " + shell_quote(a_json) +
+              " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto a = nlohmann::json::parse(read_all(a_json));
+  EXPECT_EQ(a["design_life"]["risks"], study["design_life"]["risks"]);
+  EXPECT_EQ(a["design_life"]["target"], study["design_life"]["target"]);
+  EXPECT_EQ(study["design_life"].count("allowances"), 0U) << "the study asks for no design-life allowance";
+  // The study follows today's 10-, 100- and 200-year levels and the heights of interest.
+  const auto m_json = (work / "m.json").string();
+  r = run_cli("amplify --fit " + shell_quote(fit_json) + " --members " + shell_quote(members) +
+              " --years 2050,2100 --return-periods 10,100,200 --levels 5.2,6.0,6.3 --json " + shell_quote(m_json) +
+              " --quiet");
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const auto m = nlohmann::json::parse(read_all(m_json));
+  EXPECT_EQ(m["emergence"], study["emergence"]);
+  EXPECT_EQ(m["rows"], study["amplification"]);
+  ASSERT_EQ(study["emergence"].size(), 6U);
+}
+
+// The study's choices are site-file keys: the first-year raster's scenario and the figures' span.
+TEST_F(SmallDemo, FirstYearScenarioAndFigureSpanAreSiteFileKeys) {
+  TempDir work;
+  fs::copy(demo() / "inputs", work / "inputs");
+  const auto site = work / "inputs" / "site.toml";
+  std::string text = read_all(site);
+  const auto at = text.find("[map]\n");
+  ASSERT_NE(at, std::string::npos);
+  text.insert(at + 6, "first_year_scenario = \"restrained\"\n");
+  text += "\n[figures]\nplot_last_year = 2100\nplot_step_yr = 10\n";
+  tidewright::write_text_file(site, text, true);
+  const auto r = run_cli("study " + shell_quote(site.string()) + " --quiet --out " + shell_quote((work / "s").string()));
+  ASSERT_EQ(r.exit_code, 0) << r.err;
+  const std::string html = read_all(work / "s" / "report.html");
+  EXPECT_THAT(html, HasSubstr("% (scenario restrained)"));
+  EXPECT_THAT(read_all(demo() / "study" / "report.html"), HasSubstr("% (scenario unchecked)"));
+  // The design-height figure's years: 2020 to 2100 every 10 years, 9 points per scenario line,
+  // where the defaults give 2020 to 2150 every 5 years, 27 points.
+  const auto points = [](const std::string& svg) {
+    const auto from = svg.find("class=\"series\" d=\"");
+    const auto to = svg.find('"', from + 19);
+    return std::count(svg.begin() + static_cast<std::ptrdiff_t>(from), svg.begin() + static_cast<std::ptrdiff_t>(to), 'L') + 1;
+  };
+  EXPECT_EQ(points(read_all(work / "s" / "plots" / "design_heights.svg")), 9);
+  EXPECT_EQ(points(read_all(demo() / "study" / "plots" / "design_heights.svg")), 27);
+}
