@@ -5,8 +5,6 @@
 // rasters use the fit's present-day model and, for future years, the planning stage's
 // N_t(z) = E[N_0(z - Delta_t)] over the projection members (study/map_layers), or a stated
 // deterministic rise (--rise) where the user has one number per year.
-#include <cpl_error.h>
-#include <gdal.h>
 
 #include <CLI/CLI.hpp>
 #include <algorithm>
@@ -17,6 +15,7 @@
 #include <nlohmann/json.hpp>
 
 #include "command.hpp"
+#include "tidewright/terrain/gdal_messages.hpp"
 #include "planning_options.hpp"
 #include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
@@ -330,7 +329,7 @@ terrain::MapRequest build_request(const MapOptions& o, const CommonOptions& comm
   req.command_line = recipe;
   for (const auto& c : report::safety_cautions()) req.cautions.emplace_back(c);
   if (!common.quiet) {
-    req.progress = [](double f) { GDALTermProgress(f, nullptr, nullptr); };
+    req.progress = terrain::terminal_progress();
   }
   return req;
 }
@@ -522,12 +521,7 @@ void configure(CLI::App& app, CommonOptions& common) {
     const auto req = build_request(*o, common, recipe, notes);
     // GDAL's own messages would break the one-line error rule; the library reports its
     // failures through InputError with GDAL's last message in the text.
-    struct QuietGdal {
-      QuietGdal() { CPLPushErrorHandler(CPLQuietErrorHandler); }
-      ~QuietGdal() { CPLPopErrorHandler(); }
-      QuietGdal(const QuietGdal&) = delete;
-      QuietGdal& operator=(const QuietGdal&) = delete;
-    } quiet_gdal;
+    const terrain::QuietGdalMessages quiet_gdal;
     const auto summary = terrain::make_flood_maps(req);
     for (const auto& w : summary.warnings) std::cerr << "tidewright: warning: " << w << "\n";
     if (!common.quiet) {

@@ -137,6 +137,36 @@ TEST(ModuleOrder, PublicHeadersKeepGdalTomlAndCairoPrivate) {
   EXPECT_TRUE(problems.empty()) << all;
 }
 
+// Each outside library's headers appear only in the sources of the module that owns it: GDAL,
+// OGR and PROJ in terrain, toml++ in study, cairo in report. So no other module (the command
+// line and the study included) can call GDAL around terrain's checked wrappers.
+TEST(ModuleOrder, OutsideLibrariesStayInTheirOwnModule) {
+  const std::vector<std::pair<std::string, std::string>> owner_of_prefix = {
+      {"gdal", "terrain"}, {"ogr", "terrain"}, {"cpl_", "terrain"}, {"proj.h", "terrain"}, {"proj/", "terrain"},
+      {"toml++/", "study"}, {"toml.h", "study"}, {"cairo", "report"}};
+  const fs::path root = TIDEWRIGHT_SOURCE_DIR;
+  std::vector<std::string> problems;
+  std::size_t sources = 0;
+  for (const auto& entry : fs::recursive_directory_iterator(root / "src")) {
+    const auto ext = entry.path().extension();
+    if (ext != ".cpp" && ext != ".hpp") continue;
+    ++sources;
+    const std::string module = entry.path().parent_path().filename().string();
+    for (const auto& inc : includes_of(entry.path())) {
+      for (const auto& [prefix, owner] : owner_of_prefix) {
+        if (inc.target.compare(0, prefix.size(), prefix) == 0 && module != owner) {
+          problems.push_back(inc.file + ":" + std::to_string(inc.line) + ": " + module + " includes " + inc.text +
+                             ", which belongs to " + owner);
+        }
+      }
+    }
+  }
+  EXPECT_GT(sources, 60U) << "the scan found too few sources; is the path right?";
+  std::string all;
+  for (const auto& p : problems) all += p + "\n";
+  EXPECT_TRUE(problems.empty()) << all;
+}
+
 // The check itself can fail: an upward include in a scratch file is caught by the same rule.
 TEST(ModuleOrder, TheRuleCatchesAnUpwardInclude) {
   const fs::path dir = fs::temp_directory_path() / "tidewright_module_order_probe";
