@@ -72,8 +72,8 @@ void fill_intervals(FitStageResult& out, const FitRequest& request) {
 
 // Options that would change nothing are refused, so that nobody believes a trend was removed.
 void refuse_ignored_options(const FitRequest& r, RecordKind kind) {
-  const bool detrends = r.maxima.detrend != record::DetrendMethod::none;
-  const std::optional<double>& epoch = r.maxima.epoch_yr;
+  const bool detrends = r.series.detrend != record::DetrendMethod::none;
+  const std::optional<double>& epoch = r.series.epoch_yr;
   if (kind != RecordKind::series) {
     if (detrends && r.detrend_given) {
       throw InputError(r.detrend_input, "removes a mean-sea-level trend from a water-level series, but " +
@@ -93,6 +93,31 @@ void refuse_ignored_options(const FitRequest& r, RecordKind kind) {
 
 }  // namespace
 
+namespace {
+// The settings annual maxima and peaks share, into either's options.
+template <typename Options>
+Options year_options(const SeriesSettings& s) {
+  Options o;
+  o.min_completeness = s.min_completeness;
+  o.year_start_month = s.year_start_month;
+  o.detrend = s.detrend;
+  o.epoch_yr = s.epoch_yr;
+  return o;
+}
+}  // namespace
+
+record::AnnualMaximaOptions maxima_options(const SeriesSettings& s) {
+  return year_options<record::AnnualMaximaOptions>(s);
+}
+
+record::PeaksOptions peaks_options(const SeriesSettings& s) {
+  auto o = year_options<record::PeaksOptions>(s);
+  o.threshold_m = s.threshold_m;
+  o.threshold_quantile = s.threshold_quantile;
+  o.separation_h = s.separation_h;
+  return o;
+}
+
 FitStageResult run_fit_stage(const FitRequest& request) {
   for (double t : request.return_periods_yr) {
     if (!(t > 1.0)) {
@@ -111,7 +136,7 @@ FitStageResult run_fit_stage(const FitRequest& request) {
                        "give a timestamped series, or choose --model gev");
     }
     const auto series = record::read_water_level_series(request.input, request.read);
-    const auto peaks = record::peaks_over_threshold(series, request.peaks);
+    const auto peaks = record::peaks_over_threshold(series, peaks_options(request.series));
     record::require_minimum_maxima(peaks.size(), "gpd", record::minimum_exceedances_gpd, out.source);
     out.fit = extremes::fit_gpd(peaks.level_m, peaks.threshold_m, peaks.effective_years);
     out.present_day = out.fit.model();
@@ -132,7 +157,7 @@ FitStageResult run_fit_stage(const FitRequest& request) {
                          "give such a file (with --r-columns), or choose --model gev");
       }
       const auto series = record::read_water_level_series(request.input, request.read);
-      maxima = record::annual_maxima_from_series(series, request.maxima);
+      maxima = record::annual_maxima_from_series(series, maxima_options(request.series));
       out.data_summary = series.summary() + "\n" + maxima.summary();
     } else {
       maxima = record::read_annual_maxima(request.input, request.read);

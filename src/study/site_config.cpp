@@ -64,54 +64,62 @@ void read_site(TomlReader& root, SiteConfig& c) {
 void read_record(TomlReader& root, SiteConfig& c) {
   auto rec = root.table("record");
   if (!rec) throw InputError(location(c.file.string()) + ": record", "required table is missing", "add a [record] table");
-  c.record.path = rec->path("path");
-  c.record.kind = named_value(*rec, "kind", record_kind_names(), RecordKind::series, c.notes);
-  if (c.record.kind == RecordKind::detect) {
+  auto& f = c.fit;
+  auto& read = f.read;
+  f.input = rec->path("path");
+  f.kind = named_value(*rec, "kind", record_kind_names(), RecordKind::series, c.notes);
+  if (f.kind == RecordKind::detect) {
     throw InputError(rec->where("kind"), "is 'detect', which a site file does not take",
                      "write kind = \"series\" or \"annual-maxima\"");
   }
-  c.record.time_column = rec->optional_string("time_column").value_or(c.record.time_column);
-  c.record.year_column = rec->optional_string("year_column").value_or(c.record.year_column);
-  c.record.level_column = rec->optional_string("level_column").value_or(c.record.level_column);
-  c.record.units = rec->choice("units", {"m", "cm", "mm", "ft"}, "m");
-  c.record.missing_markers = rec->strings("missing_markers");
-  c.record.sentinels = rec->numbers("sentinels");
-  c.record.accept_implausible_levels = rec->optional_boolean("accept_implausible_levels").value_or(false);
+  read.time_column = rec->optional_string("time_column").value_or(read.time_column);
+  read.year_column = rec->optional_string("year_column").value_or(read.year_column);
+  read.level_column = rec->optional_string("level_column").value_or(read.level_column);
+  read.unit = rec->choice("units", {"m", "cm", "mm", "ft"}, "m");
+  for (const auto& m : rec->strings("missing_markers")) read.missing.markers.push_back(m);
+  read.missing.sentinels = rec->numbers("sentinels");
+  read.accept_implausible_levels = rec->optional_boolean("accept_implausible_levels").value_or(false);
   if (auto v = rec->optional_number("min_completeness")) {
     require(*v > 0.0 && *v <= 1.0, *rec, "min_completeness", "must lie in (0, 1]", "give a fraction such as 0.75");
-    c.record.min_completeness = *v;
+    f.series.min_completeness = *v;
   }
   if (auto v = rec->optional_integer("year_start_month")) {
     require(*v >= 1 && *v <= 12, *rec, "year_start_month", "must be 1 to 12", "give a month number");
-    c.record.year_start_month = static_cast<int>(*v);
+    f.series.year_start_month = static_cast<int>(*v);
   }
-  c.record.detrend_given = rec->has("detrend");
-  c.record.detrend = named_value(*rec, "detrend", detrend_names(), record::DetrendMethod::linear, c.notes);
-  c.record.reference_epoch = rec->optional_number("reference_epoch");
+  f.detrend_given = rec->has("detrend");
+  f.series.detrend = named_value(*rec, "detrend", detrend_names(), record::DetrendMethod::linear, c.notes);
+  f.series.epoch_yr = rec->optional_number("reference_epoch");
+  f.detrend_input = field_location(c.file.string(), "record.detrend");
+  f.epoch_input = field_location(c.file.string(), "record.reference_epoch");
   rec->finish();
 }
 
 void read_extremes(TomlReader& root, SiteConfig& c) {
+  auto& f = c.fit;
+  f.r_largest = 3;
+  f.series.threshold_quantile = record::default_threshold_quantile;
   auto ext = root.table("extremes");
   if (!ext) return;
-  c.extremes.model = ext->choice("model", {"gumbel", "gev", "gpd", "rlargest", "auto"}, "gev");
-  c.extremes.return_periods_yr = positive_periods(*ext, "return_periods", c.extremes.return_periods_yr);
+  f.model = ext->choice("model", {"gumbel", "gev", "gpd", "rlargest", "auto"}, "gev");
+  f.return_periods_yr = positive_periods(*ext, "return_periods", f.return_periods_yr);
   if (auto q = ext->optional_number("threshold_quantile")) {
     require(*q > 0.5 && *q < 1.0, *ext, "threshold_quantile", "must lie in (0.5, 1)", "give e.g. 0.997");
-    c.extremes.threshold_quantile = *q;
+    f.series.threshold_quantile = *q;
   }
-  c.extremes.threshold_m = ext->optional_number("threshold_m");
+  f.series.threshold_m = ext->optional_number("threshold_m");
+  if (f.series.threshold_m) f.series.threshold_quantile.reset();  // the level overrides the quantile
   if (auto h = ext->optional_number("declustering_hours")) {
     require(*h > 0.0, *ext, "declustering_hours", "must be positive", "give hours, e.g. 72");
-    c.extremes.declustering_hours = *h;
+    f.series.separation_h = *h;
   }
   if (auto r = ext->optional_integer("r_largest")) {
     require(*r >= 1 && *r <= 20, *ext, "r_largest", "must be 1 to 20", "give e.g. 3");
-    c.extremes.r_largest = static_cast<int>(*r);
+    f.r_largest = static_cast<std::size_t>(*r);
   }
   if (auto b = ext->optional_integer("bootstrap_samples")) {
     require(*b >= 0 && *b <= 100000, *ext, "bootstrap_samples", "must be 0 to 100000", "give e.g. 1000");
-    c.extremes.bootstrap_samples = static_cast<int>(*b);
+    f.bootstrap_samples = static_cast<std::size_t>(*b);
   }
   ext->finish();
 }
@@ -285,6 +293,8 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
   }
   read_site(root, c);
   read_record(root, c);
+  c.fit.read.datum = c.site.datum;
+  c.fit.seed = c.seed;
   read_extremes(root, c);
   read_scenarios(root, c);
   read_projection(root, c);

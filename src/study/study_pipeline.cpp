@@ -38,39 +38,10 @@ class StageClock {
   std::chrono::steady_clock::time_point start_;
 };
 
+// The site file's fit, recording the record as the site file names it.
 FitRequest fit_request(const SiteConfig& c) {
-  FitRequest r;
-  r.input = c.record.path;
-  r.read.recorded_as = path_as_written(c.record.path, c);
-  r.kind = c.record.kind;
-  r.read.time_column = c.record.time_column;
-  r.read.year_column = c.record.year_column;
-  r.read.level_column = c.record.level_column;
-  r.read.unit = c.record.units;
-  r.read.datum = c.site.datum;
-  for (const auto& m : c.record.missing_markers) r.read.missing.markers.push_back(m);
-  r.read.missing.sentinels = c.record.sentinels;
-  r.read.accept_implausible_levels = c.record.accept_implausible_levels;
-  r.model = c.extremes.model;
-  r.return_periods_yr = c.extremes.return_periods_yr;
-  const auto method = c.record.detrend;
-  r.maxima.min_completeness = c.record.min_completeness;
-  r.maxima.year_start_month = c.record.year_start_month;
-  r.maxima.detrend = method;
-  r.maxima.epoch_yr = c.record.reference_epoch;
-  r.peaks.min_completeness = c.record.min_completeness;
-  r.peaks.year_start_month = c.record.year_start_month;
-  r.peaks.detrend = method;
-  r.peaks.epoch_yr = c.record.reference_epoch;
-  r.detrend_input = field_location(c.file.string(), "record.detrend");
-  r.epoch_input = field_location(c.file.string(), "record.reference_epoch");
-  r.detrend_given = c.record.detrend_given;
-  r.peaks.separation_h = c.extremes.declustering_hours;
-  if (c.extremes.threshold_m) r.peaks.threshold_m = c.extremes.threshold_m;
-  else r.peaks.threshold_quantile = c.extremes.threshold_quantile;
-  r.r_largest = static_cast<std::size_t>(c.extremes.r_largest);
-  r.bootstrap_samples = static_cast<std::size_t>(c.extremes.bootstrap_samples);
-  r.seed = c.seed;
+  FitRequest r = c.fit;
+  r.read.recorded_as = path_as_written(c.fit.input, c);
   return r;
 }
 
@@ -205,7 +176,7 @@ terrain::MapRequest map_request(const StudyResults& r, const SiteConfig& c, cons
   std::string scenario_names;
   for (const auto& s : c.scenarios) scenario_names += (scenario_names.empty() ? "" : ", ") + display_name(s);
   m.input_metadata = {{"TIDEWRIGHT_SITE_FILE", c.file.filename().string()},
-                      {"TIDEWRIGHT_RECORD", path_as_written(c.record.path, c)},
+                      {"TIDEWRIGHT_RECORD", path_as_written(c.fit.input, c)},
                       {"TIDEWRIGHT_PROJECTION", "the study's own ensembles (scenarios " + scenario_names + ")"}};
   for (const auto& s : report::safety_cautions()) m.cautions.emplace_back(s);
   return m;

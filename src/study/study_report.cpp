@@ -95,9 +95,9 @@ std::vector<report::InputItem> report_inputs(const SiteConfig& c, const std::opt
   const std::string& datum = c.site.datum;
   std::vector<report::InputItem> in{
       {"Site file", c.file.filename().string()},
-      {"Record", name(c.record.path) + " (" + name_of(record_kind_names(), c.record.kind) + ", units " + c.record.units + ")"},
+      {"Record", name(c.fit.input) + " (" + name_of(record_kind_names(), c.fit.kind) + ", units " + c.fit.read.unit + ")"},
       {"Water-level datum", datum},
-      {"Extreme model", c.extremes.model},
+      {"Extreme model", c.fit.model},
       {"Projection", std::to_string(c.projection.members) + " members, " + std::to_string(c.projection.start_year) +
                          "-" + std::to_string(c.projection.end_year) + ", reference " + c.projection.reference},
       {"Seed", std::to_string(c.seed)}};
@@ -563,7 +563,7 @@ report::ReportDocument study_report(const StudyResults& r, const SiteConfig& c, 
   doc.date = date;
   doc.tool_version = std::string("tidewright ") + version_string;
   doc.summary = "Still-water design heights, return-period shifts, amplification factors and design-life risk for " +
-                c.site.name + ", from the tide-gauge record " + c.record.path.filename().string() + " and " +
+                c.site.name + ", from the tide-gauge record " + c.fit.input.filename().string() + " and " +
                 std::to_string(r.runs.size()) + " sea-level scenario(s). Levels are in metres above " + c.site.datum + "." +
                 (c.site.invented ? " All data in this report are invented for a demonstration." : "");
   doc.sections.push_back(answers_section(r, c));

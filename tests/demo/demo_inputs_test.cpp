@@ -98,7 +98,7 @@ TEST(DemoInputs, SiteFileLoadsAndNamesTheWrittenFiles) {
   ASSERT_TRUE(site.map.dem_offset_m.has_value());
   EXPECT_EQ(*site.map.dem_offset_m, 0.0);
   EXPECT_EQ(site.seed, 3U);
-  for (const auto& p : {site.record.path, site.map.dem, *site.map.sea, *site.map.defences}) {
+  for (const auto& p : {site.fit.input, site.map.dem, *site.map.sea, *site.map.defences}) {
     EXPECT_TRUE(std::filesystem::exists(p)) << p;
   }
 }

@@ -45,15 +45,15 @@ TEST(SiteConfig, MinimalFileGetsDocumentedDefaults) {
   tidewright::write_text_file(dir / "site.toml", minimal, false);
   const auto c = load_site_file(dir / "site.toml");
   EXPECT_EQ(c.site.name, "Test harbour");
-  EXPECT_EQ(c.record.path, (dir / "data/gauge.csv").lexically_normal());
-  EXPECT_EQ(c.record.kind, tidewright::study::RecordKind::series);
-  EXPECT_EQ(c.record.detrend, tidewright::record::DetrendMethod::linear);
+  EXPECT_EQ(c.fit.input, (dir / "data/gauge.csv").lexically_normal());
+  EXPECT_EQ(c.fit.kind, tidewright::study::RecordKind::series);
+  EXPECT_EQ(c.fit.series.detrend, tidewright::record::DetrendMethod::linear);
   EXPECT_EQ(c.figures.plot_last_year, 2150);
   EXPECT_EQ(c.local.ocean_dynamic_year, 2100);
   EXPECT_TRUE(c.map.first_year_scenario.empty());
   EXPECT_TRUE(c.notes.empty());
-  EXPECT_DOUBLE_EQ(c.record.min_completeness, 0.75);
-  EXPECT_DOUBLE_EQ(c.extremes.declustering_hours, 72.0);
+  EXPECT_DOUBLE_EQ(c.fit.series.min_completeness, 0.75);
+  EXPECT_DOUBLE_EQ(c.fit.series.separation_h, 72.0);
   ASSERT_EQ(c.scenarios.size(), 1U);
   EXPECT_EQ(c.scenarios[0].pathway, "middle-road");
   EXPECT_FALSE(c.map.enabled);
@@ -137,8 +137,8 @@ TEST(SiteConfig, ValuesTakeTheCommandLinesSpellingAndTheOlderOneWithANote) {
                "path = \"data/gauge.csv\"\nkind = \"annual-maxima\"\ndetrend = \"annual-mean\"\n");
   tidewright::write_text_file(dir / "site.toml", text, true);
   auto c = load_site_file(dir / "site.toml");
-  EXPECT_EQ(c.record.kind, tidewright::study::RecordKind::annual_maxima);
-  EXPECT_EQ(c.record.detrend, tidewright::record::DetrendMethod::annual_mean);
+  EXPECT_EQ(c.fit.kind, tidewright::study::RecordKind::annual_maxima);
+  EXPECT_EQ(c.fit.series.detrend, tidewright::record::DetrendMethod::annual_mean);
   EXPECT_TRUE(c.notes.empty());
   // The older site-file spelling: the same values, and a note naming key and line.
   text = with_record;
@@ -146,8 +146,8 @@ TEST(SiteConfig, ValuesTakeTheCommandLinesSpellingAndTheOlderOneWithANote) {
                "path = \"data/gauge.csv\"\nkind = \"annual_maxima\"\ndetrend = \"annual_mean\"\n");
   tidewright::write_text_file(dir / "site.toml", text, true);
   c = load_site_file(dir / "site.toml");
-  EXPECT_EQ(c.record.kind, tidewright::study::RecordKind::annual_maxima);
-  EXPECT_EQ(c.record.detrend, tidewright::record::DetrendMethod::annual_mean);
+  EXPECT_EQ(c.fit.kind, tidewright::study::RecordKind::annual_maxima);
+  EXPECT_EQ(c.fit.series.detrend, tidewright::record::DetrendMethod::annual_mean);
   ASSERT_EQ(c.notes.size(), 2U);
   EXPECT_THAT(c.notes[0], HasSubstr("site.toml:8: record.kind: 'annual_maxima' is the older spelling of 'annual-maxima'"));
   EXPECT_THAT(c.notes[1], HasSubstr("record.detrend: 'annual_mean' is the older spelling"));

@@ -28,14 +28,32 @@ enum class RecordKind { detect, series, annual_maxima };
 // for a file of annual maxima, an epoch without detrending (and, through the record module, an
 // epoch more than record::max_epoch_outside_record_yr years outside the record).
 
+// How a water-level series becomes the values a model is fitted to, stated once for annual
+// maxima and for peaks over a threshold (maxima_options and peaks_options hand it on).
+struct SeriesSettings {
+  double min_completeness = record::default_min_completeness;  // Slangen et al. (2017)
+  int year_start_month = 1;                                    // 1: calendar years
+  record::DetrendMethod detrend = record::DetrendMethod::none;
+  std::optional<double> epoch_yr;  // empty: the record's mid-point
+  // Peaks over a threshold: a level or a quantile of the levels (neither:
+  // record::default_threshold_quantile), and the declustering separation.
+  std::optional<double> threshold_m;
+  std::optional<double> threshold_quantile;
+  double separation_h = record::default_separation_h;  // common practice
+};
+
+[[nodiscard]] record::AnnualMaximaOptions maxima_options(const SeriesSettings& s);
+[[nodiscard]] record::PeaksOptions peaks_options(const SeriesSettings& s);
+
+// One request, filled by `fit` from its options and by the site file's [record] and
+// [extremes] tables (site_config.hpp), so the command and the study fit alike.
 struct FitRequest {
   std::filesystem::path input;
   RecordKind kind = RecordKind::detect;  // detect: a series if the file has the time column
   record::ReadOptions read;
   std::string model = "gev";  // gumbel, gev, gpd, rlargest, auto
   std::vector<double> return_periods_yr = extremes::standard_return_periods_yr;
-  record::AnnualMaximaOptions maxima;  // series only
-  record::PeaksOptions peaks;          // gpd only
+  SeriesSettings series;  // series only
   std::size_t r_largest = 0;           // rlargest: values per year kept (0: all given)
   std::size_t bootstrap_samples = 0;   // 0: no bootstrap
   unsigned long long seed = 20261201ULL;

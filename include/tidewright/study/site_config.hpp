@@ -26,33 +26,6 @@ struct SiteInfo {
   bool invented = false;       // true for the demo: every output says so
 };
 
-struct RecordSettings {
-  std::filesystem::path path;
-  RecordKind kind = RecordKind::series;  // series (timestamped levels) or annual maxima
-  std::string time_column = "time";
-  std::string year_column = "year";
-  std::string level_column = "level";
-  std::string units = "m";
-  std::vector<std::string> missing_markers;  // in addition to the reader's defaults
-  std::vector<double> sentinels;             // e.g. -99
-  bool accept_implausible_levels = false;    // record::ReadOptions, level_plausibility.hpp
-  double min_completeness = 0.75;  // Slangen et al. (2017): years > 75 % complete
-  int year_start_month = 1;
-  record::DetrendMethod detrend = record::DetrendMethod::linear;
-  bool detrend_given = false;      // the key was in the file (a default is not refused for maxima)
-  std::optional<double> reference_epoch;  // decimal year; default: the record's middle
-};
-
-struct ExtremesSettings {
-  std::string model = "gev";  // "gumbel", "gev", "gpd", "rlargest", "auto"
-  std::vector<double> return_periods_yr{2, 5, 10, 20, 50, 100, 200, 500, 1000};
-  double threshold_quantile = 0.997;  // GPD: IPCC AR6 WG1 Fig. 9.32 uses the 99.7th percentile
-  std::optional<double> threshold_m;  // GPD: overrides the quantile
-  double declustering_hours = 72.0;   // common practice
-  int r_largest = 3;                  // r-largest GEV: values per year used
-  int bootstrap_samples = 0;          // 0: no bootstrap
-};
-
 struct ScenarioSettings {
   std::string name;
   ScenarioSource source = ScenarioSource::pathway;
@@ -127,8 +100,12 @@ struct FigureSettings {
 struct SiteConfig {
   std::filesystem::path file;  // the site file itself
   SiteInfo site;
-  RecordSettings record;
-  ExtremesSettings extremes;
+  // [record] and [extremes]: the fit as `tidewright fit` requests it (fit_stage.hpp), with the
+  // site file's own defaults where they differ from the command's: a series (not detected),
+  // detrend "linear" (maxima relative to mean sea level at the epoch), r_largest 3 (a project
+  // choice: fewer values a year are likelier independent), the GPD threshold at the 99.7th
+  // percentile (IPCC AR6 WG1 Fig. 9.32). Errors name the site-file keys.
+  FitRequest fit;
   std::vector<ScenarioSettings> scenarios;
   ProjectionSettings projection;
   LocalSettings local;
