@@ -50,14 +50,7 @@ AnnualMaxima annual_maxima_from_series(const WaterLevelSeries& series,
       detail::prepare_record(series, options.year_start_month, options.min_completeness,
                              options.detrend, options.epoch_yr);
   AnnualMaxima am;
-  am.datum = series.datum;
-  am.source = series.source;
-  am.cleaning = series.cleaning;
-  am.year_start_month = options.year_start_month;
-  am.min_completeness = options.min_completeness;
-  am.sampling_interval_s = p.years.median_interval_s;
-  am.detrend = p.detrend;
-  am.dropped = p.dropped;
+  static_cast<RecordProvenance&>(am) = detail::provenance(series, options.year_start_month, options.min_completeness, p);
   const auto& h = p.levels.level_m;
   for (const auto& y : p.years.years) {
     if (!y.kept) continue;

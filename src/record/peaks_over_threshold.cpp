@@ -89,15 +89,9 @@ PeaksOverThreshold peaks_over_threshold(const WaterLevelSeries& series,
   const auto& t = series.time_utc_s;
 
   PeaksOverThreshold pot;
-  pot.datum = series.datum;
-  pot.source = series.source;
-  pot.cleaning = series.cleaning;
+  static_cast<RecordProvenance&>(pot) =
+      detail::provenance(series, options.year_start_month, options.min_completeness, prepared);
   pot.separation_h = options.separation_h;
-  pot.year_start_month = options.year_start_month;
-  pot.min_completeness = options.min_completeness;
-  pot.sampling_interval_s = years.median_interval_s;
-  pot.detrend = prepared.detrend;
-  pot.dropped = prepared.dropped;
 
   std::vector<bool> use(h.size(), false);
   std::vector<double> kept_levels;

@@ -95,4 +95,18 @@ PreparedRecord prepare_record(const WaterLevelSeries& series, int start_month,
   return p;
 }
 
+RecordProvenance provenance(const WaterLevelSeries& series, int start_month, double min_completeness,
+                            const PreparedRecord& prepared) {
+  RecordProvenance p;
+  p.datum = series.datum;
+  p.source = series.source;
+  p.cleaning = series.cleaning;
+  p.dropped = prepared.dropped;
+  p.detrend = prepared.detrend;
+  p.year_start_month = start_month;
+  p.min_completeness = min_completeness;
+  p.sampling_interval_s = prepared.years.median_interval_s;
+  return p;
+}
+
 }  // namespace tidewright::record::detail

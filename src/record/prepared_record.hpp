@@ -35,4 +35,8 @@ struct PreparedRecord {
                                             double min_completeness, DetrendMethod method,
                                             std::optional<double> epoch_yr);
 
+// The provenance of values taken from a prepared series.
+[[nodiscard]] RecordProvenance provenance(const WaterLevelSeries& series, int start_month, double min_completeness,
+                                          const PreparedRecord& prepared);
+
 }  // namespace tidewright::record::detail

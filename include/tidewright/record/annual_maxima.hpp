@@ -22,21 +22,26 @@ struct DroppedYear {
   std::string reason;
 };
 
-struct AnnualMaxima {
+// Where the values a model is fitted to came from and what was done to them: the same for
+// annual maxima and for peaks over a threshold.
+struct RecordProvenance {
+  std::string datum;
+  std::string source;
+  CleaningCounts cleaning;
+  std::vector<DroppedYear> dropped;
+  std::optional<Detrend> detrend;    // set when a mean-sea-level trend was removed
+  int year_start_month = 1;          // 1: calendar years
+  double min_completeness = 0.0;     // the rule applied (series only; 0 for a file of maxima)
+  double sampling_interval_s = 0.0;  // median spacing the completeness used (series only)
+};
+
+struct AnnualMaxima : RecordProvenance {
   std::vector<int> years;       // increasing; a year is labelled by the year it starts in
   std::vector<double> level_m;  // the largest level of each year
   // Empty unless r-largest columns were read; otherwise, per year, its largest values in
   // decreasing order with r_largest_m[i][0] == level_m[i] (some years hold fewer).
   std::vector<std::vector<double>> r_largest_m;
   std::vector<std::int64_t> time_utc_s;  // time of each maximum; empty when read from a file
-  std::string datum;
-  std::string source;
-  std::vector<DroppedYear> dropped;
-  std::optional<Detrend> detrend;    // set when a mean-sea-level trend was removed
-  int year_start_month = 1;          // 1: calendar years
-  double min_completeness = 0.0;     // the rule applied (series only)
-  double sampling_interval_s = 0.0;  // median spacing the completeness used (series only)
-  CleaningCounts cleaning;
 
   [[nodiscard]] std::size_t size() const noexcept { return level_m.size(); }
   // A few lines: counts of rows, missing values, dropped years and why, the trend removed.

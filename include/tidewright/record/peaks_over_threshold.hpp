@@ -48,7 +48,7 @@ struct PeaksOptions {
   std::optional<double> rate_curve_lowest_m;
 };
 
-struct PeaksOverThreshold {
+struct PeaksOverThreshold : RecordProvenance {
   std::vector<std::int64_t> time_utc_s;  // of each peak, increasing
   std::vector<double> level_m;           // peak levels (> threshold_m)
   double threshold_m = 0.0;
@@ -60,14 +60,6 @@ struct PeaksOverThreshold {
   // Declustered events per year at levels below u (ascending levels, descending rates),
   // for StillWaterModel::below_threshold.
   EmpiricalRateCurve below_threshold;
-  std::string datum;
-  std::string source;
-  std::vector<DroppedYear> dropped;
-  std::optional<Detrend> detrend;
-  int year_start_month = 1;
-  double min_completeness = default_min_completeness;
-  double sampling_interval_s = 0.0;  // median spacing the completeness used
-  CleaningCounts cleaning;
 
   [[nodiscard]] std::size_t size() const noexcept { return level_m.size(); }
   [[nodiscard]] std::string summary() const;
