@@ -10,6 +10,7 @@
 #include <cpl_conv.h>
 
 #include <cmath>
+#include <functional>
 #include <cstdlib>
 #include <ctime>
 #include <limits>
@@ -351,13 +352,11 @@ FloodThresholdMap prepare_flood_threshold(const DemSource& dem, const SeaSource&
   return map;
 }
 
-MapSummary make_flood_maps(const MapRequest& req) {
-  const auto progress = [&](double f) {
-    if (req.progress) req.progress(f);
-  };
-  // Refuse an existing folder, or one that cannot be made, before any work.
-  AtomicPath folder(req.out_dir, req.force, "--out");
-  const auto dir = folder.make_temp_folder();
+namespace {
+
+// Refuses a request's bad levels before any work: not finite, implausibly high, below the sea's
+// spread; and polygons without a level.
+void check_levels(const MapRequest& req) {
   for (const auto& l : req.levels) {
     if (!std::isfinite(l.level_m)) {
       throw InputError("--level", "a level is not a finite number", "give levels in metres");
@@ -384,19 +383,16 @@ MapSummary make_flood_maps(const MapRequest& req) {
   if (req.polygons && req.levels.empty()) {
     throw InputError("--polygons", "extent polygons need at least one level", "give --level M");
   }
-  if (req.polygons) pin_geopackage_time();
-  FloodThresholdMap map = prepare_flood_threshold(req.dem, req.sea, req.defences, req.connectivity);
-  progress(0.4);
-  gdal::register_drivers();
-  const CellAreas areas = cell_areas(map.dem.grid);
+}
 
+// The summary's counts over the whole grid and the range of finite thresholds.
+MapSummary grid_summary(const FloodThresholdMap& map, const CellAreas& areas) {
   MapSummary s;
   s.warnings = map.dem.warnings;
   if (map.defences) s.warnings.insert(s.warnings.end(), map.defences->warnings.begin(), map.defences->warnings.end());
   s.warnings.insert(s.warnings.end(), map.sea.warnings.begin(), map.sea.warnings.end());
   s.defences = map.defences;
-  const GridShape shape = map.dem.grid.shape;
-  s.cells = shape.cells();
+  s.cells = map.dem.grid.shape.cells();
   s.sea_cells = map.sea.count;
   s.area_method = areas.method;
   double lo = std::numeric_limits<double>::infinity();
@@ -413,98 +409,128 @@ MapSummary make_flood_maps(const MapRequest& req) {
   if (!std::isfinite(lo)) lo = hi = 0.0;  // nothing reached: the tables are never read
   s.lowest_threshold_m = lo;
   s.highest_threshold_m = hi;
+  return s;
+}
 
-  const double nan = std::numeric_limits<double>::quiet_NaN();
-
-  // Writers: one file per product, one band per level / rate function.
-  GeoTiffWriter threshold(dir / "threshold.tif", map.dem.grid, CellType::float32, nan,
-                          {{"flood threshold (lowest still-water level that reaches the cell "
-                            "from the sea); nodata: sea, DEM nodata, land never reached",
-                            "m",
-                            {}}},
-                          common_metadata(req, map, "flood threshold"), req.format);
-  s.files.emplace_back("threshold.tif");
+// Every product's writer, one file per product, one band per level or rate function; the
+// lookups that turn a threshold into an AEP or a first year.
+struct MapWriters {
+  std::unique_ptr<GeoTiffWriter> threshold;
   std::unique_ptr<GeoTiffWriter> extent;
   std::unique_ptr<GeoTiffWriter> depth;
-  std::vector<std::unique_ptr<GeoTiffWriter>> class_writers;
-  std::vector<std::unique_ptr<GeoTiffWriter>> depth_writers;
-  if (!req.levels.empty()) {
-    std::vector<BandInfo> extent_bands;
-    std::vector<BandInfo> depth_bands;
-    for (const auto& l : req.levels) {
-      const Metadata m = level_metadata(l, req.datum);
-      extent_bands.push_back({"extent at " + level_label(l) +
-                                  " (0 dry, 1 connected flooded, 2 cut-off low ground, 3 sea)",
-                              "", m});
-      depth_bands.push_back({"depth at " + level_label(l) + " on connected flooded land", "m", m});
-    }
-    extent = std::make_unique<GeoTiffWriter>(dir / "extent.tif", map.dem.grid, CellType::byte,
-                                             255.0, extent_bands,
+  std::vector<std::unique_ptr<GeoTiffWriter>> classes;     // one per level
+  std::vector<std::unique_ptr<GeoTiffWriter>> depths;      // one per level, when asked for
+  std::unique_ptr<GeoTiffWriter> aep;
+  std::vector<AepLookup> aep_tables;
+  std::optional<FirstPassingYear> first;
+  std::unique_ptr<GeoTiffWriter> first_writer;
+
+  void finish() {
+    threshold->finish();
+    if (extent) extent->finish();
+    for (auto& w : classes) w->finish();
+    for (auto& w : depths) w->finish();
+    if (depth) depth->finish();
+    if (aep) aep->finish();
+    if (first_writer) first_writer->finish();
+  }
+};
+
+void open_level_writers(MapWriters& w, const MapRequest& req, const FloodThresholdMap& map,
+                        const std::filesystem::path& dir, std::vector<std::string>& files) {
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  std::vector<BandInfo> extent_bands;
+  std::vector<BandInfo> depth_bands;
+  for (const auto& l : req.levels) {
+    const Metadata m = level_metadata(l, req.datum);
+    extent_bands.push_back({"extent at " + level_label(l) +
+                                " (0 dry, 1 connected flooded, 2 cut-off low ground, 3 sea)",
+                            "", m});
+    depth_bands.push_back({"depth at " + level_label(l) + " on connected flooded land", "m", m});
+  }
+  w.extent = std::make_unique<GeoTiffWriter>(dir / "extent.tif", map.dem.grid, CellType::byte, 255.0, extent_bands,
                                              common_metadata(req, map, "flood extent"), req.format);
-    depth = std::make_unique<GeoTiffWriter>(dir / "depth.tif", map.dem.grid, CellType::float32, nan,
-                                            depth_bands, common_metadata(req, map, "flood depth"),
-                                            req.format);
-    s.files.emplace_back("extent.tif");
-    s.files.emplace_back("depth.tif");
-    // Each level's classes also as a single-band raster with a colour table and category
-    // names, which opens as classes in a desktop GIS (a GeoTIFF palette belongs to a file).
-    for (std::size_t li = 0; li < req.levels.size(); ++li) {
-      BandInfo band = extent_bands[li];
-      band.classes.assign(extent_classes.begin(), extent_classes.end());
-      const std::string name = "extent_level_" + std::to_string(li + 1) + ".tif";
-      class_writers.push_back(std::make_unique<GeoTiffWriter>(dir / name, map.dem.grid, CellType::byte, 255.0,
-                                                              std::vector<BandInfo>{band},
-                                                              common_metadata(req, map, "flood extent classes"),
-                                                              req.format));
-      s.files.push_back(name);
-      if (req.depth_per_level) {
-        const std::string depth_name = "depth_level_" + std::to_string(li + 1) + ".tif";
-        depth_writers.push_back(std::make_unique<GeoTiffWriter>(dir / depth_name, map.dem.grid, CellType::float32, nan,
-                                                                std::vector<BandInfo>{depth_bands[li]},
-                                                                common_metadata(req, map, "flood depth"), req.format));
-        s.files.push_back(depth_name);
-      }
+  w.depth = std::make_unique<GeoTiffWriter>(dir / "depth.tif", map.dem.grid, CellType::float32, nan, depth_bands,
+                                            common_metadata(req, map, "flood depth"), req.format);
+  files.emplace_back("extent.tif");
+  files.emplace_back("depth.tif");
+  // Each level's classes also as a single-band raster with a colour table and category
+  // names, which opens as classes in a desktop GIS (a GeoTIFF palette belongs to a file).
+  for (std::size_t li = 0; li < req.levels.size(); ++li) {
+    BandInfo band = extent_bands[li];
+    band.classes.assign(extent_classes.begin(), extent_classes.end());
+    const std::string name = "extent_level_" + std::to_string(li + 1) + ".tif";
+    w.classes.push_back(std::make_unique<GeoTiffWriter>(dir / name, map.dem.grid, CellType::byte, 255.0,
+                                                        std::vector<BandInfo>{band},
+                                                        common_metadata(req, map, "flood extent classes"), req.format));
+    files.push_back(name);
+    if (req.depth_per_level) {
+      const std::string depth_name = "depth_level_" + std::to_string(li + 1) + ".tif";
+      w.depths.push_back(std::make_unique<GeoTiffWriter>(dir / depth_name, map.dem.grid, CellType::float32, nan,
+                                                         std::vector<BandInfo>{depth_bands[li]},
+                                                         common_metadata(req, map, "flood depth"), req.format));
+      files.push_back(depth_name);
     }
   }
-  std::vector<AepLookup> aep_tables;
-  std::unique_ptr<GeoTiffWriter> aep;
+}
+
+void open_rate_writers(MapWriters& w, const MapRequest& req, const FloodThresholdMap& map,
+                       const std::filesystem::path& dir, const MapSummary& s, std::vector<std::string>& files) {
+  const double lo = s.lowest_threshold_m, hi = s.highest_threshold_m;
   if (!req.aep.empty()) {
     std::vector<BandInfo> bands;
     for (const auto& a : req.aep) {
-      aep_tables.emplace_back(a.rate, lo, hi);
+      w.aep_tables.emplace_back(a.rate, lo, hi);
       Metadata m;
       if (a.year) m.emplace_back("YEAR", std::to_string(*a.year));
       if (!a.scenario.empty()) m.emplace_back("SCENARIO", a.scenario);
-      bands.push_back(
-          {"annual exceedance probability of the flood threshold: " + a.description, "1", m});
+      bands.push_back({"annual exceedance probability of the flood threshold: " + a.description, "1", m});
     }
-    aep = std::make_unique<GeoTiffWriter>(
-        dir / "aep.tif", map.dem.grid, CellType::float32, nan, bands,
-        common_metadata(req, map, "annual exceedance probability"), req.format);
-    s.files.emplace_back("aep.tif");
+    w.aep = std::make_unique<GeoTiffWriter>(dir / "aep.tif", map.dem.grid, CellType::float32,
+                                            std::numeric_limits<double>::quiet_NaN(), bands,
+                                            common_metadata(req, map, "annual exceedance probability"), req.format);
+    files.emplace_back("aep.tif");
   }
-  std::optional<FirstPassingYear> first;
-  std::unique_ptr<GeoTiffWriter> first_writer;
   if (req.first_year) {
-    first.emplace(req.first_year->years, req.first_year->aep, lo, hi, req.first_year->today);
-    Metadata m{{"AEP_PASSED", fixed(req.first_year->aep, 6)},
+    const auto& fy = *req.first_year;
+    w.first.emplace(fy.years, fy.aep, lo, hi, fy.today);
+    Metadata m{{"AEP_PASSED", fixed(fy.aep, 6)},
                {"NEVER_VALUE", std::to_string(FirstPassingYear::never)},
                {"ALREADY_TODAY_VALUE", std::to_string(FirstPassingYear::already_today)}};
-    if (!req.first_year->scenario.empty()) m.emplace_back("SCENARIO", req.first_year->scenario);
-    first_writer = std::make_unique<GeoTiffWriter>(
+    if (!fy.scenario.empty()) m.emplace_back("SCENARIO", fy.scenario);
+    w.first_writer = std::make_unique<GeoTiffWriter>(
         dir / "first_year.tif", map.dem.grid, CellType::int16, FirstPassingYear::nodata,
-        std::vector<BandInfo>{{"first year the cell's AEP reaches " +
-                                   fixed(req.first_year->aep, 6) + " (" +
-                                   req.first_year->description + "); 0: not within the years given; 1: already "
-                                   "today",
+        std::vector<BandInfo>{{"first year the cell's AEP reaches " + fixed(fy.aep, 6) + " (" + fy.description +
+                                   "); 0: not within the years given; 1: already today",
                                "year", m}},
         common_metadata(req, map, "first year an AEP is passed"), req.format);
-    s.files.emplace_back("first_year.tif");
+    files.emplace_back("first_year.tif");
   }
+}
 
-  for (const auto& l : req.levels) s.levels.push_back({l});
-  // Flooded cells beside a nodata cell that is not sea: the water may go on into ground the DEM
-  // does not cover (4-neighbours; the whole grid is in memory).
+MapWriters open_writers(const MapRequest& req, const FloodThresholdMap& map, const std::filesystem::path& dir,
+                        MapSummary& s) {
+  MapWriters w;
+  w.threshold = std::make_unique<GeoTiffWriter>(
+      dir / "threshold.tif", map.dem.grid, CellType::float32, std::numeric_limits<double>::quiet_NaN(),
+      std::vector<BandInfo>{{"flood threshold (lowest still-water level that reaches the cell "
+                             "from the sea); nodata: sea, DEM nodata, land never reached",
+                             "m",
+                             {}}},
+      common_metadata(req, map, "flood threshold"), req.format);
+  s.files.emplace_back("threshold.tif");
+  if (!req.levels.empty()) open_level_writers(w, req, map, dir, s.files);
+  open_rate_writers(w, req, map, dir, s, s.files);
+  return w;
+}
+
+// One streamed pass, a block of rows at a time, writing every product and adding up each
+// level's cells, areas, volume and deepest depth; then a warning for each level with flooded
+// cells beside a nodata cell that is not sea (the water may go on into ground the DEM does not
+// cover; 4-neighbours, the whole grid is in memory).
+void write_products(const MapRequest& req, const FloodThresholdMap& map, const CellAreas& areas, MapWriters& w,
+                    MapSummary& s, const std::function<void(double)>& progress) {
+  const GridShape shape = map.dem.grid.shape;
   std::vector<std::size_t> gap_borders(req.levels.size(), 0);
   const auto borders_gap = [&](std::size_t i) {
     const std::size_t r = i / shape.cols;
@@ -513,7 +539,6 @@ MapSummary make_flood_maps(const MapRequest& req) {
     return (c > 0 && gap(i - 1)) || (c + 1 < shape.cols && gap(i + 1)) || (r > 0 && gap(i - shape.cols)) ||
            (r + 1 < shape.rows && gap(i + shape.cols));
   };
-  // Streamed passes: one block of rows at a time, every product.
   const std::size_t cols = shape.cols;
   std::vector<float> fbuf(cols * block_rows);
   std::vector<std::uint8_t> bbuf(cols * block_rows);
@@ -523,10 +548,8 @@ MapSummary make_flood_maps(const MapRequest& req) {
   for (std::size_t r0 = 0; r0 < shape.rows; r0 += block_rows) {
     const std::size_t h = std::min(block_rows, shape.rows - r0);
     const std::size_t base = r0 * cols;
-    for (std::size_t k = 0; k < h * cols; ++k) {
-      fbuf[k] = std::isfinite(t[base + k]) ? t[base + k] : nan_f;
-    }
-    threshold.write_rows(0, r0, h, fbuf.data());
+    for (std::size_t k = 0; k < h * cols; ++k) fbuf[k] = std::isfinite(t[base + k]) ? t[base + k] : nan_f;
+    w.threshold->write_rows(0, r0, h, fbuf.data());
     for (std::size_t li = 0; li < req.levels.size(); ++li) {
       const double level = req.levels[li].level_m;
       LevelSummary& sum = s.levels[li];
@@ -548,18 +571,18 @@ MapSummary make_flood_maps(const MapRequest& req) {
           sum.cut_off_area_m2 += area;
         }
       }
-      extent->write_rows(li, r0, h, bbuf.data());
-      class_writers[li]->write_rows(0, r0, h, bbuf.data());
-      if (!depth_writers.empty()) depth_writers[li]->write_rows(0, r0, h, fbuf.data());
-      depth->write_rows(li, r0, h, fbuf.data());
+      w.extent->write_rows(li, r0, h, bbuf.data());
+      w.classes[li]->write_rows(0, r0, h, bbuf.data());
+      if (!w.depths.empty()) w.depths[li]->write_rows(0, r0, h, fbuf.data());
+      w.depth->write_rows(li, r0, h, fbuf.data());
     }
-    for (std::size_t ai = 0; ai < aep_tables.size(); ++ai) {
-      for (std::size_t k = 0; k < h * cols; ++k) fbuf[k] = aep_tables[ai](t[base + k]);
-      aep->write_rows(ai, r0, h, fbuf.data());
+    for (std::size_t ai = 0; ai < w.aep_tables.size(); ++ai) {
+      for (std::size_t k = 0; k < h * cols; ++k) fbuf[k] = w.aep_tables[ai](t[base + k]);
+      w.aep->write_rows(ai, r0, h, fbuf.data());
     }
-    if (first) {
-      for (std::size_t k = 0; k < h * cols; ++k) ibuf[k] = (*first)(t[base + k]);
-      first_writer->write_rows(0, r0, h, ibuf.data());
+    if (w.first) {
+      for (std::size_t k = 0; k < h * cols; ++k) ibuf[k] = (*w.first)(t[base + k]);
+      w.first_writer->write_rows(0, r0, h, ibuf.data());
     }
     progress(0.4 + 0.5 * static_cast<double>(r0 + h) / static_cast<double>(shape.rows));
   }
@@ -569,34 +592,53 @@ MapSummary make_flood_maps(const MapRequest& req) {
                          " flooded cells border nodata cells that are not sea: the water may go on into ground the "
                          "DEM does not cover, so the extent there is a lower bound; check the DEM's gaps");
   }
-  threshold.finish();
-  if (extent) extent->finish();
-  for (auto& w : class_writers) w->finish();
-  for (auto& w : depth_writers) w->finish();
-  if (depth) depth->finish();
-  if (aep) aep->finish();
-  if (first_writer) first_writer->finish();
-  // OGC SLD 1.0 styles beside the rasters they style (map_style.hpp).
+}
+
+// OGC SLD 1.0 styles beside the rasters they style (map_style.hpp), the sidecars GDAL wrote
+// for what a GeoTIFF tag cannot hold (category names, statistics), and the polygons.
+void write_companions(const MapRequest& req, const FloodThresholdMap& map, const MapWriters& w,
+                      const std::filesystem::path& dir, MapSummary& s) {
   const auto add_style = [&](const std::string& name, const std::string& text) {
     write_text_file(dir / name, text, false);
     s.files.push_back(name);
   };
-  if (extent) add_style("extent.sld", extent_sld("extent"));
-  if (depth) add_style("depth.sld", depth_sld("depth"));
-  if (aep) add_style("aep.sld", aep_sld("aep"));
-  // Sidecars GDAL wrote for what a GeoTIFF tag cannot hold (category names, statistics).
+  if (w.extent) add_style("extent.sld", extent_sld("extent"));
+  if (w.depth) add_style("depth.sld", depth_sld("depth"));
+  if (w.aep) add_style("aep.sld", aep_sld("aep"));
   for (const auto& f : std::vector<std::string>(s.files)) {
     if (std::filesystem::exists(dir / (f + ".aux.xml"))) s.files.push_back(f + ".aux.xml");
   }
-  if (req.polygons) {
-    const PolygonFile file = polygon_file(req.polygon_format);
-    write_polygons(map, s.levels, dir / file.name, req.datum, req.polygon_format);
-    s.files.emplace_back(file.name);
-    for (const char* suffix : file.side_suffixes) {
-      const std::string side = std::filesystem::path(file.name).replace_extension(suffix).string();
-      if (std::filesystem::exists(dir / side)) s.files.push_back(side);
-    }
+  if (!req.polygons) return;
+  const PolygonFile file = polygon_file(req.polygon_format);
+  write_polygons(map, s.levels, dir / file.name, req.datum, req.polygon_format);
+  s.files.emplace_back(file.name);
+  for (const char* suffix : file.side_suffixes) {
+    const std::string side = std::filesystem::path(file.name).replace_extension(suffix).string();
+    if (std::filesystem::exists(dir / side)) s.files.push_back(side);
   }
+}
+
+}  // namespace
+
+MapSummary make_flood_maps(const MapRequest& req) {
+  const std::function<void(double)> progress = [&](double f) {
+    if (req.progress) req.progress(f);
+  };
+  // Refuse an existing folder, or one that cannot be made, before any work.
+  AtomicPath folder(req.out_dir, req.force, "--out");
+  const auto dir = folder.make_temp_folder();
+  check_levels(req);
+  if (req.polygons) pin_geopackage_time();
+  FloodThresholdMap map = prepare_flood_threshold(req.dem, req.sea, req.defences, req.connectivity);
+  progress(0.4);
+  gdal::register_drivers();
+  const CellAreas areas = cell_areas(map.dem.grid);
+  MapSummary s = grid_summary(map, areas);
+  MapWriters writers = open_writers(req, map, dir, s);
+  for (const auto& l : req.levels) s.levels.push_back({l});
+  write_products(req, map, areas, writers, s, progress);
+  writers.finish();
+  write_companions(req, map, writers, dir, s);
   s.files.emplace_back("summary.csv");
   s.files.emplace_back("summary.json");
   write_text_file(dir / "summary.csv", summary_csv(s), false);
