@@ -297,68 +297,57 @@ PixelWindow pixel_window(const DemSource& source, const GeoGrid& grid) {
   return {static_cast<int>(c0), static_cast<int>(r0), static_cast<int>(c1 - c0), static_cast<int>(r1 - r0)};
 }
 
-}  // namespace
-
-Dem read_dem(const DemSource& source) {
-  auto ds = gdal::open_raster(source.path, "DEM");
-  if (source.band < 1 || source.band > ds->GetRasterCount()) {
-    throw InputError(source.path, "has no band " + std::to_string(source.band),
-                     "choose a band between 1 and " + std::to_string(ds->GetRasterCount()));
-  }
-  Dem dem;
-  dem.grid.shape = {static_cast<std::size_t>(ds->GetRasterXSize()),
-                    static_cast<std::size_t>(ds->GetRasterYSize())};
-  if (ds->GetGeoTransform(dem.grid.geotransform.data()) != CE_None) {
-    throw InputError(source.path, "the DEM has no geotransform (no cell size or position)",
-                     "georeference it (gdal_translate -a_ullr / gdal_edit.py) first");
-  }
-  const OGRSpatialReference* srs = ds->GetSpatialRef();
+// The DEM's CRS: the file's own, else the caller's override; InputError without either.
+OGRSpatialReference dem_crs(GDALDataset& ds, const DemSource& source) {
+  const OGRSpatialReference* srs = ds.GetSpatialRef();
   OGRSpatialReference chosen;
-  if (srs != nullptr) {
-    chosen = *srs;
-  } else if (!source.crs_override.empty()) {
+  if (srs != nullptr) return *srs;
+  if (!source.crs_override.empty()) {
     if (chosen.SetFromUserInput(source.crs_override.c_str()) != OGRERR_NONE) {
       throw InputError("--dem-crs", "'" + source.crs_override + "' is not a CRS GDAL knows",
                        "give an EPSG code such as EPSG:32633 or a WKT string");
     }
-  } else {
-    throw InputError(source.path,
-                     "the DEM has no coordinate reference system, so neither areas nor the sea "
-                     "and defence layers can be placed on it",
-                     "assign one (gdal_edit.py -a_srs EPSG:XXXX) or pass --dem-crs EPSG:XXXX");
+    return chosen;
   }
-  dem.grid.crs_wkt = horizontal_wkt(chosen);
-  const PixelWindow win = pixel_window(source, dem.grid);
-  dem.grid.shape = {static_cast<std::size_t>(win.cols), static_cast<std::size_t>(win.rows)};
-  dem.grid.geotransform[0] += win.col0 * dem.grid.geotransform[1];
-  dem.grid.geotransform[3] += win.row0 * dem.grid.geotransform[5];
+  throw InputError(source.path,
+                   "the DEM has no coordinate reference system, so neither areas nor the sea "
+                   "and defence layers can be placed on it",
+                   "assign one (gdal_edit.py -a_srs EPSG:XXXX) or pass --dem-crs EPSG:XXXX");
+}
 
-  GDALRasterBand* band = ds->GetRasterBand(source.band);
-  const VerticalScale vertical = vertical_scale(source, *band, chosen);
-  check_fits_in_memory(source.path, dem.grid.shape.cols, dem.grid.shape.rows);
-  const std::size_t n = dem.grid.shape.cells();
-  dem.elevation_m.resize(n);
-  // Read a block of rows at a time and drop GDAL's cached copy of it, so reading does not hold
-  // the DEM twice (our grid plus GDAL's block cache).
+// The window's values as float32, a block of rows at a time, dropping GDAL's cached copy of
+// each so that reading does not hold the DEM twice (our grid plus GDAL's block cache).
+void read_elevations(GDALRasterBand& band, const PixelWindow& win, const std::string& path, std::vector<float>& out) {
   const int cols = win.cols;
   const int rows = win.rows;
   constexpr int rows_per_read = 256;
   for (int r0 = 0; r0 < rows; r0 += rows_per_read) {
     const int h = std::min(rows_per_read, rows - r0);
-    float* dest =
-        dem.elevation_m.data() + static_cast<std::size_t>(r0) * static_cast<std::size_t>(cols);
-    if (band->RasterIO(GF_Read, win.col0, win.row0 + r0, cols, h, dest, cols, h, GDT_Float32, 0, 0, nullptr) !=
+    float* dest = out.data() + static_cast<std::size_t>(r0) * static_cast<std::size_t>(cols);
+    if (band.RasterIO(GF_Read, win.col0, win.row0 + r0, cols, h, dest, cols, h, GDT_Float32, 0, 0, nullptr) !=
         CE_None) {
-      throw InputError(source.path, "reading the DEM failed (" + gdal::last_error() + ")",
+      throw InputError(path, "reading the DEM failed (" + gdal::last_error() + ")",
                        "check the file with gdalinfo -checksum");
     }
-    band->FlushCache(false);
+    band.FlushCache(false);
   }
+}
+
+struct NodataCount {
+  bool file_has_nodata = false;
+  double file_nodata = 0.0;
+  std::size_t valid = 0;
+};
+
+// The file's and the caller's nodata become NaN (compared after conversion to float32, as the
+// values were read: exact for integers); a warning for a common fill value left undeclared.
+NodataCount mark_nodata(Dem& dem, GDALRasterBand& band, const DemSource& source) {
+  NodataCount n;
   int has_nodata = 0;
-  const double file_nodata = band->GetNoDataValue(&has_nodata);
-  // Nodata compared after conversion to float32, as the values were read (exact for integers).
+  n.file_nodata = band.GetNoDataValue(&has_nodata);
+  n.file_has_nodata = has_nodata != 0;
   const auto is_declared = [&](float v) {
-    return (has_nodata != 0 && v == static_cast<float>(file_nodata)) ||
+    return (n.file_has_nodata && v == static_cast<float>(n.file_nodata)) ||
            (source.nodata && v == static_cast<float>(*source.nodata));
   };
   if (auto w = undeclared_fill(dem.elevation_m)) {
@@ -367,24 +356,28 @@ Dem read_dem(const DemSource& source) {
                                            [&](float f) { return is_declared(f); });
     if (!declared_fill) dem.warnings.push_back(recorded_name(source) + ": " + *w);
   }
-  std::size_t valid = 0;
   for (auto& v : dem.elevation_m) {
     if (std::isnan(v) || is_declared(v)) {
       v = nan_f;
     } else {
-      ++valid;
+      ++n.valid;
     }
   }
-  if (valid == 0) {
+  if (n.valid == 0) {
     throw InputError(source.path, "every cell of the DEM is nodata",
                      "check the nodata value (gdalinfo -stats) or choose another band");
   }
-  // GDAL's scale and offset turn stored values into the band's unit (nodata is a stored value,
-  // so it was matched above); then the unit's metres.
+  return n;
+}
+
+// GDAL's scale and offset turn stored values into the band's unit (nodata is a stored value, so
+// it was matched before), then the unit's metres; sets the vertical unit's description and warns
+// when an unstated unit looks like another.
+void apply_vertical_scale(Dem& dem, GDALRasterBand& band, const VerticalScale& vertical, const DemSource& source) {
   int has_scale = 0;
   int has_offset = 0;
-  const double scale = band->GetScale(&has_scale);
-  const double offset = band->GetOffset(&has_offset);
+  const double scale = band.GetScale(&has_scale);
+  const double offset = band.GetOffset(&has_offset);
   const bool scaled = (has_scale != 0 && scale != 1.0) || (has_offset != 0 && offset != 0.0);
   const double a = (has_scale != 0 ? scale : 1.0) * vertical.metres_per_unit;
   const double b = (has_offset != 0 ? offset : 0.0) * vertical.metres_per_unit;
@@ -395,7 +388,7 @@ Dem read_dem(const DemSource& source) {
   }
   // Judged on the band's values after its scale and offset (the unit is metres, assumed).
   if (!vertical.stated) {
-    if (auto w = unit_suspicion(dem.elevation_m, band->GetRasterDataType(), scaled)) {
+    if (auto w = unit_suspicion(dem.elevation_m, band.GetRasterDataType(), scaled)) {
       dem.warnings.push_back(recorded_name(source) + ": " + *w);
     }
   }
@@ -404,7 +397,10 @@ Dem read_dem(const DemSource& source) {
     dem.vertical_unit += "; band scale " + number(has_scale != 0 ? scale : 1.0) + ", offset " +
                          number(has_offset != 0 ? offset : 0.0);
   }
+}
 
+// Elevations into heights above the water-level datum; returns how, for the description.
+std::string apply_datum(Dem& dem, const DemSource& source) {
   std::string datum;
   switch (source.datum.kind) {
     case DatumRelation::Kind::unstated:
@@ -421,37 +417,66 @@ Dem read_dem(const DemSource& source) {
       datum = "z_water = z_dem + " + number(source.datum.offset_m) + " m (constant offset)";
       break;
     case DatumRelation::Kind::raster: {
-      dem.offset_m =
-          resample_to_grid(source.datum.raster_path, dem.grid, "bilinear", "datum offset raster");
+      dem.offset_m = resample_to_grid(source.datum.raster_path, dem.grid, "bilinear", "datum offset raster");
       std::size_t uncovered = 0;
-      for (std::size_t i = 0; i < n; ++i) {
+      for (std::size_t i = 0; i < dem.elevation_m.size(); ++i) {
         if (!std::isnan(dem.elevation_m[i]) && std::isnan(dem.offset_m[i])) ++uncovered;
       }
       if (uncovered > 0) {
         throw InputError(source.datum.raster_path,
-                         "the datum offset raster does not cover " + std::to_string(uncovered) +
-                             " valid DEM cells",
+                         "the datum offset raster does not cover " + std::to_string(uncovered) + " valid DEM cells",
                          "give an offset raster whose extent covers the whole DEM");
       }
-      datum = "z_water = z_dem + offset from " + source.datum.raster_path +
-              " (bilinear resampling to the DEM grid)";
+      datum = "z_water = z_dem + offset from " + source.datum.raster_path + " (bilinear resampling to the DEM grid)";
       break;
     }
   }
-  for (std::size_t i = 0; i < n; ++i) {
+  for (std::size_t i = 0; i < dem.elevation_m.size(); ++i) {
     if (!std::isnan(dem.elevation_m[i])) {
-      dem.elevation_m[i] =
-          static_cast<float>(static_cast<double>(dem.elevation_m[i]) + dem.offset_at(i));
+      dem.elevation_m[i] = static_cast<float>(static_cast<double>(dem.elevation_m[i]) + dem.offset_at(i));
     }
   }
+  return datum;
+}
+
+}  // namespace
+
+Dem read_dem(const DemSource& source) {
+  auto ds = gdal::open_raster(source.path, "DEM");
+  if (source.band < 1 || source.band > ds->GetRasterCount()) {
+    throw InputError(source.path, "has no band " + std::to_string(source.band),
+                     "choose a band between 1 and " + std::to_string(ds->GetRasterCount()));
+  }
+  Dem dem;
+  dem.grid.shape = {static_cast<std::size_t>(ds->GetRasterXSize()),
+                    static_cast<std::size_t>(ds->GetRasterYSize())};
+  if (ds->GetGeoTransform(dem.grid.geotransform.data()) != CE_None) {
+    throw InputError(source.path, "the DEM has no geotransform (no cell size or position)",
+                     "georeference it (gdal_translate -a_ullr / gdal_edit.py) first");
+  }
+  const OGRSpatialReference chosen = dem_crs(*ds, source);
+  dem.grid.crs_wkt = horizontal_wkt(chosen);
+  const PixelWindow win = pixel_window(source, dem.grid);
+  dem.grid.shape = {static_cast<std::size_t>(win.cols), static_cast<std::size_t>(win.rows)};
+  dem.grid.geotransform[0] += win.col0 * dem.grid.geotransform[1];
+  dem.grid.geotransform[3] += win.row0 * dem.grid.geotransform[5];
+
+  GDALRasterBand* band = ds->GetRasterBand(source.band);
+  const VerticalScale vertical = vertical_scale(source, *band, chosen);
+  check_fits_in_memory(source.path, dem.grid.shape.cols, dem.grid.shape.rows);
+  dem.elevation_m.resize(dem.grid.shape.cells());
+  read_elevations(*band, win, source.path, dem.elevation_m);
+  const NodataCount nodata = mark_nodata(dem, *band, source);
+  apply_vertical_scale(dem, *band, vertical, source);
+  const std::string datum = apply_datum(dem, source);
   dem.description =
       recorded_name(source) + " band " + std::to_string(source.band) + " (" +
       std::to_string(dem.grid.shape.cols) + " x " + std::to_string(dem.grid.shape.rows) + " cells" +
       (source.window ? " of the window " + number((*source.window)[0]) + " " + number((*source.window)[1]) + " " +
                            number((*source.window)[2]) + " " + number((*source.window)[3])
                      : std::string()) +
-      ", " + std::to_string(valid) + " valid; nodata: " +
-      (has_nodata != 0 ? number(file_nodata) + " from the file" : "none in the file") +
+      ", " + std::to_string(nodata.valid) + " valid; nodata: " +
+      (nodata.file_has_nodata ? number(nodata.file_nodata) + " from the file" : "none in the file") +
       (source.nodata ? ", " + number(*source.nodata) + " declared" : "") + "); vertical unit: " +
       dem.vertical_unit + "; " + datum;
   return dem;
