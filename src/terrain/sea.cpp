@@ -145,131 +145,135 @@ bool on_data_edge(std::size_t i, GridShape shape, const std::vector<std::uint8_t
   return outer[i - 1] != 0 || outer[i + 1] != 0 || outer[i - shape.cols] != 0 || outer[i + shape.cols] != 0;
 }
 
+// The cells of a sea mask (polygons rasterised, or a raster's non-zero cells); returns how.
+std::string mark_mask(SeaCells& sea, const Dem& dem, const SeaSource& source) {
+  const std::size_t n = dem.grid.shape.cells();
+  std::vector<std::uint8_t> mask;
+  std::string description;
+  if (gdal::is_vector(source.mask_path)) {
+    mask = rasterise_sea_polygons(source, dem.grid, description);
+  } else {
+    if (!source.layer.empty() || !source.where.empty()) {
+      throw InputError(source.layer.empty() ? source.where_input : source.layer_input,
+                       "applies to a vector sea mask, but " + source.mask_path + " is a raster",
+                       "leave it out, or give the sea as polygons");
+    }
+    const auto values = resample_to_grid(source.mask_path, dem.grid, "near", "sea mask");
+    mask.resize(n);
+    for (std::size_t i = 0; i < n; ++i) mask[i] = !std::isnan(values[i]) && values[i] != 0.0F ? 1 : 0;
+    description = "sea raster " + (source.mask_recorded_as.empty() ? source.mask_path : source.mask_recorded_as) +
+                  " (non-zero cells, nearest resampling)";
+  }
+  std::size_t in_mask = 0;
+  for (std::size_t i = 0; i < n; ++i) {
+    if (mask[i] != 0) {
+      sea.is_sea[i] = 1;
+      ++in_mask;
+    }
+  }
+  if (in_mask == 0) {
+    throw InputError(source.mask_path, "the sea mask covers no cell of the DEM",
+                     "check that it overlaps the DEM (ogrinfo -so / gdalinfo) and has the right CRS");
+  }
+  return description;
+}
+
+// The cells under the seed points; InputError for a point outside the DEM.
+void mark_points(SeaCells& sea, const Dem& dem, const SeaSource& source) {
+  const GridShape shape = dem.grid.shape;
+  std::array<double, 6> inverse{};
+  std::array<double, 6> gt = dem.grid.geotransform;
+  if (GDALInvGeoTransform(gt.data(), inverse.data()) == 0) {
+    throw InputError("DEM", "the geotransform cannot be inverted", "check the DEM's georeferencing");
+  }
+  for (const auto& p : source.points_xy) {
+    const double col = inverse[0] + p[0] * inverse[1] + p[1] * inverse[2];
+    const double row = inverse[3] + p[0] * inverse[4] + p[1] * inverse[5];
+    const std::string where = "--sea-point " + gdal::number_text(p[0]) + "," + gdal::number_text(p[1]);
+    if (!(col >= 0.0 && row >= 0.0 && col < static_cast<double>(shape.cols) && row < static_cast<double>(shape.rows))) {
+      throw InputError(where, "the point lies outside the DEM",
+                       "give x,y in the DEM's CRS inside its extent (gdalinfo shows it)");
+    }
+    sea.is_sea[static_cast<std::size_t>(row) * shape.cols + static_cast<std::size_t>(col)] = 1;
+  }
+}
+
+// Nodata cells declared sea, with a warning for those inside the DEM (a survey gap).
+void mark_nodata_sea(SeaCells& sea, const Dem& dem, const std::vector<std::uint8_t>& outer) {
+  for (std::size_t i = 0; i < sea.is_sea.size(); ++i) {
+    if (std::isnan(dem.elevation_m[i])) sea.is_sea[i] = 1;
+  }
+  const std::size_t inland = inland_nodata_cells(dem.elevation_m, outer);
+  if (inland > 0) {
+    sea.warnings.push_back(std::to_string(inland) +
+                           " nodata cells lie inside the DEM, joined to its edge by no other nodata cell, and are "
+                           "declared sea with the rest: a gap in the survey there floods the land around it at every "
+                           "level; fill such gaps (e.g. gdal_fillnodata) or give the sea another way");
+  }
+}
+
+// True when some sea cell has a valid land neighbour (under the connectivity), so water can
+// leave the sea at all.
+bool touches_valid_land(const SeaCells& sea, const Dem& dem, Connectivity connectivity) {
+  const auto cols = static_cast<std::ptrdiff_t>(dem.grid.shape.cols);
+  const auto rows = static_cast<std::ptrdiff_t>(dem.grid.shape.rows);
+  for (std::size_t i = 0; i < sea.is_sea.size(); ++i) {
+    if (sea.is_sea[i] == 0) continue;
+    const auto x = static_cast<std::ptrdiff_t>(i) % cols;
+    const auto y = static_cast<std::ptrdiff_t>(i) / cols;
+    for (std::ptrdiff_t dy = -1; dy <= 1; ++dy) {
+      for (std::ptrdiff_t dx = -1; dx <= 1; ++dx) {
+        if (connectivity == Connectivity::four && dx != 0 && dy != 0) continue;
+        const auto nx = x + dx;
+        const auto ny = y + dy;
+        if (nx < 0 || ny < 0 || nx >= cols || ny >= rows) continue;
+        const auto m = static_cast<std::size_t>(ny * cols + nx);
+        if (sea.is_sea[m] == 0 && !std::isnan(dem.elevation_m[m])) return true;
+      }
+    }
+  }
+  return false;
+}
+
 }  // namespace
 
 SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity connectivity) {
   const GridShape shape = dem.grid.shape;
-  const std::size_t n = shape.cells();
   SeaCells sea;
-  sea.is_sea.assign(n, 0);
+  sea.is_sea.assign(shape.cells(), 0);
   std::string parts;
   const auto add_part = [&](const std::string& s) { parts += (parts.empty() ? "" : "; ") + s; };
-
-  if (!source.mask_path.empty()) {
-    std::vector<std::uint8_t> mask;
-    if (gdal::is_vector(source.mask_path)) {
-      std::string description;
-      mask = rasterise_sea_polygons(source, dem.grid, description);
-      add_part(description);
-    } else {
-      if (!source.layer.empty() || !source.where.empty()) {
-        throw InputError(source.layer.empty() ? source.where_input : source.layer_input,
-                         "applies to a vector sea mask, but " + source.mask_path + " is a raster",
-                         "leave it out, or give the sea as polygons");
-      }
-      const auto values = resample_to_grid(source.mask_path, dem.grid, "near", "sea mask");
-      mask.resize(n);
-      for (std::size_t i = 0; i < n; ++i) {
-        mask[i] = !std::isnan(values[i]) && values[i] != 0.0F ? 1 : 0;
-      }
-      add_part("sea raster " + (source.mask_recorded_as.empty() ? source.mask_path : source.mask_recorded_as) +
-               " (non-zero cells, nearest resampling)");
-    }
-    std::size_t in_mask = 0;
-    for (std::size_t i = 0; i < n; ++i) {
-      if (mask[i] != 0) {
-        sea.is_sea[i] = 1;
-        ++in_mask;
-      }
-    }
-    if (in_mask == 0) {
-      throw InputError(source.mask_path, "the sea mask covers no cell of the DEM",
-                       "check that it overlaps the DEM (ogrinfo -so / gdalinfo) and has the "
-                       "right CRS");
-    }
-  }
-
+  if (!source.mask_path.empty()) add_part(mark_mask(sea, dem, source));
   if (!source.points_xy.empty()) {
-    std::array<double, 6> inverse{};
-    std::array<double, 6> gt = dem.grid.geotransform;
-    if (GDALInvGeoTransform(gt.data(), inverse.data()) == 0) {
-      throw InputError("DEM", "the geotransform cannot be inverted",
-                       "check the DEM's georeferencing");
-    }
-    for (const auto& p : source.points_xy) {
-      const double col = inverse[0] + p[0] * inverse[1] + p[1] * inverse[2];
-      const double row = inverse[3] + p[0] * inverse[4] + p[1] * inverse[5];
-      const std::string where =
-          "--sea-point " + gdal::number_text(p[0]) + "," + gdal::number_text(p[1]);
-      if (!(col >= 0.0 && row >= 0.0 && col < static_cast<double>(shape.cols) &&
-            row < static_cast<double>(shape.rows))) {
-        throw InputError(where, "the point lies outside the DEM",
-                         "give x,y in the DEM's CRS inside its extent (gdalinfo shows it)");
-      }
-      const auto i = static_cast<std::size_t>(row) * shape.cols + static_cast<std::size_t>(col);
-      sea.is_sea[i] = 1;
-    }
+    mark_points(sea, dem, source);
     add_part(std::to_string(source.points_xy.size()) + " seed point(s)");
   }
-
   std::vector<std::uint8_t> outer;
   if (source.edge_at_or_below_m || source.nodata_is_sea) outer = outer_nodata(dem.elevation_m, shape);
   if (source.edge_at_or_below_m) {
     const double limit = *source.edge_at_or_below_m;
-    for (std::size_t i = 0; i < n; ++i) {
+    for (std::size_t i = 0; i < shape.cells(); ++i) {
       const float z = dem.elevation_m[i];
       if (!std::isnan(z) && static_cast<double>(z) <= limit && on_data_edge(i, shape, outer)) sea.is_sea[i] = 1;
     }
     add_part("cells at or below " + gdal::number_text(limit) +
              " m on the edge of the valid data (the DEM's frame, or nodata joined to it)");
   }
-
   if (source.nodata_is_sea) {
-    for (std::size_t i = 0; i < n; ++i) {
-      if (std::isnan(dem.elevation_m[i])) sea.is_sea[i] = 1;
-    }
+    mark_nodata_sea(sea, dem, outer);
     add_part("nodata cells declared sea");
-    const std::size_t inland = inland_nodata_cells(dem.elevation_m, outer);
-    if (inland > 0) {
-      sea.warnings.push_back(std::to_string(inland) +
-                             " nodata cells lie inside the DEM, joined to its edge by no other nodata cell, and are "
-                             "declared sea with the rest: a gap in the survey there floods the land around it at every "
-                             "level; fill such gaps (e.g. gdal_fillnodata) or give the sea another way");
-    }
   }
-
   if (parts.empty()) {
     throw InputError("sea", "no sea is given",
                      "give --sea FILE, --sea-point X,Y, --sea-edge-below M or --nodata-is-sea");
-  }
-  // The sea must touch valid land: some sea cell is valid or has a valid neighbour.
-  const auto cols = static_cast<std::ptrdiff_t>(shape.cols);
-  const auto rows = static_cast<std::ptrdiff_t>(shape.rows);
-  const std::ptrdiff_t reach = 1;
-  bool touches = false;
-  for (std::size_t i = 0; i < n && !touches; ++i) {
-    if (sea.is_sea[i] == 0) continue;
-    const auto x = static_cast<std::ptrdiff_t>(i) % cols;
-    const auto y = static_cast<std::ptrdiff_t>(i) / cols;
-    for (std::ptrdiff_t dy = -reach; dy <= reach && !touches; ++dy) {
-      for (std::ptrdiff_t dx = -reach; dx <= reach && !touches; ++dx) {
-        if (connectivity == Connectivity::four && dx != 0 && dy != 0) continue;
-        const auto nx = x + dx;
-        const auto ny = y + dy;
-        if (nx < 0 || ny < 0 || nx >= cols || ny >= rows) continue;
-        const auto m = static_cast<std::size_t>(ny * cols + nx);
-        touches = sea.is_sea[m] == 0 && !std::isnan(dem.elevation_m[m]);
-      }
-    }
   }
   for (auto s : sea.is_sea) sea.count += s;
   if (sea.count == 0) {
     throw InputError("sea", "no sea cell found in the DEM (" + parts + ")",
                      "check the sea sources against the DEM's extent and elevations");
   }
-  if (!touches) {
-    throw InputError("sea",
-                     "the sea (" + parts + ") touches no valid land cell, so nothing can flood",
+  if (!touches_valid_land(sea, dem, connectivity)) {
+    throw InputError("sea", "the sea (" + parts + ") touches no valid land cell, so nothing can flood",
                      "check the sea mask and the DEM's nodata");
   }
   sea.description = parts + "; " + std::to_string(sea.count) + " sea cells";
