@@ -57,17 +57,10 @@ std::size_t close_diagonal_gaps(const Dem& dem, std::vector<float>& crest) {
   return closed;
 }
 
-}  // namespace
-
-DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
-  auto ds = gdal::open_vector(source.path, "defence layer");
-  OGRLayer* layer =
-      source.layer.empty() ? ds->GetLayer(0) : ds->GetLayerByName(source.layer.c_str());
-  if (layer == nullptr) {
-    throw InputError(source.path, "has no layer '" + source.layer + "'",
-                     "name one of its layers (ogrinfo " + source.path + ")");
-  }
-  OGRFeatureDefn* defn = layer->GetLayerDefn();
+// The crest level of each feature with a geometry, in the layer's order; InputError for a
+// missing attribute or a feature without a finite crest.
+std::vector<double> read_crests(OGRLayer& layer, const DefenceSource& source) {
+  OGRFeatureDefn* defn = layer.GetLayerDefn();
   const int field = defn->GetFieldIndex(source.crest_field.c_str());
   if (field < 0) {
     std::string fields;
@@ -79,16 +72,14 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
                          "' (its attributes: " + (fields.empty() ? "none" : fields) + ")",
                      "name the crest-level attribute with --crest-field");
   }
-  // Crest per feature, read before the geometries are reprojected (same feature order).
   std::vector<double> crests;
-  layer->ResetReading();
+  layer.ResetReading();
   for (auto& feature : layer) {
     const OGRGeometry* g = feature->GetGeometryRef();
     if (g == nullptr || g->IsEmpty()) continue;
     if (!feature->IsFieldSetAndNotNull(field)) {
       throw InputError(source.path + ": feature " + std::to_string(feature->GetFID()),
-                       "has no value in '" + source.crest_field + "'",
-                       "give every defence a crest level");
+                       "has no value in '" + source.crest_field + "'", "give every defence a crest level");
     }
     const double crest = feature->GetFieldAsDouble(field);
     if (!std::isfinite(crest)) {
@@ -97,45 +88,63 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
     }
     crests.push_back(crest);
   }
-  auto geometries = gdal::layer_geometries(*layer, dem.grid, source.path);
-  if (geometries.size() != crests.size()) {
-    throw InputError(source.path, "the layer changed while it was read", "read it again");
-  }
-  // Burn in ascending crest order: where defences overlap the last (highest) crest stays.
-  std::vector<std::size_t> order(crests.size());
+  return crests;
+}
+
+// The crests on the DEM's grid (NaN where no defence), burnt ALL_TOUCHED in ascending crest
+// order, so that where defences overlap the highest crest stays; `crests_m` comes back sorted.
+std::vector<float> rasterise_crests(const Dem& dem, const std::vector<gdal::LayerGeometry>& geometries,
+                                    std::vector<double>& crests_m, const std::string& path) {
+  std::vector<std::size_t> order(crests_m.size());
   std::iota(order.begin(), order.end(), std::size_t{0});
-  std::stable_sort(order.begin(), order.end(),
-                   [&](std::size_t a, std::size_t b) { return crests[a] < crests[b]; });
+  std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return crests_m[a] < crests_m[b]; });
   std::vector<OGRGeometryH> handles;
   std::vector<double> burn;
   for (auto i : order) {
     handles.push_back(OGRGeometry::ToHandle(geometries[i].geometry.get()));
-    burn.push_back(crests[i]);
+    burn.push_back(crests_m[i]);
   }
-  const double nan = std::numeric_limits<double>::quiet_NaN();
-  auto mem = gdal::mem_raster(dem.grid, GDT_Float32, 1, nan);
+  crests_m = burn;
+  auto mem = gdal::mem_raster(dem.grid, GDT_Float32, 1, std::numeric_limits<double>::quiet_NaN());
   int band = 1;
   const char* options[] = {"ALL_TOUCHED=TRUE", nullptr};
   if (!handles.empty() &&
-      GDALRasterizeGeometries(GDALDataset::ToHandle(mem.get()), 1, &band,
-                              static_cast<int>(handles.size()), handles.data(), nullptr, nullptr,
-                              burn.data(), const_cast<char**>(options), nullptr,
+      GDALRasterizeGeometries(GDALDataset::ToHandle(mem.get()), 1, &band, static_cast<int>(handles.size()),
+                              handles.data(), nullptr, nullptr, burn.data(), const_cast<char**>(options), nullptr,
                               nullptr) != CE_None) {
-    throw InputError(source.path, "rasterising the defences failed (" + gdal::last_error() + ")",
+    throw InputError(path, "rasterising the defences failed (" + gdal::last_error() + ")",
                      "check their geometries with ogrinfo");
   }
-  const std::size_t cols = dem.grid.shape.cols;
-  const std::size_t rows = dem.grid.shape.rows;
+  const auto cols = static_cast<int>(dem.grid.shape.cols);
+  const auto rows = static_cast<int>(dem.grid.shape.rows);
   std::vector<float> crest(dem.grid.shape.cells());
-  if (mem->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, static_cast<int>(cols), static_cast<int>(rows),
-                                      crest.data(), static_cast<int>(cols), static_cast<int>(rows),
-                                      GDT_Float32, 0, 0, nullptr) != CE_None) {
-    throw InputError(source.path, "reading the rasterised defences failed", "check the file");
+  if (mem->GetRasterBand(1)->RasterIO(GF_Read, 0, 0, cols, rows, crest.data(), cols, rows, GDT_Float32, 0, 0,
+                                      nullptr) != CE_None) {
+    throw InputError(path, "reading the rasterised defences failed", "check the file");
   }
-  mem.reset();
+  return crest;
+}
+
+}  // namespace
+
+DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
+  auto ds = gdal::open_vector(source.path, "defence layer");
+  OGRLayer* layer =
+      source.layer.empty() ? ds->GetLayer(0) : ds->GetLayerByName(source.layer.c_str());
+  if (layer == nullptr) {
+    throw InputError(source.path, "has no layer '" + source.layer + "'",
+                     "name one of its layers (ogrinfo " + source.path + ")");
+  }
+  // Crest per feature, read before the geometries are reprojected (same feature order).
+  std::vector<double> crests = read_crests(*layer, source);
+  auto geometries = gdal::layer_geometries(*layer, dem.grid, source.path);
+  if (geometries.size() != crests.size()) {
+    throw InputError(source.path, "the layer changed while it was read", "read it again");
+  }
+  std::vector<float> crest = rasterise_crests(dem, geometries, crests, source.path);
   DefenceBurn out;
-  out.features = handles.size();
-  out.crests_m = burn;  // already in ascending order
+  out.features = crests.size();
+  out.crests_m = crests;  // ascending
   out.gaps_closed = close_diagonal_gaps(dem, crest);
   for (std::size_t i = 0; i < crest.size(); ++i) {
     if (std::isnan(crest[i]) || std::isnan(dem.elevation_m[i])) continue;
