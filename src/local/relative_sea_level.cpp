@@ -52,9 +52,8 @@ void check_ocean_dynamic(const OceanDynamicOffset& o, const std::vector<int>& ye
   }
 }
 
-}  // namespace
-
-LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const LocalTerms& terms) {
+// InputError for a projection and local terms that do not fit together.
+void check_local_inputs(const climate::ComponentEnsemble& global, const LocalTerms& terms) {
   const Eigen::Index members = global.member_count();
   const auto n_years = static_cast<Eigen::Index>(global.years.size());
   if (members == 0 || n_years == 0) {
@@ -87,6 +86,47 @@ LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const Lo
     throw InputError("projection warming", "is not members x years like the components",
                      "give warming for every member and year, or none");
   }
+}
+
+// Vertical land motion of each member and year (m), counted from the reference period's middle
+// (or the stated year); sets out.land_motion_reference_year.
+Eigen::MatrixXd land_motion_paths(const climate::ComponentEnsemble& global, const LocalTerms& terms, LocalRise& out) {
+  const Eigen::Index members = global.member_count();
+  const auto n_years = static_cast<Eigen::Index>(global.years.size());
+  const auto& lm = terms.land_motion;
+  // Vertical land motion: -v_i (t - t_v)/1000 m, v_i = v + sd_v s_i (mm/yr, uplift positive).
+  std::optional<double> t_v = lm.reference_year;
+  if (!t_v && global.reference_period) t_v = global.reference_period->middle_year();
+  const bool any_land_motion = lm.uplift_mm_per_yr != 0.0 || lm.uplift_sd_mm_per_yr != 0.0;
+  if (!t_v) {
+    if (any_land_motion) {
+      throw InputError("vertical land motion", "the projection's reference '" + global.reference +
+                                                   "' gives no year to count land motion from",
+                       "state the land-motion reference year");
+    }
+    t_v = static_cast<double>(global.years.front());
+  }
+  check_finite(*t_v, "vertical land motion", "the reference year");
+  out.land_motion_reference_year = *t_v;
+  const std::vector<double> s = lm.uplift_sd_mm_per_yr > 0.0
+                                    ? normal_scores(terms.seed, stream_land_motion, static_cast<std::size_t>(members))
+                                    : std::vector<double>(static_cast<std::size_t>(members), 0.0);
+  Eigen::MatrixXd vlm(members, n_years);
+  for (Eigen::Index i = 0; i < members; ++i) {
+    const double v = lm.uplift_mm_per_yr + lm.uplift_sd_mm_per_yr * s[static_cast<std::size_t>(i)];
+    for (Eigen::Index k = 0; k < n_years; ++k) {
+      vlm(i, k) = -v * (static_cast<double>(global.years[static_cast<std::size_t>(k)]) - *t_v) / 1000.0;
+    }
+  }
+  return vlm;
+}
+
+}  // namespace
+
+LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const LocalTerms& terms) {
+  check_local_inputs(global, terms);
+  const Eigen::Index members = global.member_count();
+  const auto n_years = static_cast<Eigen::Index>(global.years.size());
   LocalRise out;
   out.total.years = global.years;
   out.total.reference = global.reference;
@@ -117,30 +157,7 @@ LocalRise local_relative_rise(const climate::ComponentEnsemble& global, const Lo
     out.total.rise_m += out.contribution_m.back();
   }
 
-  // Vertical land motion: -v_i (t - t_v)/1000 m, v_i = v + sd_v s_i (mm/yr, uplift positive).
-  std::optional<double> t_v = lm.reference_year;
-  if (!t_v && global.reference_period) t_v = global.reference_period->middle_year();
-  const bool any_land_motion = lm.uplift_mm_per_yr != 0.0 || lm.uplift_sd_mm_per_yr != 0.0;
-  if (!t_v) {
-    if (any_land_motion) {
-      throw InputError("vertical land motion", "the projection's reference '" + global.reference +
-                                                   "' gives no year to count land motion from",
-                       "state the land-motion reference year");
-    }
-    t_v = static_cast<double>(global.years.front());
-  }
-  check_finite(*t_v, "vertical land motion", "the reference year");
-  out.land_motion_reference_year = *t_v;
-  const std::vector<double> s = lm.uplift_sd_mm_per_yr > 0.0
-                                    ? normal_scores(terms.seed, stream_land_motion, static_cast<std::size_t>(members))
-                                    : std::vector<double>(static_cast<std::size_t>(members), 0.0);
-  Eigen::MatrixXd vlm(members, n_years);
-  for (Eigen::Index i = 0; i < members; ++i) {
-    const double v = lm.uplift_mm_per_yr + lm.uplift_sd_mm_per_yr * s[static_cast<std::size_t>(i)];
-    for (Eigen::Index k = 0; k < n_years; ++k) {
-      vlm(i, k) = -v * (static_cast<double>(global.years[static_cast<std::size_t>(k)]) - *t_v) / 1000.0;
-    }
-  }
+  const Eigen::MatrixXd vlm = land_motion_paths(global, terms, out);
   out.component_names.emplace_back(vertical_land_motion);
   out.contribution_m.push_back(vlm);
   out.total.rise_m += vlm;
