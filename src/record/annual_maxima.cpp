@@ -13,6 +13,85 @@ namespace {
 
 using detail::format_number;
 
+// The year of a row: a whole number, not seen before, not before the previous row's year.
+class YearCheck {
+ public:
+  YearCheck(const CsvTable& table, const ReadOptions& options, std::size_t year_col)
+      : table_(table), options_(options), year_col_(year_col) {}
+  int operator()(const CsvRow& row) {
+    const std::string& year_cell = row.cells[year_col_];
+    const auto year_value =
+        whole_year(options_.missing.is_marker(year_cell) ? std::nullopt : parse_finite_double(year_cell));
+    if (!year_value) {
+      throw InputError(table_.where(row),
+                       "column '" + table_.header()[year_col_] + "' holds '" + year_cell +
+                           "', which is not a whole year",
+                       "write the year as an integer such as 1987");
+    }
+    const int year = *year_value;
+    if (const auto seen = line_of_year_.find(year); seen != line_of_year_.end()) {
+      throw InputError(table_.where(row),
+                       "year " + std::to_string(year) + " is given twice (lines " + std::to_string(seen->second) +
+                           " and " + std::to_string(row.line) + ")",
+                       "give one row per year");
+    }
+    if (previous_line_ != 0 && year < previous_year_) {
+      throw InputError(table_.where(row),
+                       "year " + std::to_string(year) + " comes after year " + std::to_string(previous_year_) +
+                           " on line " + std::to_string(previous_line_),
+                       "sort the rows by year");
+    }
+    line_of_year_.emplace(year, row.line);
+    previous_year_ = year;
+    previous_line_ = row.line;
+    return year;
+  }
+
+ private:
+  const CsvTable& table_;
+  const ReadOptions& options_;
+  std::size_t year_col_;
+  std::map<int, std::size_t> line_of_year_;
+  int previous_year_ = 0;
+  std::size_t previous_line_ = 0;
+};
+
+// A row's values in metres, largest first (r-largest columns after the level); missing ones
+// only at the end. Counts a missing or sentinel level in `cleaning`.
+std::vector<double> row_values(const CsvTable& table, const CsvRow& row, const std::vector<std::size_t>& value_cols,
+                               const ReadOptions& options, double to_m, CleaningCounts& cleaning) {
+  std::vector<double> values;
+  bool gap = false;
+  for (std::size_t k = 0; k < value_cols.size(); ++k) {
+    const std::size_t col = value_cols[k];
+    const std::string& cell = row.cells[col];
+    std::optional<double> v;
+    if (options.missing.is_marker(cell)) {
+      if (k == 0) ++cleaning.missing;
+    } else {
+      v = table.number(row, col, options.missing);
+      if (!v && k == 0) ++cleaning.sentinels;
+    }
+    if (!v) {
+      gap = true;
+      continue;
+    }
+    if (gap) {
+      throw InputError(table.where(row), "column '" + table.header()[col] + "' holds a value after a missing one",
+                       "give the r largest values of a year from the largest down, missing "
+                       "values only at the end of the row");
+    }
+    const double metres = *v * to_m;
+    if (!values.empty() && metres > values.back()) {
+      throw InputError(table.where(row),
+                       "column '" + table.header()[col] + "' holds " + cell + ", larger than the value before it",
+                       "give the r largest values of a year in decreasing order");
+    }
+    values.push_back(metres);
+  }
+  return values;
+}
+
 AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
   const double to_m = metres_per_unit(options.unit);
   const std::size_t year_col = table.column(options.year_column);
@@ -23,70 +102,12 @@ AnnualMaxima from_table(const CsvTable& table, const ReadOptions& options) {
   AnnualMaxima am;
   am.datum = options.datum;
   am.source = options.recorded_as.empty() ? table.source() : options.recorded_as;
-  std::map<int, std::size_t> line_of_year;
+  YearCheck check_year(table, options, year_col);
   std::vector<std::size_t> value_lines;
-  int previous_year = 0;
-  std::size_t previous_line = 0;
   for (const auto& row : table.rows()) {
     ++am.cleaning.rows_read;
-    const std::string& year_cell = row.cells[year_col];
-    const auto year_value =
-        whole_year(options.missing.is_marker(year_cell) ? std::nullopt : parse_finite_double(year_cell));
-    if (!year_value) {
-      throw InputError(table.where(row),
-                       "column '" + table.header()[year_col] + "' holds '" + year_cell +
-                           "', which is not a whole year",
-                       "write the year as an integer such as 1987");
-    }
-    const int year = *year_value;
-    if (const auto seen = line_of_year.find(year); seen != line_of_year.end()) {
-      throw InputError(table.where(row),
-                       "year " + std::to_string(year) + " is given twice (lines " +
-                           std::to_string(seen->second) + " and " + std::to_string(row.line) + ")",
-                       "give one row per year");
-    }
-    if (previous_line != 0 && year < previous_year) {
-      throw InputError(table.where(row),
-                       "year " + std::to_string(year) + " comes after year " +
-                           std::to_string(previous_year) + " on line " +
-                           std::to_string(previous_line),
-                       "sort the rows by year");
-    }
-    line_of_year.emplace(year, row.line);
-    previous_year = year;
-    previous_line = row.line;
-
-    std::vector<double> values;
-    bool gap = false;
-    for (std::size_t k = 0; k < value_cols.size(); ++k) {
-      const std::size_t col = value_cols[k];
-      const std::string& cell = row.cells[col];
-      std::optional<double> v;
-      if (options.missing.is_marker(cell)) {
-        if (k == 0) ++am.cleaning.missing;
-      } else {
-        v = table.number(row, col, options.missing);
-        if (!v && k == 0) ++am.cleaning.sentinels;
-      }
-      if (!v) {
-        gap = true;
-        continue;
-      }
-      if (gap) {
-        throw InputError(table.where(row),
-                         "column '" + table.header()[col] + "' holds a value after a missing one",
-                         "give the r largest values of a year from the largest down, missing "
-                         "values only at the end of the row");
-      }
-      const double metres = *v * to_m;
-      if (!values.empty() && metres > values.back()) {
-        throw InputError(table.where(row),
-                         "column '" + table.header()[col] + "' holds " + cell +
-                             ", larger than the value before it",
-                         "give the r largest values of a year in decreasing order");
-      }
-      values.push_back(metres);
-    }
+    const int year = check_year(row);
+    std::vector<double> values = row_values(table, row, value_cols, options, to_m, am.cleaning);
     if (values.empty()) {
       am.dropped.push_back({year, 0.0, "no value in the file"});
       continue;
