@@ -1,7 +1,8 @@
 #!/bin/sh
 # Builds tidewright and runs the whole test suite, reference cross-checks included, first in
 # a Release build with warnings as errors, then under AddressSanitizer and
-# UndefinedBehaviorSanitizer. Installs missing Debian packages first (as root). Safe to run
+# UndefinedBehaviorSanitizer, with the code rules of tests/lint.sh between the two. Installs
+# missing Debian packages first (as root). Safe to run
 # twice. Then every reader of outside input is fuzzed with a fixed verdict (tests/fuzz/run.sh:
 # the kept corpus, then a fixed number of executions with a fixed seed).
 # Set TIDEWRIGHT_SKIP_SANITIZER=1 to run only the Release pass, TIDEWRIGHT_SKIP_FUZZ=1 to skip
@@ -16,6 +17,9 @@ echo "== tidewright: Release build (warnings are errors) =="
 cmake --preset ci
 cmake --build --preset ci -j "$jobs"
 ctest --preset ci -j "$jobs"
+
+echo "== tidewright: code rules (no function over 100 lines, tests/lint.sh) =="
+sh "$root/tests/lint.sh" "$root/build/ci"
 
 if [ "${TIDEWRIGHT_SKIP_SANITIZER:-0}" != 1 ]; then
   echo "== tidewright: AddressSanitizer + UndefinedBehaviorSanitizer build =="

@@ -378,12 +378,7 @@ void print_summary(const terrain::MapSummary& s, const std::string& out) {
   std::cout << "\nCautions:\n" << report::cautions_text("  - ", 92);
 }
 
-void configure(CLI::App& app, CommonOptions& common) {
-  auto o = std::make_shared<MapOptions>();
-  app.description(
-      "Flood-threshold raster of a DEM (priority-flood from the sea), and from it extent, depth, "
-      "annual exceedance probability and first-year rasters, extent polygons and a summary table. "
-      "Levels in metres above the water-level datum.");
+void add_dem_options(CLI::App& app, MapOptions* o) {
   app.add_option("--dem", o->dem, "DEM raster (any GDAL format)")->required()->type_name("FILE");
   app.add_option("--dem-band", o->band, "Band of the DEM to read")->default_val(1);
   app.add_option("--dem-nodata", o->dem_nodata,
@@ -407,6 +402,9 @@ void configure(CLI::App& app, CommonOptions& common) {
       ->type_name("FILE");
   app.add_flag("--same-datum", o->same_datum,
                "State that the DEM's datum is the water-level datum");
+}
+
+void add_sea_options(CLI::App& app, MapOptions* o) {
   app.add_option("--sea", o->sea, "Sea mask: polygons (OGR) or raster (non-zero = sea)")
       ->type_name("FILE");
   app.add_option("--sea-layer", o->sea_layer, "Layer of --sea that is the sea (needed when it has several)")
@@ -434,6 +432,9 @@ void configure(CLI::App& app, CommonOptions& common) {
                  "4 or 8 neighbours (8: water passes diagonally, the cautious side)")
       ->check(CLI::IsMember({4, 8}))
       ->default_val(8);
+}
+
+void add_level_options(CLI::App& app, MapOptions* o) {
   // Lists of plain numbers take the same syntax as in every command: comma-separated, or the
   // option repeated.
   app.add_option("--level", o->levels,
@@ -479,6 +480,9 @@ void configure(CLI::App& app, CommonOptions& common) {
                  "Write first_year.tif: first projected (or --rise) year a cell's AEP reaches P")
       ->type_name("P")
       ->check(CLI::Range(1e-9, 1.0));
+}
+
+void add_output_options(CLI::App& app, MapOptions* o) {
   app.add_flag("--polygons", o->polygons, "Write extent polygons (extent.gpkg; see --polygon-format)");
   app.add_option("--polygon-format", o->polygon_format,
                  "Format of the extent polygons: gpkg (GeoPackage), fgb (FlatGeobuf) or shp (Shapefile)")
@@ -496,27 +500,46 @@ void configure(CLI::App& app, CommonOptions& common) {
   app.add_option("--compress", o->compress, "GeoTIFF compression: deflate or zstd")
       ->check(CLI::IsMember({"deflate", "zstd"}))
       ->default_val("deflate");
+}
+
+// The command line as given, for the outputs' records: flags, then each option's values
+// shell-quoted (a model's numbers joined by commas, as typed).
+std::string command_recipe(const CLI::App& app) {
+  std::string recipe = "tidewright map";
+  for (const auto* opt : app.get_options()) {
+    if (opt->count() == 0 || opt->get_name() == "--help") continue;
+    const std::string name = opt->get_name();
+    if (opt->get_expected_max() == 0) {  // a flag
+      recipe += " " + name;
+    } else if (name == "--gumbel" || name == "--gev" || name == "--gpd") {
+      std::string joined;
+      for (const auto& r : opt->results()) {
+        if (!joined.empty()) joined += ',';
+        joined += r;
+      }
+      recipe.append(" ").append(name).append(" ").append(shell_word(joined));
+    } else {
+      for (const auto& r : opt->results()) recipe.append(" ").append(name).append(" ").append(shell_word(r));
+    }
+  }
+  return recipe;
+}
+
+void configure(CLI::App& app, CommonOptions& common) {
+  auto o = std::make_shared<MapOptions>();
+  app.description(
+      "Flood-threshold raster of a DEM (priority-flood from the sea), and from it extent, depth, "
+      "annual exceedance probability and first-year rasters, extent polygons and a summary table. "
+      "Levels in metres above the water-level datum.");
+  add_dem_options(app, o.get());
+  add_sea_options(app, o.get());
+  add_level_options(app, o.get());
+  add_output_options(app, o.get());
   add_out_dir_option(app, o->out)->required();
   add_force_flag(app, common);
   add_quiet_flag(app, common);
   app.callback([o, &common, &app] {
-    std::string recipe = "tidewright map";
-    for (const auto* opt : app.get_options()) {
-      if (opt->count() == 0 || opt->get_name() == "--help") continue;
-      const std::string name = opt->get_name();
-      if (opt->get_expected_max() == 0) {  // a flag
-        recipe += " " + name;
-      } else if (name == "--gumbel" || name == "--gev" || name == "--gpd") {
-        std::string joined;
-        for (const auto& r : opt->results()) {
-          if (!joined.empty()) joined += ',';
-          joined += r;
-        }
-        recipe.append(" ").append(name).append(" ").append(shell_word(joined));
-      } else {
-        for (const auto& r : opt->results()) recipe.append(" ").append(name).append(" ").append(shell_word(r));
-      }
-    }
+    const std::string recipe = command_recipe(app);
     std::vector<std::string> notes;
     const auto req = build_request(*o, common, recipe, notes);
     // GDAL's own messages would break the one-line error rule; the library reports its

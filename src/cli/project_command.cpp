@@ -57,6 +57,65 @@ void print_result(const study::ProjectionStageResult& r, std::ostream& out) {
   out << o.str();
 }
 
+void run(const ProjectArgs* a, const CommonOptions& common) {
+  if (a->list) {
+    report::TextTable t({"pathway", "forcing 2100 (W/m2)", "comparable assessed scenario", "what it is"});
+    for (const auto& p : climate::builtin_pathways()) {
+      t.add_row({p.name, report::fixed(p.forcing_2100_w_m2, 1), p.comparable_assessed, p.summary});
+    }
+    std::cout << "Built-in illustrative pathways (not official scenario data):\n" << t.render();
+    return;
+  }
+  const std::vector<DataOutput> outputs{{a->json, "--json"}, {a->csv, "--csv"}};
+  check_data_outputs(outputs, common.force);
+  if (!a->members.empty()) check_output_path(a->members, common.force, "--members");
+  if (!a->plot.empty()) check_plot_path(a->plot, common.force);
+  study::ProjectionRequest r;
+  r.label = a->label;
+  if (!a->pathway.empty()) {
+    r.source = study::ScenarioSource::pathway;
+    r.pathway = a->pathway;
+  } else if (!a->forcing.empty()) {
+    r.source = study::ScenarioSource::forcing_csv;
+    r.path = a->forcing;
+  } else if (!a->co2.empty()) {
+    r.source = study::ScenarioSource::co2_csv;
+    r.path = a->co2;
+  } else if (!a->warming.empty()) {
+    r.source = study::ScenarioSource::temperature_csv;
+    r.path = a->warming;
+  } else {
+    r.source = study::ScenarioSource::table;
+    r.path = a->table;
+  }
+  r.co2_formula = a->co2_formula == "meinshausen2020" ? climate::Co2ForcingFormula::meinshausen2020
+                                                      : climate::Co2ForcingFormula::myhre1998;
+  r.first_year = a->first_year;
+  r.last_year = a->last_year;
+  r.members = a->samples;
+  r.accept_extreme_inputs = a->accept_extreme;
+  r.storyline = study::value_named(study::storyline_names(), a->storyline, "--storyline");
+  r.seed = a->seed;
+  r.reference = climate::parse_year_span(a->reference, "--reference");
+  for (const auto& f : a->fingerprints) {
+    const auto eq = f.find('=');
+    const auto v = eq == std::string::npos ? std::nullopt : parse_finite_double(f.substr(eq + 1));
+    if (!v) throw InputError("--fingerprint", "is '" + f + "'", "give component=factor, e.g. greenland=0.8");
+    r.local.fingerprint[f.substr(0, eq)] = *v;
+  }
+  r.local.land_motion.uplift_mm_per_yr = a->land_motion;
+  r.local.land_motion.uplift_sd_mm_per_yr = a->land_motion_sd;
+  r.local_terms_given = !a->fingerprints.empty() || a->land_motion != 0.0 || a->land_motion_sd != 0.0;
+  const auto result = study::run_projection_stage(r);
+  if (!a->json.empty()) write_data_output(outputs[0], study::projection_json(result), common.force);
+  if (!a->csv.empty()) write_data_output(outputs[1], study::projection_csv(result), common.force);
+  if (!a->members.empty()) study::write_members_csv(a->members, result.local.total, common.force);
+  if (!a->plot.empty()) {
+    write_plot(report::projection_fan_chart(study::fan_chart_input(result, result.local.total)), a->plot, common.force);
+  }
+  if (!common.quiet) print_result(result, summary_stream(outputs));
+}
+
 void configure(CLI::App& app, CommonOptions& common) {
   auto a = std::make_shared<ProjectArgs>();
   std::string pathways;
@@ -101,64 +160,7 @@ void configure(CLI::App& app, CommonOptions& common) {
   add_force_flag(app, common);
   add_quiet_flag(app, common);
 
-  app.callback([a, &common] {
-    if (a->list) {
-      report::TextTable t({"pathway", "forcing 2100 (W/m2)", "comparable assessed scenario", "what it is"});
-      for (const auto& p : climate::builtin_pathways()) {
-        t.add_row({p.name, report::fixed(p.forcing_2100_w_m2, 1), p.comparable_assessed, p.summary});
-      }
-      std::cout << "Built-in illustrative pathways (not official scenario data):\n" << t.render();
-      return;
-    }
-    const std::vector<DataOutput> outputs{{a->json, "--json"}, {a->csv, "--csv"}};
-    check_data_outputs(outputs, common.force);
-    if (!a->members.empty()) check_output_path(a->members, common.force, "--members");
-    if (!a->plot.empty()) check_plot_path(a->plot, common.force);
-    study::ProjectionRequest r;
-    r.label = a->label;
-    if (!a->pathway.empty()) {
-      r.source = study::ScenarioSource::pathway;
-      r.pathway = a->pathway;
-    } else if (!a->forcing.empty()) {
-      r.source = study::ScenarioSource::forcing_csv;
-      r.path = a->forcing;
-    } else if (!a->co2.empty()) {
-      r.source = study::ScenarioSource::co2_csv;
-      r.path = a->co2;
-    } else if (!a->warming.empty()) {
-      r.source = study::ScenarioSource::temperature_csv;
-      r.path = a->warming;
-    } else {
-      r.source = study::ScenarioSource::table;
-      r.path = a->table;
-    }
-    r.co2_formula = a->co2_formula == "meinshausen2020" ? climate::Co2ForcingFormula::meinshausen2020
-                                                        : climate::Co2ForcingFormula::myhre1998;
-    r.first_year = a->first_year;
-    r.last_year = a->last_year;
-    r.members = a->samples;
-    r.accept_extreme_inputs = a->accept_extreme;
-    r.storyline = study::value_named(study::storyline_names(), a->storyline, "--storyline");
-    r.seed = a->seed;
-    r.reference = climate::parse_year_span(a->reference, "--reference");
-    for (const auto& f : a->fingerprints) {
-      const auto eq = f.find('=');
-      const auto v = eq == std::string::npos ? std::nullopt : parse_finite_double(f.substr(eq + 1));
-      if (!v) throw InputError("--fingerprint", "is '" + f + "'", "give component=factor, e.g. greenland=0.8");
-      r.local.fingerprint[f.substr(0, eq)] = *v;
-    }
-    r.local.land_motion.uplift_mm_per_yr = a->land_motion;
-    r.local.land_motion.uplift_sd_mm_per_yr = a->land_motion_sd;
-    r.local_terms_given = !a->fingerprints.empty() || a->land_motion != 0.0 || a->land_motion_sd != 0.0;
-    const auto result = study::run_projection_stage(r);
-    if (!a->json.empty()) write_data_output(outputs[0], study::projection_json(result), common.force);
-    if (!a->csv.empty()) write_data_output(outputs[1], study::projection_csv(result), common.force);
-    if (!a->members.empty()) study::write_members_csv(a->members, result.local.total, common.force);
-    if (!a->plot.empty()) {
-      write_plot(report::projection_fan_chart(study::fan_chart_input(result, result.local.total)), a->plot, common.force);
-    }
-    if (!common.quiet) print_result(result, summary_stream(outputs));
-  });
+  app.callback([a, &common] { run(a.get(), common); });
 }
 
 const bool registered = register_command(

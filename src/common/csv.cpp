@@ -112,7 +112,10 @@ CsvTable CsvTable::read(const std::filesystem::path& path, const CsvOptions& opt
   return parse(buffer.str(), path.string(), options);
 }
 
-CsvTable CsvTable::parse(std::string_view text, std::string source, const CsvOptions& options) {
+// One pass of the RFC 4180 state machine over the text: its states share the cell, row and
+// line being built, so split it would pass them all around.
+CsvTable CsvTable::parse(std::string_view text, std::string source,  // NOLINT(readability-function-size)
+                         const CsvOptions& options) {
   CsvTable table;
   table.source_ = std::move(source);
   if (text.size() >= 3 && text.substr(0, 3) == "\xEF\xBB\xBF") text.remove_prefix(3);

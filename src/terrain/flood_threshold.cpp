@@ -124,7 +124,10 @@ OffsetTable neighbour_offsets(const TiledGrid& g) {
 
 }  // namespace
 
-std::vector<float> flood_threshold_barnes2014(GridShape shape, std::span<const float> elevation_m,
+// The priority-flood kernel (Barnes, Lehman & Mulla 2014, Algorithm 2) kept whole: its loop
+// reads as the paper's, and split, the tiled layout's indexing would spread over several functions.
+std::vector<float> flood_threshold_barnes2014(GridShape shape,  // NOLINT(readability-function-size)
+                                              std::span<const float> elevation_m,
                                               std::span<const std::uint8_t> is_sea,
                                               Connectivity connectivity) {
   const std::size_t n = shape.cells();
