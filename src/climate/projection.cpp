@@ -117,7 +117,7 @@ double span_mean(const std::vector<double>& v, const std::vector<int>& years, co
   return sum / static_cast<double>(span.last_year - span.first_year + 1);
 }
 
-void check_span(const YearSpan& s, int lo, int hi, const char* option) {
+void check_span(const YearSpan& s, int lo, int hi, const std::string& option) {
   if (s.first_year > s.last_year || s.first_year < lo || s.last_year > hi) {
     throw InputError(option, "years " + s.label() + " lie outside the run " + std::to_string(lo) + "-" + std::to_string(hi),
                      "choose years inside the run (first <= last)");
@@ -173,7 +173,7 @@ void validate(const Scenario& s, const ProjectionOptions& o) {
     }
   }
   if (o.member_count <= 0) {
-    throw InputError("--samples", "sample count must be positive, got " + std::to_string(o.member_count),
+    throw InputError(o.input_names.members, "sample count must be positive, got " + std::to_string(o.member_count),
                      "give a positive number of members");
   }
   if (o.spinup_start_year != historical_ramp_start_year) {
@@ -181,16 +181,16 @@ void validate(const Scenario& s, const ProjectionOptions& o) {
                      "the historical forcing ramp starts from equilibrium in 1850");
   }
   if (o.first_year > o.last_year) {
-    throw InputError("--years", "first year " + std::to_string(o.first_year) + " is after last year " +
+    throw InputError(o.input_names.years, "first year " + std::to_string(o.first_year) + " is after last year " +
                                     std::to_string(o.last_year), "give first <= last");
   }
   if (o.first_year < o.spinup_start_year) {
-    throw InputError("--years", "first year " + std::to_string(o.first_year) + " is before " +
+    throw InputError(o.input_names.years, "first year " + std::to_string(o.first_year) + " is before " +
                                     std::to_string(o.spinup_start_year), "the model starts in 1850");
   }
   const int last = last_needed_year(o);
   if (last > s.last_year()) {
-    throw InputError("--years", "year " + std::to_string(last) + " lies outside the scenario '" + s.label + "' (" +
+    throw InputError(o.input_names.years, "year " + std::to_string(last) + " lies outside the scenario '" + s.label + "' (" +
                                     std::to_string(s.first_year()) + "-" + std::to_string(s.last_year()) + ")",
                      "ask for years the scenario covers or extend the scenario");
   }
@@ -199,7 +199,7 @@ void validate(const Scenario& s, const ProjectionOptions& o) {
                                      std::to_string(historical_ramp_end_year + 1),
                      "give forcing from 2020 or earlier (the historical ramp ends in 2019)");
   }
-  check_span(o.reference, o.spinup_start_year, last, "--reference");
+  check_span(o.reference, o.spinup_start_year, last, o.input_names.reference);
   check_span(o.warming_reference, o.spinup_start_year, last, "warming reference");
   validate(o.central.energy_balance);
 }

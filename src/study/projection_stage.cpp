@@ -248,6 +248,7 @@ ProjectionStageResult run_projection_stage(const ProjectionRequest& r) {
   options.member_count = r.members;
   options.seed = r.seed;
   options.reference = r.reference;
+  options.input_names = {r.input_names.members, r.input_names.years, r.input_names.reference};
   options.storyline = r.storyline;
   climate::validate(scenario, options);
   out.global = climate::project_global_components(scenario, options);

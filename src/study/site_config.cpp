@@ -219,6 +219,10 @@ void read_map(TomlReader& root, SiteConfig& c) {
     throw InputError(mp->where("dem"), "the relation between the DEM's datum and the water-level datum is not given",
                      "set map.dem_offset_m, or map.same_datum = true if they are the same");
   }
+  c.map.dem_crs = mp->optional_string("dem_crs").value_or("");
+  c.map.dem_nodata = mp->optional_number("dem_nodata");
+  c.map.z_units = mp->optional_string("z_units").value_or("");
+  c.map.z_factor = mp->optional_number("z_factor");
   c.map.sea = mp->optional_path("sea");
   if (mp->has("window")) {
     const auto w = mp->numbers("window");

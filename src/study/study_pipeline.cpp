@@ -59,6 +59,7 @@ ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings
   r.accept_extreme_inputs = c.projection.accept_extreme;
   r.input_names.members = field_location(c.file.string(), "projection.members");
   r.input_names.years = field_location(c.file.string(), "projection.start_year/end_year");
+  r.input_names.reference = field_location(c.file.string(), "projection.reference");
   r.input_names.land_motion = field_location(c.file.string(), "local.land_motion_mm_per_yr");
   r.input_names.land_motion_sd = field_location(c.file.string(), "local.land_motion_sd_mm_per_yr");
   r.input_names.accept_extreme = "set projection.accept_extreme = true";
@@ -129,6 +130,21 @@ terrain::MapRequest map_request(const StudyResults& r, const SiteConfig& c, cons
   m.dem.recorded_as = path_as_written(c.map.dem, c);
   m.dem.window = c.map.window;
   m.dem.window_name = field_location(c.file.string(), "map.window");
+  m.dem.crs_override = c.map.dem_crs;
+  m.dem.nodata = c.map.dem_nodata;
+  m.dem.z_units = c.map.z_units;
+  m.dem.z_factor = c.map.z_factor;
+  // Messages name the site file's keys, not the map command's flags.
+  m.dem.crs_name = "map.dem_crs";
+  m.dem.nodata_name = "map.dem_nodata =";
+  m.dem.z_units_name = "map.z_units";
+  m.dem.z_factor_name = "map.z_factor";
+  m.dem.datum_names = "map.dem_offset_m, or map.same_datum = true if they are the same";
+  m.sea.spread_input = field_location(c.file.string(), "map.sea_spread_to_m");
+  m.sea.ways = "map.sea (polygons or a raster mask of the sea)";
+  m.names.level = field_location(c.file.string(), "map.return_periods/map.years") + " (a mapped level)";
+  m.names.accept_high_level = "check the fit and the projection behind it";
+  m.names.polygons = field_location(c.file.string(), "map");
   if (c.map.same_datum) m.dem.datum.kind = terrain::DatumRelation::Kind::same;
   else {
     m.dem.datum.kind = terrain::DatumRelation::Kind::constant;
@@ -149,6 +165,8 @@ terrain::MapRequest map_request(const StudyResults& r, const SiteConfig& c, cons
     d.recorded_as = path_as_written(*c.map.defences, c);
     d.crest_field = c.map.crest_attribute;
     d.crest_in_water_datum = true;
+    d.crest_field_input = "map.crest_attribute";
+    d.crest_datum_input = "that the crests are heights above the water-level datum (as a study reads them)";
     m.defences = d;
   }
   m.connectivity = c.map.connectivity;

@@ -70,7 +70,7 @@ std::vector<double> read_crests(OGRLayer& layer, const DefenceSource& source) {
     throw InputError(source.path + ": " + source.crest_field,
                      "the defence layer has no crest-level attribute '" + source.crest_field +
                          "' (its attributes: " + (fields.empty() ? "none" : fields) + ")",
-                     "name the crest-level attribute with --crest-field");
+                     "name the crest-level attribute with " + source.crest_field_input);
   }
   std::vector<double> crests;
   layer.ResetReading();
@@ -169,8 +169,8 @@ DefenceBurn burn_defences(Dem& dem, const DefenceSource& source) {
                            "extent against the DEM (ogrinfo -so, gdalinfo)");
   } else if (out.cells_raised == 0) {
     out.warnings.push_back(shown + ": every defence crest is at or below the ground under it (" +
-                           std::to_string(out.cells_touched) + " cells), so none was raised: check --crest-field and "
-                           "--crest-datum");
+                           std::to_string(out.cells_touched) + " cells), so none was raised: check " +
+                           source.crest_field_input + " and " + source.crest_datum_input);
   }
   return out;
 }

@@ -184,19 +184,20 @@ constexpr float common_fill_values[] = {-9999.0F, -32768.0F, -32767.0F, -99999.0
                                         -3.4028234663852886e38F, 3.4028234663852886e38F};
 constexpr std::size_t max_undeclared_fill_cells = 3;
 
-std::optional<std::string> undeclared_fill(const std::vector<float>& stored) {
+std::optional<std::string> undeclared_fill(const std::vector<float>& stored, const std::string& nodata_name) {
   for (const float fill : common_fill_values) {
     const auto n = static_cast<std::size_t>(std::count(stored.begin(), stored.end(), fill));
     if (n > max_undeclared_fill_cells) {
       return std::to_string(n) + " cells hold " + number(static_cast<double>(fill)) +
              ", a common no-data value, but it is not declared nodata: they are mapped as elevations "
-             "(declare it with --dem-nodata " + number(static_cast<double>(fill)) + ")";
+             "(declare it with " + nodata_name + " " + number(static_cast<double>(fill)) + ")";
     }
   }
   return std::nullopt;
 }
 
-std::optional<std::string> unit_suspicion(const std::vector<float>& z, GDALDataType type, bool scaled) {
+std::optional<std::string> unit_suspicion(const std::vector<float>& z, GDALDataType type, bool scaled,
+                                          const std::string& z_units_name) {
   float lo = std::numeric_limits<float>::infinity();
   float hi = -lo;
   for (const float v : z) {
@@ -218,7 +219,7 @@ std::optional<std::string> unit_suspicion(const std::vector<float>& z, GDALDataT
          (wide ? "values spanning " + number(static_cast<double>(hi) - static_cast<double>(lo)) +
                      " units, more than 1000"
                : "") +
-         "); state the unit with --z-units (m, ft, us-ft, cm, mm) to be sure";
+         "); state the unit with " + z_units_name + " (m, ft, us-ft, cm, mm) to be sure";
 }
 
 }  // namespace
@@ -304,7 +305,7 @@ OGRSpatialReference dem_crs(GDALDataset& ds, const DemSource& source) {
   if (srs != nullptr) return *srs;
   if (!source.crs_override.empty()) {
     if (chosen.SetFromUserInput(source.crs_override.c_str()) != OGRERR_NONE) {
-      throw InputError("--dem-crs", "'" + source.crs_override + "' is not a CRS GDAL knows",
+      throw InputError(source.crs_name, "'" + source.crs_override + "' is not a CRS GDAL knows",
                        "give an EPSG code such as EPSG:32633 or a WKT string");
     }
     return chosen;
@@ -312,7 +313,7 @@ OGRSpatialReference dem_crs(GDALDataset& ds, const DemSource& source) {
   throw InputError(source.path,
                    "the DEM has no coordinate reference system, so neither areas nor the sea "
                    "and defence layers can be placed on it",
-                   "assign one (gdal_edit.py -a_srs EPSG:XXXX) or pass --dem-crs EPSG:XXXX");
+                   "assign one (gdal_edit.py -a_srs EPSG:XXXX) or give one with " + source.crs_name);
 }
 
 // The window's values as float32, a block of rows at a time, dropping GDAL's cached copy of
@@ -350,7 +351,7 @@ NodataCount mark_nodata(Dem& dem, GDALRasterBand& band, const DemSource& source)
     return (n.file_has_nodata && v == static_cast<float>(n.file_nodata)) ||
            (source.nodata && v == static_cast<float>(*source.nodata));
   };
-  if (auto w = undeclared_fill(dem.elevation_m)) {
+  if (auto w = undeclared_fill(dem.elevation_m, source.nodata_name)) {
     // Only values not declared: a declared nodata of -9999 is fine.
     const bool declared_fill = std::any_of(std::begin(common_fill_values), std::end(common_fill_values),
                                            [&](float f) { return is_declared(f); });
@@ -388,7 +389,7 @@ void apply_vertical_scale(Dem& dem, GDALRasterBand& band, const VerticalScale& v
   }
   // Judged on the band's values after its scale and offset (the unit is metres, assumed).
   if (!vertical.stated) {
-    if (auto w = unit_suspicion(dem.elevation_m, band.GetRasterDataType(), scaled)) {
+    if (auto w = unit_suspicion(dem.elevation_m, band.GetRasterDataType(), scaled, source.z_units_name)) {
       dem.warnings.push_back(recorded_name(source) + ": " + *w);
     }
   }
@@ -407,8 +408,7 @@ std::string apply_datum(Dem& dem, const DemSource& source) {
       throw InputError("DEM datum",
                        "the relation between the DEM's vertical datum and the water-level datum is "
                        "not stated",
-                       "give --datum-offset M, --datum-offset-raster FILE, or --same-datum if they "
-                       "are the same");
+                       "give " + source.datum_names);
     case DatumRelation::Kind::same:
       datum = "DEM datum = water-level datum (stated by the user)";
       break;

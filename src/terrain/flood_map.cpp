@@ -348,7 +348,7 @@ FloodThresholdMap prepare_flood_threshold(const DemSource& dem, const SeaSource&
   map.sea = find_sea_cells(map.dem, sea, connectivity);
   map.threshold_m = flood_threshold_barnes2014(map.dem.grid.shape, map.dem.elevation_m,
                                                map.sea.is_sea, connectivity);
-  if (sea.spread_to_m) (void)spread_sea(map.sea, map.threshold_m, *sea.spread_to_m);
+  if (sea.spread_to_m) (void)spread_sea(map.sea, map.threshold_m, *sea.spread_to_m, sea.spread_input);
   return map;
 }
 
@@ -359,21 +359,21 @@ namespace {
 void check_levels(const MapRequest& req) {
   for (const auto& l : req.levels) {
     if (!std::isfinite(l.level_m)) {
-      throw InputError("--level", "a level is not a finite number", "give levels in metres");
+      throw InputError(req.names.level, "a level is not a finite number", "give levels in metres");
     }
     if (l.level_m > max_plausible_level_m && !req.accept_high_levels) {
-      throw InputError("--level",
+      throw InputError(req.names.level,
                        "the level " + fixed(l.level_m) + " m lies more than " +
                            fixed(max_plausible_level_m) + " m above the water-level datum (centimetres or feet?)",
-                       "give levels in metres, or pass --accept-high-level to map it on purpose");
+                       "give levels in metres, or " + req.names.accept_high_level);
     }
   }
   if (req.sea.spread_to_m) {
     const double spread = *req.sea.spread_to_m;
-    check_spread_level(spread);
+    check_spread_level(spread, req.sea.spread_input);
     for (const auto& l : req.levels) {
       if (l.level_m < spread) {
-        throw InputError("--sea-spread-to",
+        throw InputError(req.sea.spread_input,
                          "the sea spread to " + fixed(spread) + " m lies above the mapped level " +
                              fixed(l.level_m) + " m, so dry land between the two would show as sea",
                          "give a spread level at or below every mapped level (today's high water)");
@@ -381,7 +381,7 @@ void check_levels(const MapRequest& req) {
     }
   }
   if (req.polygons && req.levels.empty()) {
-    throw InputError("--polygons", "extent polygons need at least one level", "give --level M");
+    throw InputError(req.names.polygons, "extent polygons need at least one level", "give " + req.names.level + " M");
   }
 }
 

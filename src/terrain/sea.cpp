@@ -264,8 +264,7 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
     add_part("nodata cells declared sea");
   }
   if (parts.empty()) {
-    throw InputError("sea", "no sea is given",
-                     "give --sea FILE, --sea-point X,Y, --sea-edge-below M or --nodata-is-sea");
+    throw InputError("sea", "no sea is given", "give " + source.ways);
   }
   for (auto s : sea.is_sea) sea.count += s;
   if (sea.count == 0) {
@@ -280,18 +279,18 @@ SeaCells find_sea_cells(const Dem& dem, const SeaSource& source, Connectivity co
   return sea;
 }
 
-void check_spread_level(double level_m) {
+void check_spread_level(double level_m, const std::string& input) {
   if (!std::isfinite(level_m)) {
-    throw InputError("--sea-spread-to", "the level is not a finite number",
+    throw InputError(input, "the level is not a finite number",
                      "give today's high-water level in metres above the water-level datum");
   }
 }
 
-std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m) {
+std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m, const std::string& input) {
   if (threshold_m.size() != sea.is_sea.size()) {
     throw std::logic_error("spread_sea: the threshold raster and the sea mask differ in size");
   }
-  check_spread_level(level_m);
+  check_spread_level(level_m, input);
   std::size_t added = 0;
   bool land_left = false;
   for (std::size_t i = 0; i < threshold_m.size(); ++i) {
@@ -306,7 +305,7 @@ std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level
     }
   }
   if (!land_left) {
-    throw InputError("--sea-spread-to",
+    throw InputError(input,
                      "the sea spread to " + gdal::number_text(level_m) +
                          " m covers all the land it can reach, so nothing is left to flood",
                      "give today's high-water level in metres above the water-level datum");

@@ -11,6 +11,7 @@
 #include <nlohmann/json.hpp>
 
 #include "support/run_cli.hpp"
+#include "terrain/terrain_fixtures.hpp"
 #include "tidewright/common/atomic_output.hpp"
 #include "tidewright/extremes/still_water_model.hpp"
 #include "tidewright/local/rise_ensemble.hpp"
@@ -295,6 +296,26 @@ TEST(StageCommands, StudyErrorsNameTheSiteFileKeys) {
   expect_one_line_error(motion, "site.toml: local.land_motion_mm_per_yr: is 1e+300 mm/yr");
   EXPECT_THAT(motion.err, HasSubstr("set projection.accept_extreme = true to run it on purpose"));
   EXPECT_THAT(motion.err, ::testing::Not(HasSubstr("--")));
+  // The map stage's inputs are named by their keys too: a DEM without a CRS asks for
+  // map.dem_crs, a sea spread over all the land names map.sea_spread_to_m.
+  std::vector<double> z;
+  for (int r = 0; r < 3; ++r) z.insert(z.end(), {0.0, 0.5, 3.0, 1.0, 2.0});
+  const auto dem = (dir / "dem.tif").string();
+  tidewright::testing::write_raster(dem, 5, 3, tidewright::testing::utm_10m, 0, z);
+  const std::string map = "\n[map]\ndem = \"" + dem + "\"\nsame_datum = true\n";
+  const auto no_crs = run_cli(site("detrend = \"none\"\n", map));
+  expect_one_line_error(no_crs, "the DEM has no coordinate reference system");
+  EXPECT_THAT(no_crs.err, HasSubstr("give one with map.dem_crs"));
+  EXPECT_THAT(no_crs.err, ::testing::Not(HasSubstr("--")));
+  tidewright::testing::write_raster(dem, 5, 3, tidewright::testing::utm_10m, 32633, z);
+  const auto sea = (dir / "sea.tif").string();
+  std::vector<double> mask;
+  for (int r = 0; r < 3; ++r) mask.insert(mask.end(), {1.0, 0.0, 0.0, 0.0, 0.0});
+  tidewright::testing::write_raster(sea, 5, 3, tidewright::testing::utm_10m, 32633, mask);
+  const auto spread =
+      run_cli(site("detrend = \"none\"\n", map + "sea = \"" + sea + "\"\nsea_spread_to_m = 3.5\n"));
+  expect_one_line_error(spread, "site.toml: map.sea_spread_to_m: the sea spread to 3.5 m covers all the land");
+  EXPECT_THAT(spread.err, ::testing::Not(HasSubstr("--")));
 }
 
 // allowance --csv holds the design-life allowance, the risks of the given heights and the

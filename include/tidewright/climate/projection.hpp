@@ -97,6 +97,13 @@ struct ProjectionOptions {
   int spinup_start_year = historical_ramp_start_year;  // the ramp starts from equilibrium in 1850
   MemberParameters central;                  // C, C_d and every fixed constant come from here
   ParameterDistributions distributions;
+  // How the caller names these options in messages: `project`'s flags by default, the site
+  // file's keys in a study.
+  struct InputNames {
+    std::string members = "--samples";
+    std::string years = "--first-year/--last-year";
+    std::string reference = "--reference";
+  } input_names{};
 };
 
 // Throws InputError for a bad option (the option's name as `where`): member_count <= 0, years

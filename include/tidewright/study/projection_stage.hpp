@@ -46,6 +46,7 @@ struct ProjectionRequest {
   struct InputNames {
     std::string members = "--samples";
     std::string years = "--first-year/--last-year";
+    std::string reference = "--reference";
     std::string land_motion = "--land-motion";
     std::string land_motion_sd = "--land-motion-sd";
     std::string accept_extreme = "pass --accept-extreme";

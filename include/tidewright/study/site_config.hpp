@@ -70,6 +70,10 @@ struct MapSettings {
   bool enabled = false;
   std::filesystem::path dem;
   std::optional<double> dem_offset_m;  // water level = DEM elevation + offset
+  std::string dem_crs;                 // used only when the DEM has none (map --dem-crs)
+  std::optional<double> dem_nodata;    // declared in addition to the file's own (map --dem-nodata)
+  std::string z_units;                 // the DEM values' unit (map --z-units); empty: as the file says
+  std::optional<double> z_factor;      // metres per unit instead (map --z-factor)
   std::optional<std::array<double, 4>> window;    // map.window: ULX ULY LRX LRY in the DEM's CRS
   bool same_datum = false;
   std::optional<std::filesystem::path> sea;       // vector polygon or raster mask

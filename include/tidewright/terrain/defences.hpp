@@ -21,6 +21,9 @@ struct DefenceSource {
   std::string crest_field = "crest_m";  // attribute with the crest level (m); a project name
   bool crest_in_water_datum = false;    // false: crest levels are in the DEM's datum
   std::string recorded_as{};  // how descriptions and warnings name it; empty: path
+  // How the caller names the crest options in messages (a flag, or a site-file key).
+  std::string crest_field_input = "--crest-field";
+  std::string crest_datum_input = "--crest-datum";
 };
 
 struct DefenceBurn {

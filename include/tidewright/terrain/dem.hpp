@@ -41,6 +41,9 @@ struct DemSource {
   // How the caller names these inputs in messages (a flag, or a site-file key).
   std::string z_units_name = "--z-units";
   std::string z_factor_name = "--z-factor";
+  std::string crs_name = "--dem-crs";
+  std::string nodata_name = "--dem-nodata";
+  std::string datum_names = "--datum-offset M, --datum-offset-raster FILE, or --same-datum if they are the same";
   std::string recorded_as{};  // how descriptions and warnings name it (e.g. as a site file writes it); empty: path
 };
 

@@ -83,6 +83,13 @@ struct MapRequest {
   std::vector<MapLevel> levels;
   // Levels more than max_plausible_level_m above the datum are refused unless this is set.
   bool accept_high_levels = false;
+  // How the caller names these inputs in messages: the command's flags by default, the site
+  // file's keys in a study.
+  struct InputNames {
+    std::string level = "--level";
+    std::string accept_high_level = "pass --accept-high-level to map it on purpose";  // a hint
+    std::string polygons = "--polygons";
+  } names{};
   std::vector<AepLayer> aep;
   std::optional<FirstYearLayer> first_year;
   bool polygons = false;  // extent polygons (needs levels), in polygon_format:

@@ -28,6 +28,8 @@ struct SeaSource {
   // How the caller names these two inputs in errors (a flag, or a site-file key).
   std::string layer_input = "the sea layer";
   std::string where_input = "the sea filter";
+  std::string spread_input = "--sea-spread-to";
+  std::string ways = "--sea FILE, --sea-point X,Y, --sea-edge-below M or --nodata-is-sea";  // to give a sea
   std::vector<std::array<double, 2>> points_xy;  // in the DEM's CRS
   std::optional<double> edge_at_or_below_m;      // above the water-level datum
   bool nodata_is_sea = false;
@@ -52,7 +54,7 @@ struct SeaCells {
 
 // Throws InputError unless `level_m`, a sea spread level, is a finite number. Called before
 // any work (make_flood_maps) and again by spread_sea.
-void check_spread_level(double level_m);
+void check_spread_level(double level_m, const std::string& input = "--sea-spread-to");
 
 // Spreads the sea over every cell whose flood threshold T (flood_threshold.hpp) is finite and at
 // most `level_m`: such a cell becomes sea (is_sea 1, T = -inf). Relabelling after the pass gives
@@ -61,6 +63,7 @@ void check_spread_level(double level_m);
 // any path from the seeds has a suffix from the spread sea no higher (tested against a re-seeded
 // pass in tests/terrain/flood_threshold_test.cpp). Returns the number of cells added; updates
 // the count and the description. Throws InputError when no land with a finite T is left.
-std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m);
+std::size_t spread_sea(SeaCells& sea, std::span<float> threshold_m, double level_m,
+                       const std::string& input = "--sea-spread-to");
 
 }  // namespace tidewright::terrain
