@@ -40,8 +40,10 @@ E named_value(TomlReader& t, std::string_view key, const NameTable<E>& names, E 
   if (dashed != *text) {
     for (const auto& entry : names) {
       if (entry.first == dashed) {
-        notes.push_back(t.where(key) + ": '" + *text + "' is the older spelling of '" + dashed +
-                        "', still read; write '" + dashed + "'");
+        std::string note = t.where(key);
+        note.append(": '").append(*text).append("' is the older spelling of '").append(dashed);
+        note.append("', still read; write '").append(dashed).append("'");
+        notes.push_back(std::move(note));
         return entry.second;
       }
     }
