@@ -181,6 +181,9 @@ void read_local(TomlReader& root, SiteConfig& c) {
   c.local.ocean_dynamic_sd_m = lo->optional_number("ocean_dynamic_sd_m").value_or(0.0);
   require(c.local.ocean_dynamic_sd_m >= 0.0, *lo, "ocean_dynamic_sd_m", "is negative", "give a standard deviation >= 0");
   if (auto y = lo->optional_integer("ocean_dynamic_year")) c.local.ocean_dynamic_year = year_in_range(*lo, "ocean_dynamic_year", *y);
+  const bool offset_given = c.local.ocean_dynamic_offset_m != 0.0 || c.local.ocean_dynamic_sd_m != 0.0;
+  require(!offset_given || c.local.ocean_dynamic_year > c.projection.start_year, *lo, "ocean_dynamic_year",
+          "is not after projection.start_year, so the offset's ramp has no length", "give a later year, e.g. 2100");
   lo->finish();
 }
 

@@ -71,8 +71,8 @@ ProjectionRequest projection_request(const SiteConfig& c, const ScenarioSettings
     r.local.land_motion.uplift_mm_per_yr = c.local.land_motion_mm_per_yr;
     r.local.land_motion.uplift_sd_mm_per_yr = c.local.land_motion_sd_mm_per_yr;
     if (c.local.ocean_dynamic_offset_m != 0.0 || c.local.ocean_dynamic_sd_m != 0.0) {
-      // A linear ramp from zero at the start to the stated offset in local.ocean_dynamic_year
-      // (docs/site-file.md), held beyond it.
+      // A linear ramp from zero at the start through the stated offset in
+      // local.ocean_dynamic_year, continued at the same slope beyond it (docs/site-file.md).
       const double ramp_yr = std::max(1, c.local.ocean_dynamic_year - r.first_year);
       for (int y = r.first_year; y <= r.last_year; ++y) {
         const double w = std::max(0.0, static_cast<double>(y - r.first_year) / ramp_yr);

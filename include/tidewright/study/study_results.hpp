@@ -1,4 +1,4 @@
-// What a study computed, as one model: the stages fill it (compute_study), and results.json
+// What a study computed, as one model: the stages fill it (run_study), and results.json
 // and the report read it without computing anything of their own.
 #pragma once
 
@@ -48,7 +48,7 @@ struct StudyResults {
   std::vector<double> follow_levels_m{};       // today's T-year levels, then the heights of interest
   std::vector<double> risk_curve_heights_m{};  // the design-life risk figure's heights
   std::vector<int> plot_years{};
-  double design_return_period_yr = 0.0;        // the longest return period asked for
+  double design_return_period_yr = 0.0;        // the last return period listed in planning.return_periods
   std::vector<ScenarioRun> runs{};
   std::optional<StudyMaps> maps{};
 };
