@@ -71,16 +71,21 @@ void put_allowance(CsvCells& c, const planning::Allowance& al) {
 nlohmann::ordered_json design_life_output(const AllowanceArgs* a, const study::PlanningInputs& in, std::ostream& o,
                                           std::ostream& csv) {
   const auto [first, last] = parse_year_span(a->design_life, "--design-life");
+  // A CSV row of one design-life kind, its span filled in.
+  const auto life_row = [first = first, last = last](const char* row_kind) {
+    CsvCells cells;
+    cells[kind] = row_kind;
+    cells[first_year] = std::to_string(first);
+    cells[last_year] = std::to_string(last);
+    return cells;
+  };
   const auto life = study::design_life_answers(in, first, last, a->periods, a->heights, a->target_risk);
   o << "\nDesign life " << first << "-" << last << ":\n";
   report::TextTable d({"return period (yr)", "today's level (m)", "design-life allowance (m)"});
   for (const auto& al : life.allowances) {
     d.add_row({report::fixed(al.return_period_yr, 0), report::fixed(al.present_level_m, 3),
                report::fixed(al.allowance_m, 3)});
-    CsvCells cells;
-    cells[kind] = "design_life_allowance";
-    cells[first_year] = std::to_string(first);
-    cells[last_year] = std::to_string(last);
+    CsvCells cells = life_row("design_life_allowance");
     put_allowance(cells, al);
     csv << csv_line(cells);
   }
@@ -93,10 +98,7 @@ nlohmann::ordered_json design_life_output(const AllowanceArgs* a, const study::P
                   r.monte_carlo.sampled ? report::fixed(r.monte_carlo.standard_error, 4) : "-",
                   report::fixed(study::expected_count(in.fit.model, r), 3),
                   report::fixed(100.0 * r.beyond_range_fraction, 2)});
-      CsvCells cells;
-      cells[kind] = "design_life_risk";
-      cells[first_year] = std::to_string(first);
-      cells[last_year] = std::to_string(last);
+      CsvCells cells = life_row("design_life_risk");
       cells[height] = number(r.level_m);
       cells[probability] = number(r.probability, 8);
       if (r.monte_carlo.sampled) cells[probability_se] = number(r.monte_carlo.standard_error, 8);
@@ -110,10 +112,7 @@ nlohmann::ordered_json design_life_output(const AllowanceArgs* a, const study::P
     const auto& h = *life.target;
     o << "Height with a " << report::fixed(h.target_probability * 100, 1) << "% chance of at least one exceedance in "
       << first << "-" << last << ": " << report::fixed(h.level_m, 3) << " m\n";
-    CsvCells cells;
-    cells[kind] = "design_life_target";
-    cells[first_year] = std::to_string(first);
-    cells[last_year] = std::to_string(last);
+    CsvCells cells = life_row("design_life_target");
     cells[height] = number(h.level_m);
     cells[probability] = number(h.target_probability, 8);
     csv << csv_line(cells);

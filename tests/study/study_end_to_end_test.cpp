@@ -37,6 +37,23 @@ class SmallDemo : public ::testing::Test {
   static TempDir* dir_;
 };
 TempDir* SmallDemo::dir_ = nullptr;
+// The demo site file's record settings (demo_coast/site.toml, small variant), as fit's options.
+tidewright::testing::CliResult fit_demo_record(const fs::path& in, const nlohmann::json& results,
+                                               const std::string& fit_json) {
+  return run_cli("fit " + shell_quote((in / "quillhaven_tide_gauge.csv").string()) +
+                 " --level-column level_m --sentinel -99 --min-completeness 0.8 --year-start-month 7"
+                 " --detrend linear --epoch 2024 --datum " +
+                 shell_quote(results["site"]["datum"].get<std::string>()) + " --json " + shell_quote(fit_json) +
+                 " --quiet");
+}
+
+// Scenario 2 of the site file ("midway"), which draws with seed + 1 (docs/site-file.md).
+tidewright::testing::CliResult project_demo_midway(const nlohmann::json& results, const std::string& members) {
+  const auto seed = results["seed"].get<unsigned long long>() + 1;
+  return run_cli("project --pathway midway --label midway --samples 300 --first-year 2020 --last-year 2150"
+                 " --land-motion -0.5 --land-motion-sd 0.3 --seed " + std::to_string(seed) + " --members " +
+                 shell_quote(members) + " --quiet");
+}
 }  // namespace
 
 TEST_F(SmallDemo, WritesTheReportFolder) {
@@ -64,11 +81,7 @@ TEST_F(SmallDemo, FitAndAllowancesEqualTheStageCommands) {
   TempDir work;
   const auto fit_json = (work / "fit.json").string();
   // The demo site file's record settings (demo_coast/site.toml, small variant), as options.
-  auto r = run_cli("fit " + shell_quote((in / "quillhaven_tide_gauge.csv").string()) +
-                   " --level-column level_m --sentinel -99 --min-completeness 0.8 --year-start-month 7"
-                   " --detrend linear --epoch 2024 --datum " +
-                   shell_quote(results["site"]["datum"].get<std::string>()) + " --json " + shell_quote(fit_json) +
-                   " --quiet");
+  auto r = fit_demo_record(in, results, fit_json);
   ASSERT_EQ(r.exit_code, 0) << r.err;
   const auto fit = nlohmann::json::parse(read_all(fit_json));
   for (const char* p : {"location", "scale", "shape"}) {
@@ -77,10 +90,7 @@ TEST_F(SmallDemo, FitAndAllowancesEqualTheStageCommands) {
   EXPECT_EQ(fit["log_likelihood"].get<double>(), results["fit"]["log_likelihood"].get<double>());
   // Scenario 2 of the site file ("midway") draws with seed + 1 (docs/site-file.md).
   const auto members = (work / "m.csv").string();
-  const auto seed = results["seed"].get<unsigned long long>() + 1;
-  r = run_cli("project --pathway midway --label midway --samples 300 --first-year 2020 --last-year 2150"
-              " --land-motion -0.5 --land-motion-sd 0.3 --seed " + std::to_string(seed) + " --members " +
-              shell_quote(members) + " --quiet");
+  r = project_demo_midway(results, members);
   ASSERT_EQ(r.exit_code, 0) << r.err;
   const auto allowance_json = (work / "a.json").string();
   r = run_cli("allowance --fit " + shell_quote(fit_json) + " --members " + shell_quote(members) +
@@ -255,17 +265,10 @@ TEST_F(SmallDemo, DesignLifeEmergenceAndAmplificationAreTheCommandsOwn) {
   const auto results = nlohmann::json::parse(read_all(demo() / "study" / "results.json"));
   TempDir work;
   const auto fit_json = (work / "fit.json").string();
-  auto r = run_cli("fit " + shell_quote((in / "quillhaven_tide_gauge.csv").string()) +
-                   " --level-column level_m --sentinel -99 --min-completeness 0.8 --year-start-month 7"
-                   " --detrend linear --epoch 2024 --datum " +
-                   shell_quote(results["site"]["datum"].get<std::string>()) + " --json " + shell_quote(fit_json) +
-                   " --quiet");
+  auto r = fit_demo_record(in, results, fit_json);
   ASSERT_EQ(r.exit_code, 0) << r.err;
   const auto members = (work / "m.csv").string();
-  const auto seed = results["seed"].get<unsigned long long>() + 1;
-  r = run_cli("project --pathway midway --label midway --samples 300 --first-year 2020 --last-year 2150"
-              " --land-motion -0.5 --land-motion-sd 0.3 --seed " + std::to_string(seed) + " --members " +
-              shell_quote(members) + " --quiet");
+  r = project_demo_midway(results, members);
   ASSERT_EQ(r.exit_code, 0) << r.err;
   const auto& study = results["scenarios"][1];
   ASSERT_EQ(study["name"], "midway");
