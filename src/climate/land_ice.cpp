@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <string>
+#include <utility>
 
 #include "tidewright/common/error.hpp"
 
@@ -52,14 +53,15 @@ std::vector<double> glacier_rise_m(const GlacierParameters& p, const std::vector
                      "run from before the volume year");
   }
   const double one_minus_n = 1.0 - p.volume_exponent;
-  // I(t) = int (T - T_g0) dt, trapezoid (exact for T linear in the step).
-  std::vector<double> integral(warming_k.size(), 0.0);
-  for (std::size_t i = 1; i < warming_k.size(); ++i) {
-    integral[i] = integral[i - 1] + 0.5 * (warming_k[i - 1] + warming_k[i]) - p.equilibrium_warming_k;
-  }
+  // I(t) = int g(T - T_g0) dt.
+  const double a = p.factor * p.sensitivity_m_per_yr_k;
+  const double q = p.factor * p.quadratic_m_per_yr_k2;
+  const double t0 = p.equilibrium_warming_k;
+  const std::vector<double> integral =
+      cumulate(warming_k, [a, q, t0](double t) { return a * (t - t0) + q * (t - t0) * std::fabs(t - t0); });
   const double i_ref = integral[static_cast<std::size_t>(p.volume_year - years.front())];
   const double u_ref = std::pow(p.volume_2019_m, one_minus_n);
-  const double slope = one_minus_n * p.sensitivity_m_per_yr_k * std::pow(p.volume_2019_m, -p.volume_exponent);
+  const double slope = one_minus_n * std::pow(p.volume_2019_m, -p.volume_exponent);
   std::vector<double> volume(warming_k.size());
   for (std::size_t i = 0; i < warming_k.size(); ++i) {
     const double u = u_ref - slope * (integral[i] - i_ref);
@@ -80,11 +82,16 @@ std::vector<double> greenland_rise_m(const GreenlandParameters& p, const std::ve
 }
 
 std::vector<double> antarctic_rise_m(const AntarcticParameters& p, const std::vector<int>& years,
-                                     const std::vector<double>& warming_k) {
+                                     const std::vector<double>& warming_k, const std::vector<double>& ocean_k) {
   check_path(years, warming_k, "antarctica");
-  const double k = -p.accumulation_m_per_yr * p.snowfall_increase_per_k * p.antarctic_warming_ratio +
-                   p.discharge_factor * p.discharge_m_per_yr_k;
-  return capped(cumulate(warming_k, [k](double t) { return k * t; }), antarctica_inventory_m);
+  check_path(years, ocean_k, "antarctica");
+  const double snow = p.accumulation_m_per_yr * p.snowfall_increase_per_k * p.antarctic_warming_ratio;
+  const double discharge = p.discharge_factor * p.discharge_m_per_yr_k;
+  std::vector<double> out(warming_k.size(), 0.0);
+  for (std::size_t i = 1; i < warming_k.size(); ++i) {
+    out[i] = out[i - 1] + 0.5 * (discharge * (ocean_k[i - 1] + ocean_k[i]) - snow * (warming_k[i - 1] + warming_k[i]));
+  }
+  return capped(std::move(out), antarctica_inventory_m);
 }
 
 std::vector<double> land_water_rise_m(const LandWaterParameters& p, const std::vector<int>& years) {

@@ -107,7 +107,7 @@ void simulate(const Drive& d, const MemberParameters& m, const ProjectionOptions
   }
   p.glaciers_m = glacier_rise_m(m.glaciers, p.years, p.surface_k);
   p.greenland_m = greenland_rise_m(m.greenland, p.years, p.surface_k);
-  p.antarctica_m = antarctic_rise_m(m.antarctica, p.years, p.surface_k);
+  p.antarctica_m = antarctic_rise_m(m.antarctica, p.years, p.surface_k, p.deep_k);
   p.land_water_m = land_water_rise_m(m.land_water, p.years);
 }
 
@@ -216,7 +216,7 @@ std::vector<MemberParameters> draw_members(const ProjectionOptions& o) {
     m.energy_balance.efficacy = draw(rng, d.efficacy);
     m.expansion_efficiency_m_per_yj = draw(rng, d.expansion_efficiency_m_per_yj);
     m.glaciers.volume_2019_m = draw(rng, d.glacier_volume_2019_m);
-    m.glaciers.sensitivity_m_per_yr_k = o.central.glaciers.sensitivity_m_per_yr_k * draw(rng, d.glacier_sensitivity_factor);
+    m.glaciers.factor = draw(rng, d.glacier_sensitivity_factor);
     m.greenland.factor = draw(rng, d.greenland_factor);
     m.antarctica.snowfall_increase_per_k = draw(rng, d.antarctic_snowfall_increase_per_k);
     const double bound = d.antarctic_discharge_log_bound_sd;

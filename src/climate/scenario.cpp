@@ -63,13 +63,13 @@ std::array<PathwayDefinition, 3> definitions() {
   const double f0 = forcing_2019_w_m2;
   const double s0 = historical_forcing_slope_2019_w_m2_per_yr();
   return {{
-      {"restrained", "illustrative: forcing peaks at 3.1 W m-2 in 2050, eases to 2.6 W m-2 in 2100, then holds",
-       "SSP1-2.6 (nominal 2100 forcing 2.6 W m-2)",
-       {{{2019, f0, s0}, {2050, 3.1, 0.0}, {2100, 2.6, 0.0}}}, 3},
-      {"midway", "illustrative: forcing rises smoothly to 4.5 W m-2 in 2100, then holds",
-       "SSP2-4.5 (nominal 2100 forcing 4.5 W m-2)", {{{2019, f0, s0}, {2100, 4.5, 0.0}, {2100, 4.5, 0.0}}}, 2},
-      {"unchecked", "illustrative: forcing rises smoothly to 8.5 W m-2 in 2100, then holds",
-       "SSP5-8.5 (nominal 2100 forcing 8.5 W m-2)", {{{2019, f0, s0}, {2100, 8.5, 0.0}, {2100, 8.5, 0.0}}}, 2},
+      {"restrained", "illustrative: forcing peaks at 3.6 W m-2 in 2050, eases to 3.2 W m-2 in 2100, then holds",
+       "SSP1-2.6 (its assessed warming of 1.8 K in 2081-2100)",
+       {{{2019, f0, s0}, {2050, 3.6, 0.0}, {2100, 3.2, 0.0}}}, 3},
+      {"midway", "illustrative: forcing rises smoothly to 5.2 W m-2 in 2100, then holds",
+       "SSP2-4.5 (its assessed warming of 2.7 K in 2081-2100)", {{{2019, f0, s0}, {2100, 5.2, 0.0}, {2100, 5.2, 0.0}}}, 2},
+      {"unchecked", "illustrative: forcing rises smoothly to 9.0 W m-2 in 2100, then holds",
+       "SSP5-8.5 (its assessed warming of 4.4 K in 2081-2100)", {{{2019, f0, s0}, {2100, 9.0, 0.0}, {2100, 9.0, 0.0}}}, 2},
   }};
 }
 

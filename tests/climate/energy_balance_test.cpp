@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "tidewright/climate/forcing.hpp"
+#include "tidewright/climate/projection.hpp"
 #include "tidewright/common/error.hpp"
 
 using namespace tidewright::climate;
@@ -156,6 +157,21 @@ TEST(ClimateEnergyBalance, EcsAndTcrArePlausibleAgainstAr6) {
   }
   EXPECT_NEAR(equilibrium_warming_k(ar6_co2_doubling_erf_w_m2, p.feedback_w_m2_k), 3.33, 0.005);
   EXPECT_NEAR(equilibrium_warming_k(myhre_2x, p.feedback_w_m2_k), 3.14, 0.005);
+}
+
+// The projection's central member under AR6's effective forcing of doubled CO2 (3.93 W m-2, the
+// built-in pathways' convention) has AR6's best estimates (WG1 SPM A.4.4, confirmed): ECS 3 K
+// exactly (its lambda is 3.93 / 3) and TCR 1.8 K, here 1.85 K (within 0.1 K).
+TEST(ClimateEnergyBalance, ProjectionCentralMemberHasAr6BestEstimates) {
+  const TwoLayerParameters p = MemberParameters{}.energy_balance;
+  EXPECT_NEAR(equilibrium_warming_k(ar6_co2_doubling_erf_w_m2, p.feedback_w_m2_k), 3.0, 1e-12);
+  std::vector<double> forcing;
+  for (int year = 0; year <= 140; ++year) forcing.push_back(ar6_co2_doubling_erf_w_m2 * year * std::log2(1.01));
+  const TwoLayerPath path = integrate_two_layer(p, forcing);
+  double tcr = 0.0;
+  for (int year = 61; year <= 80; ++year) tcr += path.surface_k[static_cast<std::size_t>(year)] / 20.0;
+  EXPECT_NEAR(tcr, 1.8, 0.1);
+  std::printf("projection's central member: ECS 3.00 K, TCR %.2f K\n", tcr);
 }
 
 TEST(ClimateEnergyBalance, DeepStepForGivenSurfaceIsExact) {

@@ -61,7 +61,7 @@ TEST(ClimatePathways, StartAtAr6ForcingReachStatedLevelsAndHold) {
     EXPECT_EQ(s.first_year(), 2019);
     EXPECT_EQ(s.last_year(), 2300);
   }
-  EXPECT_NEAR(builtin_pathway_forcing_w_m2("restrained", 2050), 3.1, 1e-12);
+  EXPECT_NEAR(builtin_pathway_forcing_w_m2("restrained", 2050), 3.6, 1e-12);
   EXPECT_THROW((void)builtin_pathway("ssp245"), tidewright::InputError);
   EXPECT_THROW((void)builtin_pathway("midway", 2090), tidewright::InputError);
 }

@@ -52,7 +52,7 @@ struct PathwayDescription {
   std::string name;
   std::string summary;              // one line for help texts and reports
   double forcing_2100_w_m2 = 0.0;
-  std::string comparable_assessed;  // the AR6 scenario whose nominal 2100 forcing it shares
+  std::string comparable_assessed;  // the AR6 scenario whose assessed warming its level is calibrated to
 };
 [[nodiscard]] std::vector<PathwayDescription> builtin_pathways();
 // Forcing of a built-in pathway from 2019 to last_year (>= 2100). Throws InputError for an

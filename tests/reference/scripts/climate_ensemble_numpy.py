@@ -29,7 +29,7 @@ def forcing(years):
     s0 = f0 * k * np.exp(k * 169) / np.expm1(k * 169)
     x = np.clip((years - 2019) / 81.0, 0, 1)
     h = 81.0
-    herm = (2 * x**3 - 3 * x**2 + 1) * f0 + (x**3 - 2 * x**2 + x) * h * s0 + (-2 * x**3 + 3 * x**2) * 4.5
+    herm = (2 * x**3 - 3 * x**2 + 1) * f0 + (x**3 - 2 * x**2 + x) * h * s0 + (-2 * x**3 + 3 * x**2) * 5.2
     return np.where(years <= 2019, ramp, herm)
 
 
@@ -38,13 +38,13 @@ def ensemble(n, first, last, seed=20261201):
     years = np.arange(1850, max(last, 2014) + 1)
     f = forcing(years.astype(float))
     c, cd = 8.2, 109.0
-    lam = truncated_normal(rng, n, 1.18, 0.25, 0.6, 2.2)
+    lam = truncated_normal(rng, n, 3.93 / 3.0, 0.30, 0.6, 2.2)
     gam = truncated_normal(rng, n, 0.67, 0.15, 0.3, 1.2)
     eps = truncated_normal(rng, n, 1.28, 0.2, 0.8, 2.0)
-    eff = truncated_normal(rng, n, 0.11, 0.01, 0.07, 0.15)
+    eff = truncated_normal(rng, n, 0.12, 0.01, 0.07, 0.16)
     v19 = truncated_normal(rng, n, 0.32, 0.08, 0.12, 0.6)
-    ag = 6.4e-4 * truncated_normal(rng, n, 1.0, 0.2, 0.3, 2.0)
-    gf = truncated_normal(rng, n, 1.0, 0.3, 0.2, 2.5)
+    gl = truncated_normal(rng, n, 1.0, 0.15, 0.3, 2.0)
+    gf = truncated_normal(rng, n, 1.0, 0.42, 0.2, 2.5)
     snow = truncated_normal(rng, n, 0.05, 0.015, 0.0, 0.12)
     fa = np.exp(0.8 * truncated_normal(rng, n, 0.0, 1.0, -2.5, 2.5))
     lw = truncated_normal(rng, n, 1.0, 0.3, 0.0, 2.5)
@@ -72,18 +72,20 @@ def ensemble(n, first, last, seed=20261201):
     heat = 0.91 * (c * t + cd * td) * 365.25 * 86400 * 5.10e14
     thermal = eff * heat * 1e-24
     n_exp = 1 / 1.375
-    integ = np.vstack([np.zeros((1, n)), np.cumsum(0.5 * (t[1:] + t[:-1]) + 0.2, axis=0)])
-    i19 = 2019 - 1850
-    u = v19 ** (1 - n_exp) - (1 - n_exp) * ag * v19 ** (-n_exp) * (integ - integ[i19])
-    vol = np.where(u > 0, np.maximum(u, 0) ** (1 / (1 - n_exp)), 0.0)
-    glaciers = vol[0] - vol
     tm = 0.5 * (t[1:] + t[:-1])
 
     def simpson(rate):
         return np.vstack([np.zeros((1, n)), np.cumsum((rate(t[:-1]) + 4 * rate(tm) + rate(t[1:])) / 6, axis=0)])
 
-    greenland = simpson(lambda x: gf * (1.266e-4 * x * np.abs(x) + 1.401e-4 * x))
-    antarctica = simpson(lambda x: (-5.8e-3 * snow + 8.60e-4 * fa) * x)
+    integ = simpson(lambda x: gl * (2.6e-4 * (x + 0.2) + 1.74e-4 * (x + 0.2) * np.abs(x + 0.2)))
+    i19 = 2019 - 1850
+    u = v19 ** (1 - n_exp) - (1 - n_exp) * v19 ** (-n_exp) * (integ - integ[i19])
+    vol = np.where(u > 0, np.maximum(u, 0) ** (1 / (1 - n_exp)), 0.0)
+    glaciers = vol[0] - vol
+
+    greenland = simpson(lambda x: gf * (0.55e-4 * x * np.abs(x) + 2.8e-4 * x))
+    step = 0.5 * (3.3e-3 * fa * (td[1:] + td[:-1]) - 5.8e-3 * snow * (t[1:] + t[:-1]))
+    antarctica = np.vstack([np.zeros((1, n)), np.cumsum(step, axis=0)])
     land = lw * (0.03 / 95.5) * (years - 1850)[:, None]
     ref = slice(1995 - 1850, 2014 - 1850 + 1)
     out = slice(first - 1850, last - 1850 + 1)
