@@ -154,7 +154,8 @@ FitStageResult run_fit_stage(const FitRequest& request) {
       if (model == "rlargest") {
         throw InputError(request.input.string(),
                          "an r-largest fit needs an annual-maxima file with the r largest values of each year",
-                         "give such a file (with --r-columns), or choose --model gev");
+                         "give such a file (with " + request.r_columns_input + "), or choose " + request.model_input +
+                             " gev");
       }
       const auto series = record::read_water_level_series(request.input, request.read);
       maxima = record::annual_maxima_from_series(series, maxima_options(request.series));
@@ -186,13 +187,13 @@ FitStageResult run_fit_stage(const FitRequest& request) {
     } else if (model == "rlargest") {
       if (maxima.r_largest_m.empty()) {
         throw InputError(request.input.string(), "has no r-largest columns",
-                         "name them with --r-columns, or choose --model gev");
+                         "name them with " + request.r_columns_input + ", or choose " + request.model_input + " gev");
       }
       record::require_minimum_maxima(maxima.size(), "rlargest", record::minimum_maxima_gev, out.source);
       out.fit = extremes::fit_gev_r_largest(maxima.r_largest_m, request.r_largest);
       out.model = "rlargest";
     } else {
-      throw InputError("--model", "is '" + model + "'", "use gumbel, gev, gpd, rlargest or auto");
+      throw InputError(request.model_input, "is '" + model + "'", "use gumbel, gev, gpd, rlargest or auto");
     }
     out.present_day = out.fit.model();
   }

@@ -22,6 +22,12 @@ std::vector<double> positive_periods(TomlReader& t, std::string_view key, std::v
   return v;
 }
 
+template <typename T>
+void sort_unique(std::vector<T>& v) {
+  std::sort(v.begin(), v.end());
+  v.erase(std::unique(v.begin(), v.end()), v.end());
+}
+
 int year_in_range(TomlReader& t, std::string_view key, long long value) {
   require(value >= 1700 && value <= 2500, t, key, "is " + std::to_string(value) + ", not a plausible year",
           "give a year between 1700 and 2500");
@@ -79,6 +85,8 @@ void read_record(TomlReader& root, SiteConfig& c) {
   read.level_column = rec->optional_string("level_column").value_or(read.level_column);
   read.unit = rec->choice("units", {"m", "cm", "mm", "ft"}, "m");
   for (const auto& m : rec->strings("missing_markers")) read.missing.markers.push_back(m);
+  read.r_largest_columns = rec->strings("r_largest_columns");
+  f.r_columns_input = field_location(c.file.string(), "record.r_largest_columns");
   read.missing.sentinels = rec->numbers("sentinels");
   read.accept_implausible_levels = rec->optional_boolean("accept_implausible_levels").value_or(false);
   if (auto v = rec->optional_number("min_completeness")) {
@@ -104,6 +112,7 @@ void read_extremes(TomlReader& root, SiteConfig& c) {
   auto ext = root.table("extremes");
   if (!ext) return;
   f.model = ext->choice("model", {"gumbel", "gev", "gpd", "rlargest", "auto"}, "gev");
+  f.model_input = field_location(c.file.string(), "extremes.model");
   f.return_periods_yr = positive_periods(*ext, "return_periods", f.return_periods_yr);
   if (auto q = ext->optional_number("threshold_quantile")) {
     require(*q > 0.5 && *q < 1.0, *ext, "threshold_quantile", "must lie in (0.5, 1)", "give e.g. 0.997");
@@ -130,6 +139,10 @@ void read_scenarios(TomlReader& root, SiteConfig& c) {
   for (auto& sc : root.array_of_tables("scenario")) {
     ScenarioSettings s;
     s.name = sc.string("name");
+    const bool repeated = std::any_of(c.scenarios.begin(), c.scenarios.end(),
+                                      [&](const ScenarioSettings& earlier) { return earlier.name == s.name; });
+    require(!repeated, sc, "name", "repeats the name '" + s.name + "' of an earlier [[scenario]]",
+            "give each scenario its own name: its tables and figures are written under it");
     s.source = named_value(sc, "source", scenario_source_names(), ScenarioSource::pathway, c.notes);
     s.storyline = named_value(sc, "storyline", storyline_names(), climate::IceStoryline::assessed, c.notes);
     if (s.source == ScenarioSource::pathway) s.pathway = sc.string("pathway");
@@ -196,6 +209,10 @@ void read_planning(TomlReader& root, SiteConfig& c) {
     require(!c.planning.design_years.empty(), *pl, "design_years", "is empty", "list at least one year");
   }
   c.planning.return_periods_yr = positive_periods(*pl, "return_periods", c.planning.return_periods_yr);
+  // Ascending and once each, so that tables run in order and the last (the design year and
+  // return period of the headline and figures) is the largest, however the file lists them.
+  sort_unique(c.planning.design_years);
+  sort_unique(c.planning.return_periods_yr);
   if (pl->has("design_life")) {
     const auto span = pl->integers("design_life");
     require(span.size() == 2, *pl, "design_life", "must be [first_year, last_year]", "give two years");

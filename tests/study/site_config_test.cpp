@@ -1,10 +1,13 @@
 // The site file: keys read strictly, errors with key path and line, paths relative to the file.
 #include "tidewright/study/site_config.hpp"
 
+#include "tidewright/study/fit_stage.hpp"
 #include "tidewright/study/option_names.hpp"
 
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
+
+#include <filesystem>
 
 #include "support/run_cli.hpp"
 #include "tidewright/common/atomic_output.hpp"
@@ -183,4 +186,67 @@ TEST(SiteConfig, FigureGridOceanRampAndFirstYearScenarioAreKeys) {
   EXPECT_THAT(error_for(dir, wrong), HasSubstr("map.first_year_scenario: names no [[scenario]] ('middle'); name one of: medium, high"));
   EXPECT_THAT(error_for(dir, std::string(minimal) + "\n[figures]\nrisk_curve_points = 1\n"),
               HasSubstr("figures.risk_curve_points: must be 2 to 1000"));
+}
+
+// Two scenarios of one name would overwrite each other's tables and figures: refused at the second.
+TEST(SiteConfig, ScenarioNamesAreUnique) {
+  TempDir dir;
+  const auto m = error_for(dir, std::string(minimal) + "\n[[scenario]]\nname = \"medium\"\npathway = \"midway\"\n");
+  EXPECT_THAT(m, HasSubstr("site.toml:14: scenario[1].name: repeats the name 'medium' of an earlier [[scenario]]"));
+}
+
+// Design years and return periods are read sorted and once each, so the largest leads the
+// headline and figures however the file lists them; r-largest columns are a [record] key, and
+// errors about them and about the model name the site-file keys.
+TEST(SiteConfig, PlanningListsAreSortedAndRLargestColumnsAreRead) {
+  TempDir dir;
+  tidewright::write_text_file(dir / "site.toml",
+                              std::string(minimal) +
+                                  "\n[planning]\ndesign_years = [2100, 2050, 2100]\nreturn_periods = [100, 10, 50]\n",
+                              false);
+  auto c = load_site_file(dir / "site.toml");
+  EXPECT_EQ(c.planning.design_years, (std::vector<int>{2050, 2100}));
+  EXPECT_EQ(c.planning.return_periods_yr, (std::vector<double>{10.0, 50.0, 100.0}));
+  std::string text = minimal;
+  text.replace(text.find("path = \"data/gauge.csv\""), 23,
+               "path = \"data/gauge.csv\"\nkind = \"annual-maxima\"\nr_largest_columns = [\"second\", \"third\"]");
+  tidewright::write_text_file(dir / "site.toml", text + "\n[extremes]\nmodel = \"rlargest\"\n", true);
+  c = load_site_file(dir / "site.toml");
+  EXPECT_EQ(c.fit.read.r_largest_columns, (std::vector<std::string>{"second", "third"}));
+  EXPECT_EQ(c.fit.model, "rlargest");
+  EXPECT_THAT(c.fit.r_columns_input, HasSubstr("site.toml: record.r_largest_columns"));
+  EXPECT_THAT(c.fit.model_input, HasSubstr("site.toml: extremes.model"));
+}
+
+// A study can fit the r-largest model: the site file's columns reach the reader, and the fit
+// uses the second and third values of each year (invented annual maxima, 20 years).
+TEST(SiteConfig, RLargestFitRunsFromTheSiteFile) {
+  TempDir dir;
+  std::string csv = "year,level,second,third\n";
+  for (int k = 0; k < 20; ++k) {
+    const double top = 2.0 + 0.05 * ((k * 7) % 11);
+    csv += std::to_string(1990 + k) + "," + std::to_string(top) + "," + std::to_string(top - 0.08 - 0.01 * (k % 3)) + "," +
+           std::to_string(top - 0.15 - 0.01 * (k % 4)) + "\n";
+  }
+  std::filesystem::create_directories(dir / "data");
+  tidewright::write_text_file(dir / "data/maxima.csv", csv, false);
+  std::string text = minimal;
+  text.replace(text.find("path = \"data/gauge.csv\""), 23,
+               "path = \"data/maxima.csv\"\nkind = \"annual-maxima\"\nr_largest_columns = [\"second\", \"third\"]");
+  tidewright::write_text_file(dir / "site.toml", text + "\n[extremes]\nmodel = \"rlargest\"\n", false);
+  const auto c = load_site_file(dir / "site.toml");
+  const auto r = tidewright::study::run_fit_stage(c.fit);
+  EXPECT_EQ(r.model, "rlargest");
+  EXPECT_EQ(r.fit.n, 20U);
+  // Without the columns the message names the site-file keys, not the command's flags.
+  text.replace(text.find("r_largest_columns = [\"second\", \"third\"]"), 39, "");
+  tidewright::write_text_file(dir / "site.toml", text + "\n[extremes]\nmodel = \"rlargest\"\n", true);
+  try {
+    (void)tidewright::study::run_fit_stage(load_site_file(dir / "site.toml").fit);
+    ADD_FAILURE() << "a fit without r-largest columns was accepted";
+  } catch (const InputError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("record.r_largest_columns"));
+    EXPECT_THAT(e.what(), HasSubstr("extremes.model gev"));
+    EXPECT_THAT(e.what(), ::testing::Not(HasSubstr("--")));
+  }
 }

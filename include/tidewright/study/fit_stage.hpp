@@ -62,6 +62,8 @@ struct FitRequest {
   // (detrending annual maxima, an epoch without detrending) are refused, defaults are not.
   std::string detrend_input = "--detrend";
   std::string epoch_input = "--epoch";
+  std::string r_columns_input = "--r-columns";
+  std::string model_input = "--model";
   bool detrend_given = false;
 };
 

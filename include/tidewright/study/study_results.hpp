@@ -48,7 +48,7 @@ struct StudyResults {
   std::vector<double> follow_levels_m{};       // today's T-year levels, then the heights of interest
   std::vector<double> risk_curve_heights_m{};  // the design-life risk figure's heights
   std::vector<int> plot_years{};
-  double design_return_period_yr = 0.0;        // the last return period listed in planning.return_periods
+  double design_return_period_yr = 0.0;        // the largest of planning.return_periods (read sorted)
   std::vector<ScenarioRun> runs{};
   std::optional<StudyMaps> maps{};
 };
