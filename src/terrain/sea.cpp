@@ -102,6 +102,7 @@ std::vector<std::uint8_t> rasterise_sea_polygons(const SeaSource& source, const 
 std::vector<std::uint8_t> outer_nodata(const std::vector<float>& z, GridShape shape) {
   const std::size_t n = shape.cells();
   std::vector<std::uint8_t> outer(n, 0);
+  if (n == 0) return outer;  // an empty grid has no edge (and no column count to divide by)
   std::vector<std::size_t> stack;
   const auto seed = [&](std::size_t i) {
     if (std::isnan(z[i]) && outer[i] == 0) {
