@@ -505,6 +505,10 @@ std::vector<report::MethodReference> methods() {
           {"Plotting positions", "Gringorten positions of the annual maxima", "Gringorten, I. I. (1963) J. Geophys. Res. 68(3):813."},
           {"Energy balance", "Two-layer model with deep-ocean heat-uptake efficacy",
            "Held et al. (2010) J. Climate 23:2418; Geoffroy et al. (2013) J. Climate 26:1841, 1859."},
+          {"Projection calibration",
+           "Built-in pathways, each component and the warming calibrated to the assessed medians and likely ranges "
+           "for 2100 (ECS 3 K); checked against the observed 1993-2018 budget",
+           "IPCC AR6 WG1 (2021): Fox-Kemper et al., ch. 9, Tables 9.5 and 9.9; ch. 4, Table 4.5."},
           {"Thermal expansion", "Expansion efficiency of heat and TEOS-10 seawater expansion",
            "Kuhlbrodt & Gregory (2012) GRL; IOC, SCOR & IAPSO (2010) TEOS-10; Roquet et al. (2015) Ocean Modelling."},
           {"Allowance", "Height that keeps the expected number of exceedances", "Hunter, J. (2012) Climatic Change 113:239-252."},
