@@ -133,7 +133,7 @@ FitStageResult run_fit_stage(const FitRequest& request) {
   if (model == "gpd") {
     if (kind != RecordKind::series) {
       throw InputError(request.input.string(), "a GPD fit needs a water-level series, not annual maxima",
-                       "give a timestamped series, or choose --model gev");
+                       "give a timestamped series, or choose " + request.gev_choice);
     }
     const auto series = record::read_water_level_series(request.input, request.read);
     const auto peaks = record::peaks_over_threshold(series, peaks_options(request.series));
@@ -154,8 +154,7 @@ FitStageResult run_fit_stage(const FitRequest& request) {
       if (model == "rlargest") {
         throw InputError(request.input.string(),
                          "an r-largest fit needs an annual-maxima file with the r largest values of each year",
-                         "give such a file (with " + request.r_columns_input + "), or choose " + request.model_input +
-                             " gev");
+                         "give such a file (with " + request.r_columns_input + "), or choose " + request.gev_choice);
       }
       const auto series = record::read_water_level_series(request.input, request.read);
       maxima = record::annual_maxima_from_series(series, maxima_options(request.series));
@@ -187,7 +186,7 @@ FitStageResult run_fit_stage(const FitRequest& request) {
     } else if (model == "rlargest") {
       if (maxima.r_largest_m.empty()) {
         throw InputError(request.input.string(), "has no r-largest columns",
-                         "name them with " + request.r_columns_input + ", or choose " + request.model_input + " gev");
+                         "name them with " + request.r_columns_input + ", or choose " + request.gev_choice);
       }
       record::require_minimum_maxima(maxima.size(), "rlargest", record::minimum_maxima_gev, out.source);
       out.fit = extremes::fit_gev_r_largest(maxima.r_largest_m, request.r_largest);

@@ -1,6 +1,7 @@
 #include "tidewright/study/site_config.hpp"
 
 #include <algorithm>
+#include <cctype>
 
 #include "tidewright/common/error.hpp"
 #include "tidewright/study/option_names.hpp"
@@ -20,6 +21,11 @@ std::vector<double> positive_periods(TomlReader& t, std::string_view key, std::v
   require(!v.empty(), t, key, "is empty", "list at least one return period in years");
   for (double p : v) require(p > 1.0, t, key, "holds a return period <= 1 year", "give return periods above 1 year");
   return v;
+}
+
+std::string lower_case(std::string s) {
+  for (auto& ch : s) ch = static_cast<char>(std::tolower(static_cast<unsigned char>(ch)));
+  return s;
 }
 
 template <typename T>
@@ -86,7 +92,7 @@ void read_record(TomlReader& root, SiteConfig& c) {
   read.unit = rec->choice("units", {"m", "cm", "mm", "ft"}, "m");
   for (const auto& m : rec->strings("missing_markers")) read.missing.markers.push_back(m);
   read.r_largest_columns = rec->strings("r_largest_columns");
-  f.r_columns_input = field_location(c.file.string(), "record.r_largest_columns");
+  f.r_columns_input = "record.r_largest_columns";
   read.missing.sentinels = rec->numbers("sentinels");
   read.accept_implausible_levels = rec->optional_boolean("accept_implausible_levels").value_or(false);
   if (auto v = rec->optional_number("min_completeness")) {
@@ -113,6 +119,7 @@ void read_extremes(TomlReader& root, SiteConfig& c) {
   if (!ext) return;
   f.model = ext->choice("model", {"gumbel", "gev", "gpd", "rlargest", "auto"}, "gev");
   f.model_input = field_location(c.file.string(), "extremes.model");
+  f.gev_choice = "extremes.model = \"gev\"";
   f.return_periods_yr = positive_periods(*ext, "return_periods", f.return_periods_yr);
   if (auto q = ext->optional_number("threshold_quantile")) {
     require(*q > 0.5 && *q < 1.0, *ext, "threshold_quantile", "must lie in (0.5, 1)", "give e.g. 0.997");
@@ -139,9 +146,14 @@ void read_scenarios(TomlReader& root, SiteConfig& c) {
   for (auto& sc : root.array_of_tables("scenario")) {
     ScenarioSettings s;
     s.name = sc.string("name");
-    const bool repeated = std::any_of(c.scenarios.begin(), c.scenarios.end(),
-                                      [&](const ScenarioSettings& earlier) { return earlier.name == s.name; });
-    require(!repeated, sc, "name", "repeats the name '" + s.name + "' of an earlier [[scenario]]",
+    const auto same_files = [&](const ScenarioSettings& earlier) {
+      return lower_case(scenario_file_stem(earlier.name)) == lower_case(scenario_file_stem(s.name));
+    };
+    const auto earlier = std::find_if(c.scenarios.begin(), c.scenarios.end(), same_files);
+    require(earlier == c.scenarios.end(), sc, "name",
+            earlier == c.scenarios.end() || earlier->name == s.name
+                ? "repeats the name '" + s.name + "' of an earlier [[scenario]]"
+                : "'" + s.name + "' gives the same file names as the earlier [[scenario]] '" + earlier->name + "'",
             "give each scenario its own name: its tables and figures are written under it");
     s.source = named_value(sc, "source", scenario_source_names(), ScenarioSource::pathway, c.notes);
     s.storyline = named_value(sc, "storyline", storyline_names(), climate::IceStoryline::assessed, c.notes);
@@ -330,6 +342,13 @@ SiteConfig load_site_file(const std::filesystem::path& file) {
   read_figures(root, c);
   root.finish();
   return c;
+}
+
+std::string scenario_file_stem(std::string name) {
+  for (auto& ch : name) {
+    if (!std::isalnum(static_cast<unsigned char>(ch)) && ch != '_' && ch != '-') ch = '_';
+  }
+  return name;
 }
 
 const ScenarioSettings& first_year_scenario(const SiteConfig& c) {

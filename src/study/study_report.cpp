@@ -24,14 +24,6 @@ std::string sentence_case(std::string s) {
   return s;
 }
 
-// Letters, digits, - and _ only: a table's or figure's file stem from a scenario name.
-std::string file_stem(std::string name) {
-  for (auto& ch : name) {
-    if (!std::isalnum(static_cast<unsigned char>(ch)) && ch != '_' && ch != '-') ch = '_';
-  }
-  return name;
-}
-
 // A metre figure for a CSV: 4 decimals, empty where there is no number.
 std::string csv_m(double v) { return std::isfinite(v) ? fixed(v, 4) : std::string(); }
 
@@ -48,7 +40,7 @@ std::string level_unit(const SiteConfig& c) { return "m above " + c.site.datum; 
 // across, each design height with the allowance's Monte Carlo standard error.
 report::Table design_height_matrix(const ScenarioRun& run, const PlanningSettings& p, const std::string& datum) {
   const std::string scenario = display_name(run.settings);
-  report::Table t{"design_height_matrix_" + file_stem(run.settings.name),
+  report::Table t{"design_height_matrix_" + scenario_file_stem(run.settings.name),
                   "Design heights, scenario " + scenario + ", in m above " + datum +
                       ": today's T-year still-water level, and in each design year the level with the same expected "
                       "number of exceedances (Hunter 2012), \u00b1 its Monte Carlo standard error.",
@@ -459,7 +451,7 @@ report::Section evidence_section(const StudyResults& r, const SiteConfig& c) {
     const auto& t = run.inputs.rise;
     report::FanChartInput fan = fan_chart_input(run.projection, t, run.inputs.rise_zero_year);
     fan.title = "Relative sea-level rise, " + display_name(run.settings);
-    const std::string name = "projection_" + file_stem(run.settings.name);
+    const std::string name = "projection_" + scenario_file_stem(run.settings.name);
     evidence.blocks.emplace_back(report::Figure{name, "Scenario " + display_name(run.settings) + ": median, 17-83% and 5-95% of " +
                                                           std::to_string(t.member_count()) + " members, with component medians.",
                                                 report::projection_fan_chart(fan)});

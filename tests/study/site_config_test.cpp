@@ -214,8 +214,9 @@ TEST(SiteConfig, PlanningListsAreSortedAndRLargestColumnsAreRead) {
   c = load_site_file(dir / "site.toml");
   EXPECT_EQ(c.fit.read.r_largest_columns, (std::vector<std::string>{"second", "third"}));
   EXPECT_EQ(c.fit.model, "rlargest");
-  EXPECT_THAT(c.fit.r_columns_input, HasSubstr("site.toml: record.r_largest_columns"));
+  EXPECT_EQ(c.fit.r_columns_input, "record.r_largest_columns");
   EXPECT_THAT(c.fit.model_input, HasSubstr("site.toml: extremes.model"));
+  EXPECT_EQ(c.fit.gev_choice, "extremes.model = \"gev\"");
 }
 
 // A study can fit the r-largest model: the site file's columns reach the reader, and the fit
@@ -245,8 +246,16 @@ TEST(SiteConfig, RLargestFitRunsFromTheSiteFile) {
     (void)tidewright::study::run_fit_stage(load_site_file(dir / "site.toml").fit);
     ADD_FAILURE() << "a fit without r-largest columns was accepted";
   } catch (const InputError& e) {
-    EXPECT_THAT(e.what(), HasSubstr("record.r_largest_columns"));
-    EXPECT_THAT(e.what(), HasSubstr("extremes.model gev"));
+    EXPECT_THAT(e.what(), HasSubstr("name them with record.r_largest_columns, or choose extremes.model = \"gev\""));
     EXPECT_THAT(e.what(), ::testing::Not(HasSubstr("--")));
   }
+}
+
+// Names that differ only where the file names do not (a space against '_', or case) would
+// also overwrite each other's files.
+TEST(SiteConfig, ScenarioNamesGiveDistinctFileNames) {
+  TempDir dir;
+  const auto m = error_for(dir, std::string(minimal) + "\n[[scenario]]\nname = \"Medium\"\npathway = \"midway\"\n");
+  EXPECT_THAT(m, HasSubstr("scenario[1].name: 'Medium' gives the same file names as the earlier [[scenario]] 'medium'"));
+  EXPECT_EQ(tidewright::study::scenario_file_stem("high end/2"), "high_end_2");
 }

@@ -62,8 +62,9 @@ struct FitRequest {
   // (detrending annual maxima, an epoch without detrending) are refused, defaults are not.
   std::string detrend_input = "--detrend";
   std::string epoch_input = "--epoch";
-  std::string r_columns_input = "--r-columns";
-  std::string model_input = "--model";
+  std::string r_columns_input = "--r-columns";  // named in hints
+  std::string model_input = "--model";          // where a bad model name is
+  std::string gev_choice = "--model gev";       // how to ask for a GEV instead, in hints
   bool detrend_given = false;
 };
 

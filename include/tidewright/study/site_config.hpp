@@ -121,6 +121,11 @@ struct SiteConfig {
   std::vector<std::string> notes;
 };
 
+// The stem of a scenario's table and figure file names: letters, digits, '-' and '_', anything
+// else turned into '_'. Two scenarios whose stems match without regard to case are refused by
+// load_site_file, since their files would overwrite each other.
+[[nodiscard]] std::string scenario_file_stem(std::string name);
+
 // The scenario map.first_year_scenario names (the last one when it names none).
 [[nodiscard]] const ScenarioSettings& first_year_scenario(const SiteConfig& c);
 
