@@ -6,6 +6,7 @@
 #include <cmath>
 #include <vector>
 
+#include "tidewright/climate/projection.hpp"
 #include "tidewright/common/error.hpp"
 
 using namespace tidewright::climate;
@@ -88,6 +89,64 @@ TEST(ClimateLandIce, GreenlandAntarcticaAndLandWaterFollowTheirRates) {
   EXPECT_THROW((void)greenland_rise_m(g, years, {1.0}), tidewright::InputError);
   EXPECT_THROW((void)glacier_rise_m(GlacierParameters{}, years_from(2030, 2040), std::vector<double>(11, 1.0)),
                tidewright::InputError);
+}
+
+// A drift guard, not a check against the outside: the central member (every distribution at its
+// mean) on "midway" in 2100, relative to 1995-2014, as calibrated (docs/methods-climate.md
+// section 4). The ensemble's calibration test allows 10 % on the medians; this catches a change
+// of a few millimetres in any calibrated constant or in the physics that carries it.
+TEST(ClimateLandIce, CentralMemberIsStable) {
+  ProjectionOptions o;
+  o.first_year = 1850;
+  o.last_year = 2100;
+  const MemberPath p = simulate_member(builtin_pathway("midway"), o.central, o);
+  auto rel_2100 = [&](const std::vector<double>& v) {
+    double base = 0.0;
+    for (int y = 1995; y <= 2014; ++y) base += v[static_cast<std::size_t>(y - 1850)] / 20.0;
+    return v[2100 - 1850] - base;
+  };
+  EXPECT_NEAR(rel_2100(p.thermal_efficiency_m), 0.1949, 0.0005);
+  EXPECT_NEAR(rel_2100(p.glaciers_m), 0.1241, 0.0005);
+  EXPECT_NEAR(rel_2100(p.greenland_m), 0.0775, 0.0005);
+  EXPECT_NEAR(rel_2100(p.antarctica_m), 0.1134, 0.0005);
+  EXPECT_NEAR(rel_2100(p.land_water_m), 0.0300, 0.0005);
+}
+
+// The glacier closed form on a warming ramp that crosses T_g0 (-0.2 K): from -1 K in 1900 to
+// 3 K in 2300 in straight steps, against fine RK4 on the same piecewise-linear path. Simpson's
+// rule is exact within a year where T - T_g0 keeps its sign; the one year that crosses it is
+// where the two may differ, by far less than a millimetre.
+TEST(ClimateLandIce, GlacierClosedFormFollowsAWarmingRampAcrossItsThreshold) {
+  GlacierParameters p;
+  p.factor = 0.8;
+  const std::vector<int> years = years_from(1900, 2300);
+  std::vector<double> warming;
+  for (int y : years) warming.push_back(-1.0 + 4.0 * (y - 1900) / 400.0 + 0.013);  // crosses T_g0 within 1978-79
+  const std::vector<double> s = glacier_rise_m(p, years, warming);
+  // RK4 from 2019 along the ramp, forward to 2100 and 2300.
+  const auto t_at = [&](double year) { return -1.0 + 4.0 * (year - 1900.0) / 400.0 + 0.013; };
+  const auto dv = [&](double year, double vol) {
+    const double x = t_at(year) - p.equilibrium_warming_k;
+    return vol <= 0.0 ? 0.0 : -p.factor * (p.sensitivity_m_per_yr_k * x + p.quadratic_m_per_yr_k2 * x * std::fabs(x)) *
+                                  std::pow(vol / p.volume_2019_m, p.volume_exponent);
+  };
+  const auto volume_at = [&](double to_year) {
+    double v = p.volume_2019_m;
+    const int steps = 40000;
+    const double h = (to_year - 2019.0) / steps;
+    for (int i = 0; i < steps; ++i) {
+      const double t = 2019.0 + i * h;
+      const double k1 = dv(t, v), k2 = dv(t + 0.5 * h, v + 0.5 * h * k1), k3 = dv(t + 0.5 * h, v + 0.5 * h * k2),
+                   k4 = dv(t + h, v + h * k3);
+      v += h / 6.0 * (k1 + 2 * k2 + 2 * k3 + k4);
+    }
+    return v;
+  };
+  const std::size_t i2019 = 2019 - 1900;
+  for (int year : {1950, 2100, 2300}) {
+    const auto i = static_cast<std::size_t>(year - 1900);
+    EXPECT_NEAR(p.volume_2019_m - (s[i] - s[i2019]), volume_at(year), 1e-6) << year;
+  }
 }
 
 // However extreme the warming, no ice sheet gives more than its inventory (7.42 m Greenland,

@@ -1,6 +1,7 @@
-// How much each prior marked "from memory" in climate::ParameterDistributions (and the glaciers'
-// T_g0) moves the 2100 allowance, for the table in docs/methods-climate.md ("Sensitivity to the
-// priors"): the test recomputes every row and refuses a table that has drifted from the code.
+// How much the spread of each prior in climate::ParameterDistributions (and the glaciers' T_g0)
+// moves the 2100 allowance, for the table in docs/methods-climate.md (5.1, "Sensitivity of the
+// allowance to the priors"): the test recomputes every row and refuses a table that has drifted
+// from the code.
 // Setting: pathway midway, 10,000 members, seed 20261201, rise from 1995-2014, a Gumbel
 // present-day model of scale 0.127 m (an invented, typical tide-gauge scale), today's 100-year
 // level; each prior's spread halved and raised by half, the same seed for all (common random

@@ -21,7 +21,7 @@ inline constexpr double preindustrial_co2_ppm = 277.15;
 inline constexpr double preindustrial_n2o_ppb = 273.87;
 
 // Effective radiative forcing of doubled CO2 as IPCC AR6 assessed it, 3.93 +- 0.47 W m-2 (AR6
-// WG1 sec. 7.3.2.1; from memory): the convention of the built-in pathways' effective forcings,
+// WG1 sec. 7.3.2.1; confirmed): the convention of the built-in pathways' effective forcings,
 // so the sensitivity they imply is 3.93/lambda, not 3.71/lambda (docs/methods-climate.md 2.2).
 inline constexpr double ar6_co2_doubling_erf_w_m2 = 3.93;
 

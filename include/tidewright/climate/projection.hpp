@@ -56,11 +56,12 @@ struct ParameterDistributions {
   TruncatedNormal glacier_sensitivity_factor{1.0, 0.15, 0.3, 2.0};
   TruncatedNormal greenland_factor{1.0, 0.42, 0.2, 2.5};
   TruncatedNormal antarctic_snowfall_increase_per_k{0.05, 0.015, 0.0, 0.12};  // Frieler et al. (2015), from memory
-  // Log-normal f_A, median 1: with 0.8 the Antarctic likely ranges of AR6 Table 9.9 are met within
-  // 0.02 m on all three pathways (calibrated; docs/methods-climate.md, section 6).
+  // Log-normal f_A, median 1: 0.8 (chosen wide earlier, from memory) meets the Antarctic likely
+  // ranges of AR6 Table 9.9 within 0.02 m on all three pathways (checked, docs section 6).
   double antarctic_discharge_log_sd = 0.8;
-  // ln f_A is bounded at 2.5 sd (f_A in x0.14..x7.4): unbounded, the top member of 10,000 lost
-  // 3.4 m from Antarctica by 2100 on "midway", an artefact of the log-normal tail (choice).
+  // ln f_A is bounded at 2.5 sd (f_A in x0.14..x7.4), a choice: unbounded, the top member of
+  // 10,000 lost 3.4 m from Antarctica by 2100 on "midway" with the earlier surface-driven form,
+  // an artefact of the log-normal tail.
   double antarctic_discharge_log_bound_sd = 2.5;
   TruncatedNormal land_water_factor{1.0, 0.3, 0.0, 2.5};
 };

@@ -30,7 +30,8 @@ inline constexpr double ocean_heat_fraction = 0.91;
 // (IOC, SCOR & IAPSO 2010), times a reference density of 1025 kg m-3 (common practice).
 inline constexpr double seawater_rho_cp_j_m3_k = 1025.0 * 3991.86795711963;
 // Expansion efficiency of heat, CMIP5 mean and spread: 0.11 +- 0.01 m per YJ
-// (Kuhlbrodt & Gregory 2012; secondary, docs/references.md).
+// (Kuhlbrodt & Gregory 2012; secondary, docs/references.md). The literature value: the
+// projection draws its own, calibrated mean (projection.hpp), and always passes it.
 inline constexpr double expansion_efficiency_m_per_yj = 0.11;
 inline constexpr double expansion_efficiency_sd_m_per_yj = 0.01;
 
