@@ -12,13 +12,6 @@
 namespace tidewright {
 namespace {
 
-bool iequals(std::string_view a, std::string_view b) {
-  return a.size() == b.size() && std::equal(a.begin(), a.end(), b.begin(), [](char x, char y) {
-           return std::tolower(static_cast<unsigned char>(x)) ==
-                  std::tolower(static_cast<unsigned char>(y));
-         });
-}
-
 // Returns the 1-based line of the first byte that breaks UTF-8, or 0 if the text is valid.
 std::size_t first_invalid_utf8_line(std::string_view s) {
   std::size_t line = 1;
@@ -46,6 +39,13 @@ std::size_t first_invalid_utf8_line(std::string_view s) {
 }
 
 }  // namespace
+
+bool iequals(std::string_view a, std::string_view b) {
+  return a.size() == b.size() && std::equal(a.begin(), a.end(), b.begin(), [](char x, char y) {
+           return std::tolower(static_cast<unsigned char>(x)) ==
+                  std::tolower(static_cast<unsigned char>(y));
+         });
+}
 
 std::string trim(std::string_view text) {
   const auto* begin = text.begin();

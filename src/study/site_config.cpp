@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cctype>
 
+#include "tidewright/common/csv.hpp"
 #include "tidewright/common/error.hpp"
 #include "tidewright/study/option_names.hpp"
 #include "toml_reader.hpp"
@@ -21,11 +22,6 @@ std::vector<double> positive_periods(TomlReader& t, std::string_view key, std::v
   require(!v.empty(), t, key, "is empty", "list at least one return period in years");
   for (double p : v) require(p > 1.0, t, key, "holds a return period <= 1 year", "give return periods above 1 year");
   return v;
-}
-
-std::string lower_case(std::string s) {
-  for (auto& ch : s) ch = static_cast<char>(std::tolower(static_cast<unsigned char>(ch)));
-  return s;
 }
 
 template <typename T>
@@ -147,7 +143,7 @@ void read_scenarios(TomlReader& root, SiteConfig& c) {
     ScenarioSettings s;
     s.name = sc.string("name");
     const auto same_files = [&](const ScenarioSettings& earlier) {
-      return lower_case(scenario_file_stem(earlier.name)) == lower_case(scenario_file_stem(s.name));
+      return iequals(scenario_file_stem(earlier.name), scenario_file_stem(s.name));
     };
     const auto earlier = std::find_if(c.scenarios.begin(), c.scenarios.end(), same_files);
     require(earlier == c.scenarios.end(), sc, "name",

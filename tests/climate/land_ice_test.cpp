@@ -20,19 +20,21 @@ std::vector<int> years_from(int first, int last) {
 }
 
 // The glacier ODE dS/dt = g(T - T0) (V/V_19)^n, g(x) = a x + q x|x|, V = V_19 - (S - S_19),
-// integrated by fine RK4 from 2019 forward and backward: an independent check of the closed form
-// in land_ice.cpp.
-double rk4_glacier_volume(const GlacierParameters& p, double warming_k, double years) {
-  double v = p.volume_2019_m;
-  const int steps = 20000;
-  const double h = years / steps;
-  auto dv = [&](double vol) {
-    const double x = warming_k - p.equilibrium_warming_k;
+// integrated by fine RK4 from 2019 to `to_year` (forward or backward) along the warming
+// `warming_at(year)`: an independent check of the closed form in land_ice.cpp.
+template <typename Warming>
+double rk4_glacier_volume(const GlacierParameters& p, Warming warming_at, double to_year, int steps) {
+  const auto dv = [&](double year, double vol) {
+    const double x = warming_at(year) - p.equilibrium_warming_k;
     return vol <= 0.0 ? 0.0 : -p.factor * (p.sensitivity_m_per_yr_k * x + p.quadratic_m_per_yr_k2 * x * std::fabs(x)) *
                                   std::pow(vol / p.volume_2019_m, p.volume_exponent);
   };
+  double v = p.volume_2019_m;
+  const double h = (to_year - 2019.0) / steps;
   for (int i = 0; i < steps; ++i) {
-    const double k1 = dv(v), k2 = dv(v + 0.5 * h * k1), k3 = dv(v + 0.5 * h * k2), k4 = dv(v + h * k3);
+    const double t = 2019.0 + i * h;
+    const double k1 = dv(t, v), k2 = dv(t + 0.5 * h, v + 0.5 * h * k1), k3 = dv(t + 0.5 * h, v + 0.5 * h * k2),
+                 k4 = dv(t + h, v + h * k3);
     v += h / 6.0 * (k1 + 2 * k2 + 2 * k3 + k4);
   }
   return v;
@@ -50,7 +52,7 @@ TEST(ClimateLandIce, GlacierClosedFormMatchesRk4AndIsVolumeLimited) {
   const std::size_t i2019 = 2019 - 1900;
   for (int year : {1950, 2100, 2200}) {
     const auto i = static_cast<std::size_t>(year - 1900);
-    const double volume_rk4 = rk4_glacier_volume(p, 2.0, year - 2019.0);
+    const double volume_rk4 = rk4_glacier_volume(p, [](double) { return 2.0; }, year, 20000);
     EXPECT_NEAR(p.volume_2019_m - (s[i] - s[i2019]), volume_rk4, 1e-9) << year;
   }
   // Volume limit: the total loss after 2019 never exceeds the 2019 volume, and the loss rate falls.
@@ -120,32 +122,15 @@ TEST(ClimateLandIce, GlacierClosedFormFollowsAWarmingRampAcrossItsThreshold) {
   GlacierParameters p;
   p.factor = 0.8;
   const std::vector<int> years = years_from(1900, 2300);
+  const auto t_at = [](double year) { return -1.0 + 4.0 * (year - 1900.0) / 400.0 + 0.013; };  // crosses T_g0 in 1978-79
   std::vector<double> warming;
-  for (int y : years) warming.push_back(-1.0 + 4.0 * (y - 1900) / 400.0 + 0.013);  // crosses T_g0 within 1978-79
+  warming.reserve(years.size());
+  for (int y : years) warming.push_back(t_at(y));
   const std::vector<double> s = glacier_rise_m(p, years, warming);
-  // RK4 from 2019 along the ramp, forward to 2100 and 2300.
-  const auto t_at = [&](double year) { return -1.0 + 4.0 * (year - 1900.0) / 400.0 + 0.013; };
-  const auto dv = [&](double year, double vol) {
-    const double x = t_at(year) - p.equilibrium_warming_k;
-    return vol <= 0.0 ? 0.0 : -p.factor * (p.sensitivity_m_per_yr_k * x + p.quadratic_m_per_yr_k2 * x * std::fabs(x)) *
-                                  std::pow(vol / p.volume_2019_m, p.volume_exponent);
-  };
-  const auto volume_at = [&](double to_year) {
-    double v = p.volume_2019_m;
-    const int steps = 40000;
-    const double h = (to_year - 2019.0) / steps;
-    for (int i = 0; i < steps; ++i) {
-      const double t = 2019.0 + i * h;
-      const double k1 = dv(t, v), k2 = dv(t + 0.5 * h, v + 0.5 * h * k1), k3 = dv(t + 0.5 * h, v + 0.5 * h * k2),
-                   k4 = dv(t + h, v + h * k3);
-      v += h / 6.0 * (k1 + 2 * k2 + 2 * k3 + k4);
-    }
-    return v;
-  };
   const std::size_t i2019 = 2019 - 1900;
   for (int year : {1950, 2100, 2300}) {
     const auto i = static_cast<std::size_t>(year - 1900);
-    EXPECT_NEAR(p.volume_2019_m - (s[i] - s[i2019]), volume_at(year), 1e-6) << year;
+    EXPECT_NEAR(p.volume_2019_m - (s[i] - s[i2019]), rk4_glacier_volume(p, t_at, year, 40000), 1e-6) << year;
   }
 }
 

@@ -41,6 +41,15 @@ std::string error_for(const TempDir& dir, const std::string& text) {
   }
   return "";
 }
+
+// The minimal site file reading `csv` as annual maxima with r-largest columns, and asking for the
+// r-largest model.
+std::string r_largest_site(const std::string& csv) {
+  std::string text = minimal;
+  text.replace(text.find("path = \"data/gauge.csv\""), 23,
+               "path = \"" + csv + "\"\nkind = \"annual-maxima\"\nr_largest_columns = [\"second\", \"third\"]");
+  return text + "\n[extremes]\nmodel = \"rlargest\"\n";
+}
 }  // namespace
 
 TEST(SiteConfig, MinimalFileGetsDocumentedDefaults) {
@@ -207,10 +216,7 @@ TEST(SiteConfig, PlanningListsAreSortedAndRLargestColumnsAreRead) {
   auto c = load_site_file(dir / "site.toml");
   EXPECT_EQ(c.planning.design_years, (std::vector<int>{2050, 2100}));
   EXPECT_EQ(c.planning.return_periods_yr, (std::vector<double>{10.0, 50.0, 100.0}));
-  std::string text = minimal;
-  text.replace(text.find("path = \"data/gauge.csv\""), 23,
-               "path = \"data/gauge.csv\"\nkind = \"annual-maxima\"\nr_largest_columns = [\"second\", \"third\"]");
-  tidewright::write_text_file(dir / "site.toml", text + "\n[extremes]\nmodel = \"rlargest\"\n", true);
+  tidewright::write_text_file(dir / "site.toml", r_largest_site("data/gauge.csv"), true);
   c = load_site_file(dir / "site.toml");
   EXPECT_EQ(c.fit.read.r_largest_columns, (std::vector<std::string>{"second", "third"}));
   EXPECT_EQ(c.fit.model, "rlargest");
@@ -231,17 +237,15 @@ TEST(SiteConfig, RLargestFitRunsFromTheSiteFile) {
   }
   std::filesystem::create_directories(dir / "data");
   tidewright::write_text_file(dir / "data/maxima.csv", csv, false);
-  std::string text = minimal;
-  text.replace(text.find("path = \"data/gauge.csv\""), 23,
-               "path = \"data/maxima.csv\"\nkind = \"annual-maxima\"\nr_largest_columns = [\"second\", \"third\"]");
-  tidewright::write_text_file(dir / "site.toml", text + "\n[extremes]\nmodel = \"rlargest\"\n", false);
+  std::string text = r_largest_site("data/maxima.csv");
+  tidewright::write_text_file(dir / "site.toml", text, false);
   const auto c = load_site_file(dir / "site.toml");
   const auto r = tidewright::study::run_fit_stage(c.fit);
   EXPECT_EQ(r.model, "rlargest");
   EXPECT_EQ(r.fit.n, 20U);
   // Without the columns the message names the site-file keys, not the command's flags.
   text.replace(text.find("r_largest_columns = [\"second\", \"third\"]"), 39, "");
-  tidewright::write_text_file(dir / "site.toml", text + "\n[extremes]\nmodel = \"rlargest\"\n", true);
+  tidewright::write_text_file(dir / "site.toml", text, true);
   try {
     (void)tidewright::study::run_fit_stage(load_site_file(dir / "site.toml").fit);
     ADD_FAILURE() << "a fit without r-largest columns was accepted";

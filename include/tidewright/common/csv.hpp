@@ -78,6 +78,8 @@ class CsvTable {
 // Parses a whole cell as a finite double (leading/trailing blanks allowed); nullopt otherwise.
 [[nodiscard]] std::optional<double> parse_finite_double(std::string_view text);
 [[nodiscard]] std::string trim(std::string_view text);
+/// Equal letter for letter without regard to ASCII case.
+[[nodiscard]] bool iequals(std::string_view a, std::string_view b);
 /// One CSV cell as written: quoted (RFC 4180) when it holds a comma, quote or line break.
 [[nodiscard]] std::string csv_field(std::string_view text);
 /// A calendar year written as a number ("2100", "2100.0"); nullopt unless whole and within
